@@ -42,14 +42,46 @@ type BJT struct {
 	HFE    float64 // the forward beta βF used
 	IS     float64 // saturation current at the case's temperature, A
 	Region string  // "cutoff" (IC < 1 µA, tested first), "saturated" (VCE < 0.3 V) or "active"
+
+	// The same four figures in the device's forward sense: as measured for an
+	// NPN, every sign mirrored for a PNP, so a forward-active stage of either
+	// polarity has all four positive. They keep the sign the magnitudes lose:
+	// the AC model needs it (gm = IC/VT, 0 when IC ≤ 0) and Region and Power are
+	// computed from them (Power is then the true dissipation in any state).
+	ICf  float64 // A, positive into an NPN's collector, out of a PNP's
+	IBf  float64 // A, positive into an NPN's base, out of a PNP's
+	VBEf float64 // V, V(base) − V(emitter) for an NPN, V(emitter) − V(base) for a PNP
+	VCEf float64 // V, V(collector) − V(emitter) for an NPN, the reverse for a PNP
 }
 
-// Failure explains why no operating point was found; the bias.region rule
-// reports it. Net or Part names the place when one can be named.
+// Failure explains why no operating point was found. Cause says which rule
+// reports it: a connectivity failure (a loop of zero-resistance windings or
+// inductors, a supply shorted to gnd or to another supply) belongs to
+// net.connectivity, everything else to bias.region. Net or Part names the place
+// when one can be named; Parts lists every part involved.
 type Failure struct {
 	Reason string
 	Net    string
 	Part   string
+	Cause  Cause
+	Parts  []string // every part named by Reason, Part first; windings as REF.WINDING
 }
+
+// Cause classifies a Failure.
+type Cause string
+
+// The causes of a Failure.
+const (
+	// Connectivity: the network has no unique DC solution by its topology
+	// alone (zero-resistance loop, shorted ideal supplies).
+	Connectivity Cause = "connectivity"
+	// Singular: the linearised network could not be solved.
+	Singular Cause = "singular"
+	// NoConvergence: Newton iteration and both fall-backs failed.
+	NoConvergence Cause = "no-convergence"
+	// Invalid: a value the loader should have rejected (zero resistance,
+	// missing transistor figures, wrong number of nets).
+	Invalid Cause = "invalid"
+)
 
 func (f *Failure) Error() string { return f.Reason }

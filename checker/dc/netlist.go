@@ -1,0 +1,400 @@
+package dc
+
+import (
+	"fmt"
+	"math"
+	"strings"
+
+	"headroom/checker/circuit"
+)
+
+// Physical constants, exact in the SI since 2019 (REFERENCES.md §3).
+const (
+	Boltzmann  = 1.380649e-23    // J/K
+	Charge     = 1.602176634e-19 // C
+	zeroC      = 273.15          // K at 0 °C
+	gminModel  = 1e-12           // S from every net to gnd (FORMAT.md §6)
+	minPotSide = 1e-3            // Ω, the least a potentiometer section may be
+	betaR      = 1.0             // reverse beta (FORMAT.md §6)
+)
+
+// ThermalVoltage is k·T/q at tempC in °C, with the exact SI constants.
+func ThermalVoltage(tempC float64) float64 {
+	return Boltzmann * (tempC + zeroC) / Charge
+}
+
+// SaturationCurrent is the Ebers–Moll IS that FORMAT.md §6 derives from a
+// datasheet's VBE at ic_ref and 25 °C: IS = ic_ref / e^(VBEref/VT) with
+// VBEref = vbe − 0.002·(T − 25), so VBE at constant current falls 2 mV/°C.
+func SaturationCurrent(p *circuit.BJTParams, tempC float64) float64 {
+	vt := ThermalVoltage(tempC)
+	vbeRef := p.VBE - 0.002*(tempC-25)
+	return p.ICRef / math.Exp(vbeRef/vt)
+}
+
+// gnd is the unknown index of the reference net: it has no row.
+const gnd = -1
+
+// conductance is a linear resistor between two unknowns (either may be gnd).
+type conductance struct {
+	a, b int
+	g    float64
+}
+
+// source is a branch whose voltage is fixed: V(p) − V(m) = e. Its current,
+// unknown number row, flows from p through the branch to m.
+type source struct {
+	p, m int
+	e    float64 // V at full source strength (0 for a short)
+	row  int
+}
+
+// norton is the current a supply behind an impedance injects into its net at
+// full source strength.
+type norton struct {
+	n int
+	i float64 // A
+}
+
+// bjt is one transistor with the Newton state of its junctions.
+type bjt struct {
+	ref     string
+	c, b, e int
+	pol     float64 // +1 NPN, −1 PNP
+	is      float64 // A
+	betaF   float64
+	vcrit   float64 // V, where the junction limiting starts
+	vbe     float64 // V, forward sense, the point the last stamp was taken at
+	vbc     float64
+	moved   float64 // V, the largest junction change of the last iteration
+	limited bool    // whether the last iteration limited a junction
+}
+
+// netlist is a circuit compiled to index form: everything Newton's loop needs,
+// with no maps and no strings on the hot path.
+type netlist struct {
+	names   []string // net name of each node unknown
+	index   map[string]int
+	nodes   int // node unknowns; branch currents follow them
+	size    int // all unknowns
+	vt      float64
+	tempC   float64
+	conds   []conductance
+	sources []source
+	nortons []norton
+	bjts    []bjt
+	// what each branch row belongs to, for messages: a part ref, REF.WINDING,
+	// or "supply NET".
+	branchOwner []string
+}
+
+func invalid(part, format string, args ...any) *Failure {
+	return &Failure{Reason: part + ": " + fmt.Sprintf(format, args...), Part: part, Cause: Invalid, Parts: []string{part}}
+}
+
+func positive(x float64) bool { return x > 0 && !math.IsInf(x, 0) }
+
+func finite(x float64) bool { return !math.IsNaN(x) && !math.IsInf(x, 0) }
+
+// compile builds the index form of c and checks the zero-resistance topology.
+func compile(c *circuit.Circuit) (*netlist, *Failure) {
+	nl := &netlist{index: map[string]int{}}
+	nl.tempC = c.Ambient.Nominal
+	if !finite(nl.tempC) || nl.tempC+zeroC <= 0 {
+		return nil, &Failure{Reason: fmt.Sprintf("ambient %g °C is not a temperature", nl.tempC), Cause: Invalid}
+	}
+	nl.vt = ThermalVoltage(nl.tempC)
+	nl.names = c.Nets()
+	for i, n := range nl.names {
+		nl.index[n] = i
+	}
+	nl.nodes = len(nl.names)
+	node := func(net string) int {
+		if net == circuit.Gnd {
+			return gnd
+		}
+		return nl.index[net]
+	}
+	shorts := newShortFinder(nl.nodes)
+	addBranch := func(p, m int, e float64, owner string) {
+		nl.sources = append(nl.sources, source{p: p, m: m, e: e, row: nl.nodes + len(nl.sources)})
+		nl.branchOwner = append(nl.branchOwner, owner)
+	}
+
+	for _, s := range c.Supplies {
+		if s == nil {
+			continue
+		}
+		owner := "supply " + s.Net
+		if !finite(s.Volts) || !(s.Impedance >= 0) || math.IsInf(s.Impedance, 0) {
+			return nil, &Failure{Reason: fmt.Sprintf("supply %s: volts %g behind %g Ω is not a source", s.Net, s.Volts, s.Impedance), Net: s.Net, Cause: Invalid}
+		}
+		n := node(s.Net)
+		if s.Impedance == 0 {
+			if f := shorts.add(n, gnd, owner, true); f != nil {
+				return nil, f.failure(nl)
+			}
+			addBranch(n, gnd, s.Volts, owner)
+			continue
+		}
+		nl.conds = append(nl.conds, conductance{n, gnd, 1 / s.Impedance})
+		if n != gnd {
+			nl.nortons = append(nl.nortons, norton{n, s.Volts / s.Impedance})
+		}
+	}
+	for _, p := range c.Ports {
+		if p == nil {
+			continue
+		}
+		if !positive(p.Impedance) {
+			return nil, &Failure{Reason: fmt.Sprintf("port %s: impedance %g Ω", p.Name, p.Impedance), Net: p.Net, Cause: Invalid}
+		}
+		nl.conds = append(nl.conds, conductance{node(p.Net), gnd, 1 / p.Impedance})
+	}
+	for _, p := range c.Parts {
+		if p == nil {
+			continue
+		}
+		switch p.Kind {
+		case circuit.Resistor, circuit.Capacitor, circuit.Inductor:
+			if len(p.Nets) != 2 {
+				return nil, invalid(p.Ref, "needs two nets, has %d", len(p.Nets))
+			}
+		case circuit.Potentiometer, circuit.NPN, circuit.PNP:
+			if len(p.Nets) != 3 {
+				return nil, invalid(p.Ref, "needs three nets, has %d", len(p.Nets))
+			}
+		}
+		switch p.Kind {
+		case circuit.Resistor:
+			if !positive(p.Value) {
+				return nil, invalid(p.Ref, "resistance %g Ω", p.Value)
+			}
+			nl.conds = append(nl.conds, conductance{node(p.Nets[0]), node(p.Nets[1]), 1 / p.Value})
+		case circuit.Capacitor:
+			// open at DC
+		case circuit.Inductor:
+			if err := nl.addDCR(shorts, p.Ref, node(p.Nets[0]), node(p.Nets[1]), p.Resistance, addBranch); err != nil {
+				return nil, err
+			}
+		case circuit.Transformer:
+			for _, w := range p.Windings {
+				if w == nil {
+					continue
+				}
+				if err := nl.addDCR(shorts, p.Ref+"."+w.Name, node(w.Nets[0]), node(w.Nets[1]), w.Resistance, addBranch); err != nil {
+					return nil, err
+				}
+			}
+		case circuit.Potentiometer:
+			ra, rb, ok := potSections(p)
+			if !ok {
+				return nil, invalid(p.Ref, "value %g Ω at setting %g", p.Value, p.Setting)
+			}
+			w := node(p.Nets[1])
+			nl.conds = append(nl.conds, conductance{node(p.Nets[0]), w, 1 / ra}, conductance{w, node(p.Nets[2]), 1 / rb})
+		case circuit.NPN, circuit.PNP:
+			q, f := newBJT(p, nl.tempC, nl.vt)
+			if f != nil {
+				return nil, f
+			}
+			q.c, q.b, q.e = node(p.Nets[0]), node(p.Nets[1]), node(p.Nets[2])
+			nl.bjts = append(nl.bjts, q)
+		default:
+			return nil, invalid(p.Ref, "kind %q has no DC model", p.Kind)
+		}
+	}
+	nl.size = nl.nodes + len(nl.sources)
+	return nl, nil
+}
+
+// addDCR adds an inductor or winding: its resistance, or a 0 V branch when it
+// has none (so that its current is an unknown of its own).
+func (nl *netlist) addDCR(sf *shortFinder, owner string, a, b int, r float64, addBranch func(p, m int, e float64, owner string)) *Failure {
+	if !(r >= 0) || math.IsInf(r, 0) {
+		return invalid(owner, "DC resistance %g Ω", r)
+	}
+	if r > 0 {
+		nl.conds = append(nl.conds, conductance{a, b, 1 / r})
+		return nil
+	}
+	if f := sf.add(a, b, owner, false); f != nil {
+		return f.failure(nl)
+	}
+	addBranch(a, b, 0, owner)
+	return nil
+}
+
+// potSections splits a potentiometer's track at its wiper (FORMAT.md §6).
+func potSections(p *circuit.Part) (ra, rb float64, ok bool) {
+	if !positive(p.Value) || !(p.Setting >= 0 && p.Setting <= 1) {
+		return 0, 0, false
+	}
+	ra = math.Max(p.Value*(1-p.Setting), minPotSide)
+	rb = math.Max(p.Value*p.Setting, minPotSide)
+	return ra, rb, true
+}
+
+func newBJT(p *circuit.Part, tempC, vt float64) (bjt, *Failure) {
+	b := p.BJT
+	if b == nil {
+		return bjt{}, invalid(p.Ref, "no transistor figures")
+	}
+	hfe := b.NominalHFE()
+	if !positive(hfe) || !positive(b.ICRef) || !positive(b.VBE) {
+		return bjt{}, invalid(p.Ref, "hFE %g, vbe %g V, ic_ref %g A do not make a transistor", hfe, b.VBE, b.ICRef)
+	}
+	is := SaturationCurrent(b, tempC)
+	if !positive(is) {
+		return bjt{}, invalid(p.Ref, "saturation current %g A from vbe %g V at %g °C", is, b.VBE, tempC)
+	}
+	q := bjt{ref: p.Ref, pol: 1, is: is, betaF: hfe}
+	if p.Kind == circuit.PNP {
+		q.pol = -1
+	}
+	q.vcrit = vt * math.Log(vt/(math.Sqrt2*is))
+	return q, nil
+}
+
+// shortFinder keeps the forest of zero-resistance edges (ideal supplies,
+// inductors and windings without resistance). An edge that closes a cycle
+// makes the MNA matrix singular; the cycle is what the user must fix.
+type shortFinder struct {
+	parent []int // union-find over nodes, gnd at index n
+	edges  []shortEdge
+}
+
+type shortEdge struct {
+	a, b   int
+	owner  string
+	supply bool
+}
+
+// shortLoop is a cycle of zero-resistance edges.
+type shortLoop struct {
+	edges []shortEdge
+}
+
+func newShortFinder(n int) *shortFinder {
+	p := make([]int, n+1)
+	for i := range p {
+		p[i] = i
+	}
+	return &shortFinder{parent: p}
+}
+
+func (s *shortFinder) slot(i int) int {
+	if i == gnd {
+		return len(s.parent) - 1
+	}
+	return i
+}
+
+func (s *shortFinder) find(i int) int {
+	for s.parent[i] != i {
+		s.parent[i] = s.parent[s.parent[i]]
+		i = s.parent[i]
+	}
+	return i
+}
+
+// add records an edge, or returns the loop it closes.
+func (s *shortFinder) add(a, b int, owner string, supply bool) *shortLoop {
+	e := shortEdge{s.slot(a), s.slot(b), owner, supply}
+	ra, rb := s.find(e.a), s.find(e.b)
+	if ra == rb {
+		path := s.path(e.a, e.b)
+		return &shortLoop{edges: append(path, e)}
+	}
+	s.parent[ra] = rb
+	s.edges = append(s.edges, e)
+	return nil
+}
+
+// path finds the forest edges from a to b (they are known to be connected).
+func (s *shortFinder) path(a, b int) []shortEdge {
+	if a == b {
+		return nil
+	}
+	prev := map[int]int{a: -1} // slot → index of the edge that reached it
+	queue := []int{a}
+	for len(queue) > 0 {
+		v := queue[0]
+		queue = queue[1:]
+		if v == b {
+			break
+		}
+		for i, e := range s.edges {
+			var w int
+			switch v {
+			case e.a:
+				w = e.b
+			case e.b:
+				w = e.a
+			default:
+				continue
+			}
+			if _, seen := prev[w]; !seen {
+				prev[w] = i
+				queue = append(queue, w)
+			}
+		}
+	}
+	var out []shortEdge
+	for v := b; v != a; {
+		i, ok := prev[v]
+		if !ok || i < 0 {
+			break
+		}
+		e := s.edges[i]
+		out = append(out, e)
+		if e.a == v {
+			v = e.b
+		} else {
+			v = e.a
+		}
+	}
+	return out
+}
+
+// failure words the loop for the user.
+func (l *shortLoop) failure(nl *netlist) *Failure {
+	var supplies, parts []string
+	for _, e := range l.edges {
+		if e.supply {
+			supplies = append(supplies, strings.TrimPrefix(e.owner, "supply "))
+		} else {
+			parts = append(parts, e.owner)
+		}
+	}
+	f := &Failure{Cause: Connectivity, Parts: parts}
+	if len(parts) > 0 {
+		f.Part = parts[0]
+	}
+	through := ""
+	if len(parts) > 0 {
+		through = " through " + strings.Join(parts, ", ") + " (no DC resistance)"
+	}
+	switch len(supplies) {
+	case 0:
+		f.Reason = "a loop of zero-resistance inductors or windings has no defined DC current: " +
+			strings.Join(parts, ", ") + "; give one of them a resistance"
+		if len(parts) == 1 {
+			f.Reason = parts[0] + " has both ends on one net and no DC resistance, so its DC current is undefined; give it a resistance"
+		}
+		if e := l.edges[0]; e.a < len(nl.names) {
+			f.Net = nl.names[e.a]
+		}
+	case 1:
+		f.Net = supplies[0]
+		if supplies[0] == circuit.Gnd {
+			f.Reason = "a supply on gnd is shorted by definition"
+		} else {
+			f.Reason = "supply " + supplies[0] + " is shorted to gnd" + through
+		}
+	default:
+		f.Net = supplies[0]
+		f.Reason = "supplies " + strings.Join(supplies, " and ") + " are shorted together" + through
+	}
+	return f
+}

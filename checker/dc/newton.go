@@ -1,0 +1,303 @@
+package dc
+
+import (
+	"math"
+
+	"gonum.org/v1/gonum/mat"
+)
+
+// Newton iteration limits and tolerances. The tolerances are tight because
+// rules compare currents to 0.1 %, and Newton's last step is quadratic: a step
+// of 1e-7 relative leaves a current error far below that.
+const (
+	maxNewton   = 100  // iterations of one Newton attempt
+	maxStepIter = 60   // iterations of one continuation step
+	maxSteps    = 200  // continuation steps of one fall-back
+	relTol      = 1e-7 // relative change of an unknown between iterations
+	voltTol     = 1e-9 // V, absolute change of a node voltage
+	ampTol      = 1e-12
+	gminStart   = 1e-2 // S, the first extra shunt of gmin stepping
+	gminFloor   = 1e-13
+)
+
+// outcome of one Newton attempt.
+type outcome int
+
+const (
+	converged outcome = iota
+	diverged
+	singular
+)
+
+// solver holds the matrices of one Solve, reused across every iteration.
+type solver struct {
+	nl    *netlist
+	n     int
+	base  []float64 // linear part of the MNA matrix, row-major n×n
+	bsrc  []float64 // right-hand side of the sources at full strength
+	a     *mat.Dense
+	rhs   *mat.VecDense
+	xv    *mat.VecDense
+	lu    mat.LU
+	x     []float64 // current solution
+	save  []float64
+	saveJ []float64 // junction state of every transistor, for a step that fails
+	iters int       // Newton iterations, all attempts of the current method
+	// the unknown with the smallest pivot when the matrix was singular
+	singularAt int
+}
+
+func newSolver(nl *netlist) *solver {
+	n := nl.size
+	s := &solver{nl: nl, n: n, base: make([]float64, n*n), bsrc: make([]float64, n)}
+	s.a = mat.NewDense(n, n, nil)
+	s.rhs = mat.NewVecDense(n, nil)
+	s.xv = mat.NewVecDense(n, nil)
+	s.x = make([]float64, n)
+	s.save = make([]float64, n)
+	s.saveJ = make([]float64, 2*len(nl.bjts))
+
+	add := func(i, j int, v float64) {
+		if i != gnd && j != gnd {
+			s.base[i*n+j] += v
+		}
+	}
+	for i := 0; i < nl.nodes; i++ {
+		s.base[i*n+i] += gminModel
+	}
+	for _, c := range nl.conds {
+		add(c.a, c.a, c.g)
+		add(c.b, c.b, c.g)
+		add(c.a, c.b, -c.g)
+		add(c.b, c.a, -c.g)
+	}
+	for _, v := range nl.sources {
+		add(v.p, v.row, 1)
+		add(v.m, v.row, -1)
+		add(v.row, v.p, 1)
+		add(v.row, v.m, -1)
+		s.bsrc[v.row] += v.e
+	}
+	for _, no := range nl.nortons {
+		s.bsrc[no.n] += no.i
+	}
+	return s
+}
+
+// volt is the voltage of unknown i in x (gnd is 0).
+func volt(x []float64, i int) float64 {
+	if i == gnd {
+		return 0
+	}
+	return x[i]
+}
+
+// newton iterates from s.x at source strength scale with an extra shunt
+// gshunt from every net to gnd. With initJct the first iteration linearises
+// every transistor at the critical base-emitter voltage instead of at s.x.
+// On success s.x holds the solution.
+func (s *solver) newton(scale, gshunt float64, maxIter int, initJct bool) outcome {
+	nl := s.nl
+	n := s.n
+	ad := s.a.RawMatrix().Data
+	bd := s.rhs.RawVector().Data
+	for it := 0; it < maxIter; it++ {
+		s.iters++
+		copy(ad, s.base)
+		for i := range bd {
+			bd[i] = scale * s.bsrc[i]
+		}
+		if gshunt > 0 {
+			for i := 0; i < nl.nodes; i++ {
+				ad[i*n+i] += gshunt
+			}
+		}
+		anyLimited := false
+		for k := range nl.bjts {
+			q := &nl.bjts[k]
+			var vbe, vbc float64
+			if initJct && it == 0 {
+				vbe, vbc = q.vcrit, 0
+				q.moved, q.limited = math.Inf(1), true
+			} else {
+				rbe := q.pol * (volt(s.x, q.b) - volt(s.x, q.e))
+				rbc := q.pol * (volt(s.x, q.b) - volt(s.x, q.c))
+				var l1, l2 bool
+				vbe, l1 = limitJunction(rbe, q.vbe, nl.vt, q.vcrit)
+				vbc, l2 = limitJunction(rbc, q.vbc, nl.vt, q.vcrit)
+				q.moved = math.Max(math.Abs(rbe-q.vbe), math.Abs(rbc-q.vbc))
+				q.limited = l1 || l2
+			}
+			anyLimited = anyLimited || q.limited
+			q.vbe, q.vbc = vbe, vbc
+			s.stamp(q, ad, bd)
+		}
+
+		s.lu.Factorize(s.a)
+		if err := s.lu.SolveVecTo(s.xv, false, s.rhs); err != nil {
+			if c, ok := err.(mat.Condition); ok && !math.IsInf(float64(c), 1) {
+				// Badly scaled but solved (a 1 mΩ section beside 1e-12 S):
+				// the result is checked for finiteness below.
+			} else {
+				s.singularAt = s.smallestPivot()
+				return singular
+			}
+		}
+		xn := s.xv.RawVector().Data
+		done := !anyLimited
+		for i, v := range xn {
+			if !finite(v) {
+				return diverged
+			}
+			tol := ampTol
+			if i < nl.nodes {
+				tol = voltTol
+			}
+			if math.Abs(v-s.x[i]) > relTol*math.Max(math.Abs(v), math.Abs(s.x[i]))+tol {
+				done = false
+			}
+		}
+		copy(s.x, xn)
+		if done {
+			return converged
+		}
+	}
+	return diverged
+}
+
+// stamp adds transistor q, linearised at its junction state, to the matrix
+// data ad and right-hand side bd. The Jacobian with respect to node voltages
+// does not depend on polarity; the currents change sign for a PNP.
+func (s *solver) stamp(q *bjt, ad, bd []float64) {
+	n := s.n
+	p := q.eval(q.vbe, q.vbc, s.nl.vt)
+	add := func(i, j int, v float64) {
+		if i != gnd && j != gnd {
+			ad[i*n+j] += v
+		}
+	}
+	// Collector row: IC(vbe, vbc) with vbe = pol(Vb − Ve), vbc = pol(Vb − Vc).
+	gcb := p.dicDvbe + p.dicDvbc
+	gbb := p.dibDvbe + p.dibDvbc
+	eqC := q.pol * (p.ic - p.dicDvbe*q.vbe - p.dicDvbc*q.vbc)
+	eqB := q.pol * (p.ib - p.dibDvbe*q.vbe - p.dibDvbc*q.vbc)
+
+	add(q.c, q.b, gcb)
+	add(q.c, q.e, -p.dicDvbe)
+	add(q.c, q.c, -p.dicDvbc)
+	add(q.b, q.b, gbb)
+	add(q.b, q.e, -p.dibDvbe)
+	add(q.b, q.c, -p.dibDvbc)
+	// Emitter row: −(collector + base).
+	add(q.e, q.b, -gcb-gbb)
+	add(q.e, q.e, p.dicDvbe+p.dibDvbe)
+	add(q.e, q.c, p.dicDvbc+p.dibDvbc)
+	if q.c != gnd {
+		bd[q.c] -= eqC
+	}
+	if q.b != gnd {
+		bd[q.b] -= eqB
+	}
+	if q.e != gnd {
+		bd[q.e] += eqC + eqB
+	}
+}
+
+// smallestPivot names the unknown whose column has the smallest pivot in the
+// last factorisation: the one the network does not determine.
+func (s *solver) smallestPivot() int {
+	var u mat.TriDense
+	s.lu.UTo(&u)
+	best, at := math.Inf(1), 0
+	for k := 0; k < s.n; k++ {
+		if v := math.Abs(u.At(k, k)); v < best || math.IsNaN(v) {
+			best, at = v, k
+		}
+	}
+	return at
+}
+
+func (s *solver) push() {
+	copy(s.save, s.x)
+	for k := range s.nl.bjts {
+		s.saveJ[2*k], s.saveJ[2*k+1] = s.nl.bjts[k].vbe, s.nl.bjts[k].vbc
+	}
+}
+
+func (s *solver) pop() {
+	copy(s.x, s.save)
+	for k := range s.nl.bjts {
+		s.nl.bjts[k].vbe, s.nl.bjts[k].vbc = s.saveJ[2*k], s.saveJ[2*k+1]
+	}
+}
+
+func (s *solver) reset() {
+	clear(s.x)
+	for k := range s.nl.bjts {
+		s.nl.bjts[k].vbe, s.nl.bjts[k].vbc = 0, 0
+	}
+	s.iters = 0
+}
+
+// gminStepping solves with a large shunt from every net to gnd, then lowers
+// it step by step to nothing, each step starting from the last solution.
+func (s *solver) gminStepping() outcome {
+	s.reset()
+	g := gminStart
+	if o := s.newton(1, g, maxNewton, true); o != converged {
+		return o
+	}
+	factor := 10.0
+	for step := 0; step < maxSteps; step++ {
+		next := g / factor
+		if next < gminFloor {
+			next = 0
+		}
+		s.push()
+		switch s.newton(1, next, maxStepIter, false) {
+		case converged:
+			if next == 0 {
+				return converged
+			}
+			g = next
+			factor = math.Min(factor*factor, 10)
+		case singular:
+			return singular
+		default:
+			s.pop()
+			factor = math.Sqrt(factor)
+			if factor < 1.0001 {
+				return diverged
+			}
+		}
+	}
+	return diverged
+}
+
+// sourceStepping raises every supply from zero to full strength, each step
+// starting from the last solution.
+func (s *solver) sourceStepping() outcome {
+	s.reset()
+	level, step := 0.0, 0.1
+	for k := 0; k < maxSteps; k++ {
+		next := math.Min(1, level+step)
+		s.push()
+		switch s.newton(next, 0, maxStepIter, false) {
+		case converged:
+			if next == 1 {
+				return converged
+			}
+			level = next
+			step = math.Min(step*2, 0.25)
+		case singular:
+			return singular
+		default:
+			s.pop()
+			step /= 4
+			if step < 1e-5 {
+				return diverged
+			}
+		}
+	}
+	return diverged
+}
