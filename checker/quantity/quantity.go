@@ -11,6 +11,7 @@ import (
 	"errors"
 	"fmt"
 	"math"
+	"math/big"
 	"strconv"
 	"strings"
 	"unicode/utf8"
@@ -37,7 +38,7 @@ const (
 var unitNames = [...]string{"ohm", "F", "H", "V", "A", "W", "Hz", "m", "C", "fraction", "ratio"}
 
 func (u Unit) String() string {
-	if int(u) < len(unitNames) {
+	if u >= 0 && int(u) < len(unitNames) {
 		return unitNames[u]
 	}
 	return "?"
@@ -74,28 +75,50 @@ func (u Unit) describe() string {
 
 // unitSpellings are the unit words accepted after the number, per field.
 var unitSpellings = map[Unit][]string{
-	Ohm:     {"Ω", "Ω", "ohm", "ohms", "Ohm", "Ohms"},
-	Farad:   {"F"},
-	Henry:   {"H"},
-	Volt:    {"V"},
-	Ampere:  {"A"},
-	Watt:    {"W"},
-	Hertz:   {"Hz"},
-	Metre:   {"m"},
-	Celsius: {"C", "°C"},
+	Ohm:      {"\u03a9", "\u2126", "ohm", "ohms", "Ohm", "Ohms"}, // Greek capital omega, ohm sign
+	Farad:    {"F"},
+	Henry:    {"H"},
+	Volt:     {"V"},
+	Ampere:   {"A"},
+	Watt:     {"W"},
+	Hertz:    {"Hz"},
+	Metre:    {"m"},
+	Celsius:  {"C", "°C", "K"}, // K is kelvin, converted to °C
+	Fraction: {"%"},
 }
 
+// prefixes are the SI prefixes of FORMAT.md §1, with both micro signs
+// (U+00B5 micro sign, U+03BC Greek small mu).
 var prefixes = map[string]int{
-	"p": -12, "n": -9, "u": -6, "µ": -6, "μ": -6, "m": -3, "k": 3, "M": 6, "G": 9,
+	"p": -12, "n": -9, "u": -6, "\u00b5": -6, "\u03bc": -6, "m": -3, "k": 3, "M": 6, "G": 9,
 }
+
+// takesPrefix reports whether a field of unit u accepts SI prefixes. A
+// temperature, a fraction and a plain number do not.
+func takesPrefix(u Unit) bool {
+	return u != Celsius && u != Fraction && u != Ratio
+}
+
+// takesCode reports whether a field of unit u accepts a letter-and-digit code
+// (4k7, 2u2, 10M1). A length does not: in 9m5 the m could be the unit.
+func takesCode(u Unit) bool {
+	return takesPrefix(u) && u != Metre
+}
+
+// absoluteZero is 0 K in °C (the kelvin–Celsius offset fixed by the SI).
+var absoluteZero = big.NewRat(-27315, 100)
 
 // Error is a parse failure; the loader attaches the position.
 type Error struct {
 	Input string
 	Msg   string
+	err   error // a sentinel such as ErrNeedsUnit, for errors.Is
 }
 
 func (e *Error) Error() string { return e.Msg }
+
+// Unwrap gives the sentinel the failure wraps, if any (ErrNeedsUnit).
+func (e *Error) Unwrap() error { return e.err }
 
 func fail(s string, u Unit, why string) error {
 	if why != "" {
@@ -108,123 +131,171 @@ func fail(s string, u Unit, why string) error {
 var ErrNeedsUnit = errors.New("needs its unit")
 
 // Parse reads a quantity string for a field of unit u and returns it in SI base
-// units (°C for temperatures, a fraction for Fraction). It does not judge the
-// sign: callers decide whether zero or negative is allowed.
+// units (°C for temperatures, a fraction for Fraction). Every value it accepts
+// is finite. It does not judge the sign or the range (callers decide whether
+// zero, negative or a tolerance of 100 % is allowed); the one exception is a
+// temperature below absolute zero, which no field can hold.
 func Parse(s string, u Unit) (float64, error) {
 	t := strings.TrimSpace(s)
 	if t == "" {
 		return 0, fail(s, u, "empty")
 	}
-	mant, exp, rest, ok := leadingNumber(t)
+	n, ok := leadingNumber(t)
 	if !ok {
 		return 0, fail(s, u, "no number")
 	}
-	hadPoint := strings.ContainsAny(mant, ".eE")
+	rest := n.rest
 	// IEC 60062 letter-and-digit code: a letter stands in for the decimal point.
-	if !hadPoint && rest != "" {
-		if v, ok, err := parseCode(s, mant, rest, u); ok || err != nil {
+	if !n.point && !n.hasExp && rest != "" {
+		if v, ok, err := parseCode(s, n.mant, rest, u); ok || err != nil {
 			return v, err
 		}
 	}
-	if mant == "" {
+	if n.digits == 0 {
 		return 0, fail(s, u, "no number")
 	}
 	rest = strings.TrimLeft(rest, " ")
-	pexp, err := suffix(s, rest, u)
+	pexp, unit, err := suffix(s, rest, u)
 	if err != nil {
 		return 0, err
 	}
-	return finish(s, u, mant, exp+pexp, rest)
+	return finish(s, u, n.mant, n.exp+pexp, unit)
 }
 
 // finish converts the decimal digits once and applies the field's conversion.
-func finish(s string, u Unit, mant string, exp int, rest string) (float64, error) {
-	v, err := strconv.ParseFloat(mant+"e"+strconv.Itoa(exp), 64)
+// unit is the unit word after the prefix ("" when none was written).
+func finish(s string, u Unit, mant string, exp int, unit string) (float64, error) {
+	switch u {
+	case Celsius:
+		if unit == "" {
+			return 0, &Error{Input: s, err: ErrNeedsUnit,
+				Msg: fmt.Sprintf("temperature %q %v: write 25C, 25°C or 298.15K", s, ErrNeedsUnit)}
+		}
+	case Metre:
+		if unit == "" {
+			return 0, &Error{Input: s, err: ErrNeedsUnit,
+				Msg: fmt.Sprintf("length %q %v: write 9.5mm", s, ErrNeedsUnit)}
+		}
+	case Fraction:
+		if unit == "%" {
+			exp -= 2 // shift the decimal point, no division
+		}
+	}
+	dec := mant + "e" + strconv.Itoa(exp)
+	v, err := strconv.ParseFloat(dec, 64)
 	if err != nil || math.IsInf(v, 0) || math.IsNaN(v) {
 		return 0, fail(s, u, "out of range")
 	}
-	switch u {
-	case Celsius:
-		switch {
-		case rest == "":
-			return 0, &Error{Input: s, Msg: fmt.Sprintf("temperature %q %v: write 25C, 25°C or 298.15K", s, ErrNeedsUnit)}
-		case rest == "K":
-			v -= 273.15
+	if v == 0 && strings.ContainsAny(mant, "123456789") {
+		return 0, fail(s, u, "too small to represent")
+	}
+	if u == Celsius && unit == "K" {
+		if v < 0 {
+			return 0, fail(s, u, "below absolute zero")
 		}
-	case Metre:
-		if rest == "" {
-			return 0, &Error{Input: s, Msg: fmt.Sprintf("length %q %v: write 9.5mm", s, ErrNeedsUnit)}
+		if v != 0 {
+			// 298.15K is 25 °C exactly: subtract in decimal, round once.
+			r, ok := new(big.Rat).SetString(dec)
+			if !ok {
+				return 0, fail(s, u, "no number")
+			}
+			v, _ = r.Add(r, absoluteZero).Float64()
+		} else {
+			v, _ = absoluteZero.Float64()
 		}
-	case Fraction:
-		if strings.HasSuffix(rest, "%") {
-			v, _ = strconv.ParseFloat(mant+"e"+strconv.Itoa(exp-2), 64)
-		}
+	}
+	if u == Celsius && v < -273.15 {
+		return 0, fail(s, u, "below absolute zero (-273.15 °C)")
 	}
 	return v, nil
 }
 
+// number is the leading numeric part of a quantity string.
+type number struct {
+	mant   string // sign, digits and decimal point, without the exponent
+	exp    int    // the written exponent (4.7e3 → 3)
+	rest   string // what follows the number
+	digits int    // how many digits the mantissa has
+	point  bool   // the mantissa has a decimal point
+	hasExp bool   // an exponent was written
+}
+
 // leadingNumber splits "4.7e3kΩ" into mantissa "4.7", exponent 3 and rest "kΩ".
-// An exponent is taken only when digits follow the e.
-func leadingNumber(t string) (mant string, exp int, rest string, ok bool) {
+// An exponent is taken only when digits follow the e. ok is false for a
+// mantissa with a decimal point but no digit ("." or "-.").
+func leadingNumber(t string) (n number, ok bool) {
 	i := 0
 	if i < len(t) && (t[i] == '+' || t[i] == '-') {
 		i++
 	}
-	digits := 0
 	for i < len(t) && t[i] >= '0' && t[i] <= '9' {
 		i++
-		digits++
+		n.digits++
 	}
 	if i < len(t) && t[i] == '.' {
+		n.point = true
 		i++
 		for i < len(t) && t[i] >= '0' && t[i] <= '9' {
 			i++
-			digits++
+			n.digits++
 		}
 	}
-	mant = t[:i]
-	if digits == 0 {
+	n.mant = t[:i]
+	if n.digits == 0 {
 		// A code like R47 or p68 starts with its letter.
-		if mant == "" || mant == "+" || mant == "-" {
-			return mant, 0, t[i:], true
-		}
-		return "", 0, "", false
+		n.rest = t[i:]
+		return n, !n.point
 	}
 	if i < len(t) && (t[i] == 'e' || t[i] == 'E') {
 		j := i + 1
+		neg := false
 		if j < len(t) && (t[j] == '+' || t[j] == '-') {
+			neg = t[j] == '-'
 			j++
 		}
 		k := j
 		for k < len(t) && t[k] >= '0' && t[k] <= '9' {
 			k++
 		}
-		if k > j && k-j <= 4 {
-			e, _ := strconv.Atoi(t[i+1 : k])
-			return mant, e, t[k:], true
+		if k > j {
+			n.exp = expValue(t[j:k], neg)
+			n.hasExp = true
+			i = k
 		}
 	}
-	return mant, 0, t[i:], true
+	n.rest = t[i:]
+	return n, true
 }
 
-// codeLetters maps the decimal-point letters of IEC 60062 to their exponent,
-// for the field's unit. R means 1 and K kilo only for resistances.
+// expValue reads exponent digits, clamping absurd exponents to ±99999 so that
+// the conversion reports them as out of range instead of overflowing an int.
+func expValue(digits string, neg bool) int {
+	digits = strings.TrimLeft(digits, "0")
+	e := 99999
+	if len(digits) <= 5 {
+		e, _ = strconv.Atoi("0" + digits)
+	}
+	if neg {
+		return -e
+	}
+	return e
+}
+
+// codeLetter maps the decimal-point letters of IEC 60062 to their exponent,
+// for the field's unit: the SI prefix letters, R (one) and K (kilo) only in
+// resistances.
 func codeLetter(r rune, u Unit) (int, bool) {
+	if !takesCode(u) {
+		return 0, false
+	}
 	switch r {
 	case 'R':
 		return 0, u == Ohm
 	case 'K':
 		return 3, u == Ohm
-	case 'k':
-		return 3, u != Celsius && u != Metre
-	case 'M', 'G':
-		return map[rune]int{'M': 6, 'G': 9}[r], u != Celsius && u != Metre
-	case 'p', 'n', 'u', 'µ', 'μ':
-		return map[rune]int{'p': -12, 'n': -9, 'u': -6, 'µ': -6, 'μ': -6}[r], u != Celsius && u != Metre
-	case 'm':
-		return -3, u != Celsius && u != Metre
 	}
-	return 0, false
+	e, ok := prefixes[string(r)]
+	return e, ok
 }
 
 // parseCode reads "4k7", "R47", "p68", "470R", "4n7F": integer digits, one
@@ -271,44 +342,47 @@ func isUnitWord(w string, u Unit) bool {
 			return true
 		}
 	}
-	return u == Celsius && w == "K" || u == Fraction && w == "%"
+	return false
 }
 
-// suffix reads "[PREFIX][UNIT]" and returns the prefix exponent.
-func suffix(s, rest string, u Unit) (int, error) {
+// suffix reads "[PREFIX][UNIT]" and returns the prefix exponent and the unit
+// word ("" when none was written).
+func suffix(s, rest string, u Unit) (int, string, error) {
 	if rest == "" || isUnitWord(rest, u) {
-		return 0, nil
+		return 0, rest, nil
 	}
-	if u == Celsius || u == Fraction || u == Ratio {
-		return 0, fail(s, u, unitMismatch(rest, u))
+	if !takesPrefix(u) {
+		return 0, "", fail(s, u, unitMismatch(rest, u))
 	}
 	r, size := utf8.DecodeRuneInString(rest)
-	p := string(r)
-	e, ok := prefixes[p]
-	if !ok && p == "K" && u == Ohm {
+	e, ok := prefixes[string(r)]
+	if !ok && r == 'K' && u == Ohm {
 		e, ok = 3, true
 	}
 	if !ok {
-		return 0, fail(s, u, unitMismatch(rest, u))
+		return 0, "", fail(s, u, unitMismatch(rest, u))
 	}
 	tail := rest[size:]
 	if tail == "" || isUnitWord(tail, u) {
-		return e, nil
+		return e, tail, nil
 	}
-	return 0, fail(s, u, unitMismatch(tail, u))
+	return 0, "", fail(s, u, unitMismatch(tail, u))
 }
 
 // unitOrder fixes the order in which unitMismatch tries the unit words, so
 // that the message is the same on every run.
-var unitOrder = []Unit{Ohm, Farad, Henry, Volt, Ampere, Watt, Hertz, Celsius, Metre}
+var unitOrder = []Unit{Ohm, Farad, Henry, Volt, Ampere, Watt, Hertz, Celsius, Metre, Fraction}
 
+// unitMismatch explains why w is not accepted: it names another field's unit
+// when w is that unit, with or without a prefix ("kV" on a resistance).
 func unitMismatch(w string, u Unit) string {
 	for _, other := range unitOrder {
 		if other == u {
 			continue
 		}
 		for _, n := range unitSpellings[other] {
-			if w == n || len(w) > len(n) && strings.HasSuffix(w, n) {
+			p, hasUnit := strings.CutSuffix(w, n)
+			if _, isPrefix := prefixes[p]; hasUnit && (p == "" || isPrefix && takesPrefix(other)) {
 				return fmt.Sprintf("unit %s does not fit this field", n)
 			}
 		}
@@ -316,40 +390,62 @@ func unitMismatch(w string, u Unit) string {
 	return fmt.Sprintf("unknown unit or prefix %q", w)
 }
 
-// Format writes v in engineering notation with a prefix and the unit's symbol,
-// for messages: 4700 Ω → "4.7 kohm", 1.01e7 Hz → "10.1 MHz". The digits are
-// the shortest that read back as v.
+// Format writes v for messages, in engineering notation with a prefix and the
+// unit's symbol: 4700 Ω → "4.7 kohm", 1.01e7 Hz → "10.1 MHz", 0.05 → "5 %".
+// Resistances below one ohm are written as plain decimals ("0.47 ohm").
+// The digits are the shortest that read back as v, and Parse(Format(v, u), u)
+// == v for every finite v.
 func Format(v float64, u Unit) string {
 	switch u {
 	case Celsius:
 		return trimNum(v) + " °C"
 	case Fraction:
-		return trimNum(v*100) + " %"
+		return percent(v) + " %"
 	case Ratio:
 		return trimNum(v)
 	}
-	m, p := engineering(v)
+	if u == Ohm && math.Abs(v) < 1 && v != 0 {
+		return subOhm(v) + " " + u.String()
+	}
+	m, p, ok := engineering(v)
+	if !ok {
+		return trimNum(v) + " " + u.String()
+	}
 	return m + " " + p + u.String()
 }
 
 // Code writes v as it would be typed into a circuit file for a field of unit
 // u: resistances and capacitances as IEC 60062 codes without the unit
 // (4k7, 910, 2R2, R47, 4n7, 22n), other quantities with prefix and unit (0.5W,
-// 22uH, 63V). Parse(Code(v, u), u) == v for every finite v.
+// 22uH, 63V). Values beyond the prefixes (below 0.001 p, from 1000 G, below
+// 1 mΩ) are written with an exponent. Parse(Code(v, u), u) == v for every
+// finite v (for temperatures, every v at or above absolute zero).
 func Code(v float64, u Unit) string {
 	switch u {
 	case Celsius:
 		return trimNum(v) + "C"
 	case Fraction:
-		return trimNum(v*100) + "%"
+		return percent(v) + "%"
 	case Ratio:
 		return trimNum(v)
 	}
-	m, p := engineering(v)
-	if u == Ohm && p != "" && prefixes[p] < 0 {
-		m, p = strconv.FormatFloat(v, 'f', -1, 64), "" // R47, not 470m
+	var m, p string
+	if u == Ohm && math.Abs(v) < 1 && v != 0 {
+		m = subOhm(v) // R47, not 470m
+		if strings.ContainsAny(m, "e") {
+			return m
+		}
+	} else {
+		var ok bool
+		m, p, ok = engineering(v)
+		if !ok {
+			if u == Ohm {
+				return trimNum(v)
+			}
+			return trimNum(v) + u.String()
+		}
 	}
-	if p == "µ" {
+	if p == "\u00b5" {
 		p = "u"
 	}
 	if u != Ohm && u != Farad {
@@ -375,30 +471,62 @@ func Code(v float64, u Unit) string {
 	return whole + letter + frac
 }
 
+// subOhm writes a resistance below one ohm as a plain decimal ("0.47"), or
+// with an exponent below a milliohm, where a decimal would be mostly zeros.
+func subOhm(v float64) string {
+	if math.Abs(v) < 1e-3 {
+		return trimNum(v)
+	}
+	return strconv.FormatFloat(v, 'f', -1, 64)
+}
+
 // engineering splits v into a mantissa string in [1, 1000) and a prefix,
 // shifting the decimal point in the digit string so that no rounding happens.
-func engineering(v float64) (string, string) {
+// ok is false for NaN, Inf and magnitudes outside [0.001 p, 1000 G).
+func engineering(v float64) (mant, prefix string, ok bool) {
 	if v == 0 || math.IsInf(v, 0) || math.IsNaN(v) {
-		return trimNum(v), ""
+		return trimNum(v), "", v == 0
 	}
+	sign, digits, exp := decimal(v)
+	e3 := int(math.Floor(float64(exp)/3)) * 3
+	if e3 < -12 && exp >= -15 {
+		e3 = -12 // 0.68 pF, p68: the smallest prefix takes mantissas down to 0.001
+	}
+	if e3 < -12 || e3 > 9 {
+		return "", "", false
+	}
+	prefix = map[int]string{-12: "p", -9: "n", -6: "\u00b5", -3: "m", 0: "", 3: "k", 6: "M", 9: "G"}[e3]
+	return sign + placePoint(digits, exp-e3+1), prefix, true
+}
+
+// decimal gives the shortest decimal digits of v that read back as v, with
+// v = sign 0.d1d2d3… × 10^(exp+1), i.e. exp is the exponent of the first digit.
+func decimal(v float64) (sign, digits string, exp int) {
 	s := strconv.FormatFloat(math.Abs(v), 'e', -1, 64) // d.ddde±x
-	sign := ""
-	if v < 0 {
+	if math.Signbit(v) {
 		sign = "-"
 	}
 	mant, expStr, _ := strings.Cut(s, "e")
-	exp, _ := strconv.Atoi(expStr)
-	digits := strings.Replace(mant, ".", "", 1)
-	e3 := int(math.Floor(float64(exp) / 3))
-	e3 *= 3
-	if e3 < -12 {
-		e3 = -12
+	exp, _ = strconv.Atoi(expStr)
+	return sign, strings.Replace(mant, ".", "", 1), exp
+}
+
+// percent writes the fraction v in percent by moving the decimal point two
+// places, so that no multiplication rounds it (0.07 → "7", not "7.000000000000001").
+func percent(v float64) string {
+	if v == 0 || math.IsInf(v, 0) || math.IsNaN(v) {
+		return trimNum(v)
 	}
-	if e3 > 9 {
-		e3 = 9
+	sign, digits, exp := decimal(v)
+	exp += 2
+	if exp < -4 || exp >= 21 {
+		m := digits[:1]
+		if len(digits) > 1 {
+			m += "." + digits[1:]
+		}
+		return sign + m + "e" + strconv.Itoa(exp)
 	}
-	prefix := map[int]string{-12: "p", -9: "n", -6: "µ", -3: "m", 0: "", 3: "k", 6: "M", 9: "G"}[e3]
-	return sign + placePoint(digits, exp-e3+1), prefix
+	return sign + placePoint(digits, exp+1)
 }
 
 // placePoint puts the decimal point after the first n digits, padding with zeros.
