@@ -98,10 +98,10 @@ func (f *flow) arc(x, y int) {
 // join adds an undirected branch between nodes x and y; the sink-only node
 // end is entered but never left.
 func (f *flow) join(x, y, end int) {
-	if y != end {
+	if x != end { // leave x, enter y
 		f.arc(2*x+1, 2*y)
 	}
-	if x != end {
+	if y != end { // leave y, enter x
 		f.arc(2*y+1, 2*x)
 	}
 }

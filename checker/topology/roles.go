@@ -79,7 +79,7 @@ func (t *Topology) reachesEmitter(net string) bool {
 		return t.Rails[n] || g.base || g.collector
 	}
 	for _, n := range t.g.walk(net, resistorOnly, func(n string) bool { return !blocked(n) }) {
-		if t.flags[n].emitter {
+		if t.flags[n].emitter && !t.Rails[n] { // an emitter on a rail is not reached
 			return true
 		}
 	}
