@@ -1,0 +1,308 @@
+package ac
+
+import (
+	"fmt"
+	"math"
+	"math/cmplx"
+	"strconv"
+	"strings"
+)
+
+// maxAmplification is the largest error growth the low-rank update in
+// Impedance may have before it is replaced by a fresh factorisation. At 1e6
+// the update keeps about ten significant digits.
+const maxAmplification = 1e6
+
+// freq holds everything computed at one frequency: the base matrix Y0 (every
+// stamp except the in port's source impedance, which Analyze treats as the
+// source and Impedance adds back) and its factors, each element's admittance,
+// and the solutions already found.
+type freq struct {
+	w     float64
+	y0    []complex128   // the assembled base matrix, kept for fresh factorisations
+	f0    *lu            // its factors
+	d     [][]complex128 // each element's D at w
+	sol   map[branch][]complex128
+	fresh map[string]*lu // factorisations with parts removed, by removed-set key
+}
+
+// at returns the frequency's data, factorising Y0 the first time. The caller
+// holds r.mu.
+func (r *Result) at(f float64) (*freq, error) {
+	if fr, ok := r.freqs[f]; ok {
+		return fr, nil
+	}
+	nw := r.net
+	fr := &freq{w: 2 * math.Pi * f, sol: map[branch][]complex128{}, fresh: map[string]*lu{}}
+	n := nw.n
+	fr.y0 = make([]complex128, n*n)
+	for i := 0; i < n; i++ {
+		fr.y0[i*n+i] = Gmin
+	}
+	fr.d = make([][]complex128, len(nw.elems))
+	for i, e := range nw.elems {
+		d, err := e.adm(fr.w)
+		if err != nil {
+			return nil, fmt.Errorf("%s at %g Hz: %w", name(e), f, err)
+		}
+		fr.d[i] = d
+		if i != nw.source {
+			stamp(fr.y0, n, e.branches, d, 1)
+		}
+	}
+	a := append([]complex128(nil), fr.y0...)
+	f0, err := factor(a, n)
+	if err != nil {
+		return nil, fmt.Errorf("small-signal network at %g Hz: %w", f, err)
+	}
+	fr.f0 = f0
+	r.freqs[f] = fr
+	return fr, nil
+}
+
+func name(e element) string {
+	if e.ref == "" {
+		return "port or supply"
+	}
+	return "part " + e.ref
+}
+
+// solveBranch returns Y0⁻¹·(e_from − e_to), cached.
+func (fr *freq) solveBranch(b branch) []complex128 {
+	if x, ok := fr.sol[b]; ok {
+		return x
+	}
+	n := fr.f0.n
+	rhs := make([]complex128, n)
+	if b.from != ground {
+		rhs[b.from] = 1
+	}
+	if b.to != ground {
+		rhs[b.to] = -1
+	}
+	x := fr.f0.solve(rhs)
+	fr.sol[b] = x
+	return x
+}
+
+// across is x[from] − x[to], the voltage of b in the solution x.
+func across(x []complex128, b branch) complex128 {
+	var v complex128
+	if b.from != ground {
+		v = x[b.from]
+	}
+	if b.to != ground {
+		v -= x[b.to]
+	}
+	return v
+}
+
+// mod is one change to the base matrix: an element added (+1) or removed (−1).
+type mod struct {
+	elem int
+	sign complex128
+}
+
+// impedance is uᵀ·(Y0 + Σ sign·P·D·Pᵀ)⁻¹·u for u = e_a − e_b, by the
+// Sherman–Morrison–Woodbury identity on Y0's factors: with X = Y0⁻¹·P and
+// S = I + Pᵀ·X·D, it is z − (uᵀX)·D·S⁻¹·(Pᵀx) where x = Y0⁻¹u and z = uᵀx.
+// That costs one triangular solve per branch instead of a factorisation. When
+// the update cancels badly (a removed part that dominates the impedance across
+// it) the matrix is assembled and factorised afresh.
+func (r *Result) impedance(fr *freq, u branch, mods []mod, key string) (complex128, error) {
+	if u.from == u.to {
+		return 0, nil
+	}
+	x := fr.solveBranch(u)
+	z := across(x, u)
+	var br []branch
+	var owner []int // position in mods of each branch
+	for k, m := range mods {
+		for _, b := range r.net.elems[m.elem].branches {
+			br = append(br, b)
+			owner = append(owner, k)
+		}
+	}
+	nr := len(br)
+	if nr == 0 {
+		return z, nil
+	}
+	// D: block diagonal over the mods, signed.
+	d := make([]complex128, nr*nr)
+	for i := 0; i < nr; {
+		k := owner[i]
+		dm := fr.d[mods[k].elem]
+		rm := len(r.net.elems[mods[k].elem].branches)
+		for a := 0; a < rm; a++ {
+			for b := 0; b < rm; b++ {
+				d[(i+a)*nr+i+b] = dm[a*rm+b] * mods[k].sign
+			}
+		}
+		i += rm
+	}
+	xs := make([][]complex128, nr)
+	for j, b := range br {
+		xs[j] = fr.solveBranch(b)
+	}
+	// MD = (Pᵀ·X)·D and S = I + MD.
+	m := make([]complex128, nr*nr)
+	for i, bi := range br {
+		for j := range br {
+			m[i*nr+j] = across(xs[j], bi)
+		}
+	}
+	md := matmul(m, d, nr)
+	s := make([]complex128, nr*nr)
+	copy(s, md)
+	for i := 0; i < nr; i++ {
+		s[i*nr+i]++
+	}
+	sinv, err := invert(s, nr)
+	if err == nil && norm(sinv, nr)*(1+norm(md, nr)) <= maxAmplification {
+		// w = (uᵀX)·D, v = Pᵀx.
+		w := make([]complex128, nr)
+		for j := range nr {
+			var t complex128
+			for k := range nr {
+				t += across(xs[k], u) * d[k*nr+j]
+			}
+			w[j] = t
+		}
+		var corr complex128
+		for i := range nr {
+			var t complex128
+			for j := range nr {
+				t += sinv[i*nr+j] * across(x, br[j])
+			}
+			corr += w[i] * t
+		}
+		if v := z - corr; finite(v) {
+			return v, nil
+		}
+	}
+	return r.freshImpedance(fr, u, mods, key)
+}
+
+// freshImpedance factorises Y0 with the mods applied (cached by key) and
+// solves for u directly.
+func (r *Result) freshImpedance(fr *freq, u branch, mods []mod, key string) (complex128, error) {
+	f, ok := fr.fresh[key]
+	if !ok {
+		n := r.net.n
+		y := append([]complex128(nil), fr.y0...)
+		for _, m := range mods {
+			stamp(y, n, r.net.elems[m.elem].branches, fr.d[m.elem], m.sign)
+		}
+		var err error
+		if f, err = factor(y, n); err != nil {
+			return 0, err
+		}
+		fr.fresh[key] = f
+	}
+	n := r.net.n
+	rhs := make([]complex128, n)
+	if u.from != ground {
+		rhs[u.from] = 1
+	}
+	if u.to != ground {
+		rhs[u.to] = -1
+	}
+	z := across(f.solve(rhs), u)
+	if !finite(z) {
+		return 0, errSingular
+	}
+	return z, nil
+}
+
+// matmul returns a·b for row-major m×m matrices.
+func matmul(a, b []complex128, m int) []complex128 {
+	c := make([]complex128, m*m)
+	for i := 0; i < m; i++ {
+		for k := 0; k < m; k++ {
+			if v := a[i*m+k]; v != 0 {
+				for j := 0; j < m; j++ {
+					c[i*m+j] += v * b[k*m+j]
+				}
+			}
+		}
+	}
+	return c
+}
+
+// norm is the infinity norm (largest row sum of magnitudes).
+func norm(a []complex128, m int) float64 {
+	best := 0.0
+	for i := 0; i < m; i++ {
+		s := 0.0
+		for j := 0; j < m; j++ {
+			s += cmplx.Abs(a[i*m+j])
+		}
+		best = math.Max(best, s)
+	}
+	return best
+}
+
+// cacheKey names one Impedance query.
+type cacheKey struct {
+	f       float64
+	u       branch
+	removed string
+}
+
+// Impedance is the impedance between nets a and b at frequency f (Hz), with
+// the listed parts removed: what an ohmmeter driving a current from a to b
+// would read, in the circuit's AC form (supplies AC ground behind their
+// impedance, the in port as RS to gnd with its EMF zero, other ports as their
+// impedance, Gmin from every net to gnd). It is 0 when a and b are the same
+// net or both AC ground. Because of Gmin the result is always finite: a net
+// with no other path reads about 1e12 Ω.
+//
+// Results, factorisations and solutions are cached, so repeated calls cost a
+// few triangular solves at most. It fails for f not positive and finite, an
+// unknown net or part, or an exactly singular network. Safe for concurrent use.
+func (r *Result) Impedance(f float64, a, b string, removed ...string) (complex128, error) {
+	if !positive(f) {
+		return 0, fmt.Errorf("frequency %g Hz is not a positive finite value", f)
+	}
+	ia, ok := r.net.nodes[a]
+	if !ok {
+		return 0, fmt.Errorf("no net %q in the circuit", a)
+	}
+	ib, ok := r.net.nodes[b]
+	if !ok {
+		return 0, fmt.Errorf("no net %q in the circuit", b)
+	}
+	idx, err := r.net.refs(removed)
+	if err != nil {
+		return 0, err
+	}
+	var sb strings.Builder
+	for _, i := range idx {
+		sb.WriteString(strconv.Itoa(i))
+		sb.WriteByte(',')
+	}
+	key := cacheKey{f: f, u: branch{ia, ib}, removed: sb.String()}
+
+	r.mu.Lock()
+	defer r.mu.Unlock()
+	if z, ok := r.cache[key]; ok {
+		return z, nil
+	}
+	fr, err := r.at(f)
+	if err != nil {
+		return 0, err
+	}
+	var mods []mod
+	if r.net.source >= 0 {
+		mods = append(mods, mod{r.net.source, 1})
+	}
+	for _, i := range idx {
+		mods = append(mods, mod{i, -1})
+	}
+	z, err := r.impedance(fr, key.u, mods, key.removed)
+	if err != nil {
+		return 0, fmt.Errorf("impedance %s–%s at %g Hz: %w", a, b, f, err)
+	}
+	r.cache[key] = z
+	return z, nil
+}

@@ -1,0 +1,332 @@
+package ac
+
+import (
+	"fmt"
+	"math"
+	"sort"
+
+	"headroom/checker/circuit"
+	"headroom/checker/dc"
+)
+
+// Gmin is the conductance from every net to gnd (FORMAT.md §6). It keeps the
+// nodal matrix regular and every impedance finite: a net with no other path
+// to gnd reads about 1/Gmin = 1e12 Ω.
+const Gmin = 1e-12
+
+// minSection is the smallest resistance of a potentiometer section (FORMAT.md §6).
+const minSection = 1e-3
+
+// ground is the node index of gnd and of every net merged into it (a supply
+// with zero impedance is AC ground).
+const ground = -1
+
+// branch is one incidence vector e_from − e_to of the nodal system; ground
+// ends contribute nothing.
+type branch struct{ from, to int }
+
+// element is one admittance stamp Y += P·D·Pᵀ, where P's columns are the
+// branches and D is the r×r admittance matrix among them. Two-terminal parts
+// have one branch; a transformer has one per winding; a transistor has three
+// (b–e, b–c and the controlled c–e branch, whose row of D holds gm).
+type element struct {
+	ref      string // part reference, "" for ports and supplies (never removed)
+	branches []branch
+	adm      func(w float64) ([]complex128, error) // D at angular frequency w, row-major
+}
+
+// network is a circuit reduced to nodes and admittance stamps, holding copies
+// of every value it needs so that later edits of the circuit do not reach it.
+type network struct {
+	n     int            // number of nodes (nets that are not AC ground)
+	nodes map[string]int // every net of the circuit, gnd included; ground for AC-ground nets
+	elems []element
+	parts map[string]int // part reference → index in elems
+
+	hasIn  bool    // an in port exists
+	inNode int     // its net
+	rs     float64 // its impedance RS, Ω
+	source int     // index in elems of RS to gnd (-1 when the in net is AC ground)
+	hasOut bool
+	outNd  int
+	rl     float64 // the out port's impedance RL, Ω
+	gains  bool    // exactly one in and one out port
+}
+
+// build turns a circuit and its operating point into a network.
+func build(c *circuit.Circuit, op *dc.Result) (*network, error) {
+	nw := &network{nodes: map[string]int{circuit.Gnd: ground}, parts: map[string]int{}, source: -1}
+	acGround := map[string]bool{}
+	for _, s := range c.Supplies {
+		if !(s.Impedance >= 0) || math.IsInf(s.Impedance, 0) {
+			return nil, fmt.Errorf("supply %s: impedance %g is not a finite value ≥ 0", s.Net, s.Impedance)
+		}
+		if s.Impedance == 0 {
+			acGround[s.Net] = true
+		}
+	}
+	for _, net := range c.Nets() {
+		if acGround[net] {
+			nw.nodes[net] = ground
+			continue
+		}
+		nw.nodes[net] = nw.n
+		nw.n++
+	}
+	node := func(net string) int { return nw.nodes[net] }
+
+	for _, s := range c.Supplies {
+		if s.Impedance > 0 {
+			nw.add("", []branch{{node(s.Net), ground}}, conductance(1/s.Impedance))
+		}
+	}
+
+	ins, outs := 0, 0
+	for _, p := range c.Ports {
+		if !positive(p.Impedance) {
+			return nil, fmt.Errorf("port %s: impedance %g is not a positive finite value", p.Name, p.Impedance)
+		}
+		br := []branch{{node(p.Net), ground}}
+		switch {
+		case p.Direction == "in" && ins == 0:
+			ins++
+			nw.hasIn, nw.inNode, nw.rs = true, node(p.Net), p.Impedance
+			if nw.inNode != ground {
+				nw.source = len(nw.elems)
+			}
+			nw.add("", br, conductance(1/p.Impedance)) // left out of the base matrix, see freq
+		case p.Direction == "out" && outs == 0:
+			outs++
+			nw.hasOut, nw.outNd, nw.rl = true, node(p.Net), p.Impedance
+			nw.add("", br, conductance(1/p.Impedance))
+		default:
+			if p.Direction == "in" {
+				ins++
+			} else if p.Direction == "out" {
+				outs++
+			}
+			nw.add("", br, conductance(1/p.Impedance))
+		}
+	}
+	nw.gains = ins == 1 && outs == 1
+
+	for _, p := range c.Parts {
+		if err := nw.addPart(p, op, node); err != nil {
+			return nil, fmt.Errorf("part %s: %w", p.Ref, err)
+		}
+	}
+	return nw, nil
+}
+
+// add appends an element and remembers it under its reference.
+func (nw *network) add(ref string, br []branch, adm func(float64) ([]complex128, error)) {
+	if ref != "" {
+		nw.parts[ref] = len(nw.elems)
+	}
+	nw.elems = append(nw.elems, element{ref: ref, branches: br, adm: adm})
+}
+
+// addPart adds one part's small-signal stamp (FORMAT.md §6).
+func (nw *network) addPart(p *circuit.Part, op *dc.Result, node func(string) int) error {
+	need := map[circuit.Kind]int{circuit.Resistor: 2, circuit.Capacitor: 2, circuit.Inductor: 2,
+		circuit.Potentiometer: 3, circuit.NPN: 3, circuit.PNP: 3}
+	if k, ok := need[p.Kind]; ok && len(p.Nets) != k {
+		return fmt.Errorf("%s needs %d nets, has %d", p.Kind, k, len(p.Nets))
+	}
+	switch p.Kind {
+	case circuit.Resistor:
+		if !positive(p.Value) {
+			return fmt.Errorf("resistance %g is not a positive finite value", p.Value)
+		}
+		nw.add(p.Ref, []branch{{node(p.Nets[0]), node(p.Nets[1])}}, conductance(1/p.Value))
+	case circuit.Capacitor:
+		c := p.Value
+		if !positive(c) {
+			return fmt.Errorf("capacitance %g is not a positive finite value", c)
+		}
+		nw.add(p.Ref, []branch{{node(p.Nets[0]), node(p.Nets[1])}}, func(w float64) ([]complex128, error) {
+			return []complex128{complex(0, w*c)}, nil
+		})
+	case circuit.Inductor:
+		l, r := p.Inductance(), p.Resistance
+		if !positive(l) {
+			return fmt.Errorf("inductance %g is not a positive finite value", l)
+		}
+		if !(r >= 0) || math.IsInf(r, 0) {
+			return fmt.Errorf("resistance %g is not a finite value ≥ 0", r)
+		}
+		nw.add(p.Ref, []branch{{node(p.Nets[0]), node(p.Nets[1])}}, func(w float64) ([]complex128, error) {
+			return []complex128{1 / complex(r, w*l)}, nil
+		})
+	case circuit.Potentiometer:
+		if !positive(p.Value) || !(p.Setting >= 0 && p.Setting <= 1) {
+			return fmt.Errorf("value %g or setting %g out of range", p.Value, p.Setting)
+		}
+		ra := math.Max(p.Value*(1-p.Setting), minSection)
+		rb := math.Max(p.Value*p.Setting, minSection)
+		a, wiper, b := node(p.Nets[0]), node(p.Nets[1]), node(p.Nets[2])
+		nw.add(p.Ref, []branch{{a, wiper}, {wiper, b}}, func(float64) ([]complex128, error) {
+			return []complex128{complex(1/ra, 0), 0, 0, complex(1/rb, 0)}, nil
+		})
+	case circuit.Transformer:
+		return nw.addTransformer(p, node)
+	case circuit.NPN, circuit.PNP:
+		return nw.addBJT(p, op, node)
+	default:
+		return fmt.Errorf("kind %q has no small-signal model", p.Kind)
+	}
+	return nil
+}
+
+// addTransformer stamps the windings' admittance matrix, the inverse of
+// Z = R + jωL with Lii = AL·Ni² and Lij = k·√(Li·Lj), every dot at the
+// winding's first net. Z is regular for 0 < k < 1 and ω > 0, zero-resistance
+// windings included.
+func (nw *network) addTransformer(p *circuit.Part, node func(string) int) error {
+	m := len(p.Windings)
+	if m < 2 {
+		return fmt.Errorf("a transformer needs two or more windings, has %d", m)
+	}
+	if !(p.Coupling > 0 && p.Coupling < 1) {
+		return fmt.Errorf("coupling %g is not inside (0, 1)", p.Coupling)
+	}
+	l := make([]float64, m)
+	r := make([]float64, m)
+	br := make([]branch, m)
+	for i, w := range p.Windings {
+		l[i] = p.AL * w.Turns * w.Turns
+		r[i] = w.Resistance
+		if !positive(l[i]) {
+			return fmt.Errorf("winding %s: inductance %g is not a positive finite value", w.Name, l[i])
+		}
+		if !(r[i] >= 0) || math.IsInf(r[i], 0) {
+			return fmt.Errorf("winding %s: resistance %g is not a finite value ≥ 0", w.Name, r[i])
+		}
+		br[i] = branch{node(w.Nets[0]), node(w.Nets[1])}
+	}
+	k := p.Coupling
+	nw.add(p.Ref, br, func(w float64) ([]complex128, error) {
+		z := make([]complex128, m*m)
+		for i := range m {
+			for j := range m {
+				lij := k * math.Sqrt(l[i]*l[j])
+				if i == j {
+					lij = l[i]
+				}
+				z[i*m+j] = complex(0, w*lij)
+			}
+			z[i*m+i] += complex(r[i], 0)
+		}
+		return invert(z, m)
+	})
+	return nil
+}
+
+// addBJT stamps the hybrid-π model at the operating point: rπ and Cπ base to
+// emitter, Cμ base to collector, gm·vbe from collector to emitter. A PNP's
+// small-signal model is the same as an NPN's.
+func (nw *network) addBJT(p *circuit.Part, op *dc.Result, node func(string) int) error {
+	h, err := hybridPi(p, op)
+	if err != nil {
+		return err
+	}
+	c, b, e := node(p.Nets[0]), node(p.Nets[1]), node(p.Nets[2])
+	nw.add(p.Ref, []branch{{b, e}, {b, c}, {c, e}}, func(w float64) ([]complex128, error) {
+		return []complex128{
+			complex(h.gpi, w*h.Cpi), 0, 0,
+			0, complex(0, w*h.Cmu), 0,
+			complex(h.GM, 0), 0, 0,
+		}, nil
+	})
+	return nil
+}
+
+// pi is a transistor's linearised model.
+type pi struct {
+	GM, gpi, Rpi, Cpi, Cmu, FT float64
+}
+
+// hybridPi linearises a transistor at op (FORMAT.md §6): gm = IC/VT (0 when
+// IC ≤ 0), rπ = βF/gm (open when gm = 0), Cμ = cob, Cπ = max(gm/(2π·ft) − Cμ, 0).
+func hybridPi(p *circuit.Part, op *dc.Result) (pi, error) {
+	if p.BJT == nil {
+		return pi{}, fmt.Errorf("no transistor figures")
+	}
+	if op == nil || op.BJTs[p.Ref] == nil {
+		return pi{}, fmt.Errorf("no operating point for the transistor")
+	}
+	q := op.BJTs[p.Ref]
+	if !positive(op.VT) {
+		return pi{}, fmt.Errorf("thermal voltage %g is not a positive finite value", op.VT)
+	}
+	if !positive(q.HFE) || math.IsNaN(q.IC) || math.IsInf(q.IC, 0) {
+		return pi{}, fmt.Errorf("operating point IC %g, hFE %g is not usable", q.IC, q.HFE)
+	}
+	if !positive(p.BJT.FT) || !(p.BJT.Cob >= 0) || math.IsInf(p.BJT.Cob, 0) {
+		return pi{}, fmt.Errorf("ft %g or cob %g out of range", p.BJT.FT, p.BJT.Cob)
+	}
+	h := pi{Cmu: p.BJT.Cob, FT: p.BJT.FT}
+	if q.IC > 0 {
+		h.GM = q.IC / op.VT
+		h.gpi = h.GM / q.HFE
+		h.Rpi = q.HFE / h.GM
+		h.Cpi = math.Max(h.GM/(2*math.Pi*p.BJT.FT)-h.Cmu, 0)
+	}
+	return h, nil
+}
+
+// conductance is a constant real admittance.
+func conductance(g float64) func(float64) ([]complex128, error) {
+	d := []complex128{complex(g, 0)}
+	return func(float64) ([]complex128, error) { return d, nil }
+}
+
+// positive reports a finite value above zero.
+func positive(x float64) bool { return x > 0 && !math.IsInf(x, 0) }
+
+// stamp adds D (r×r, times sign) over the branches into the row-major n×n matrix y.
+func stamp(y []complex128, n int, br []branch, d []complex128, sign complex128) {
+	r := len(br)
+	for i, bi := range br {
+		for j, bj := range br {
+			v := d[i*r+j] * sign
+			if v == 0 {
+				continue
+			}
+			if bi.from != ground {
+				if bj.from != ground {
+					y[bi.from*n+bj.from] += v
+				}
+				if bj.to != ground {
+					y[bi.from*n+bj.to] -= v
+				}
+			}
+			if bi.to != ground {
+				if bj.from != ground {
+					y[bi.to*n+bj.from] -= v
+				}
+				if bj.to != ground {
+					y[bi.to*n+bj.to] += v
+				}
+			}
+		}
+	}
+}
+
+// refs returns the sorted, de-duplicated element indices of the named parts.
+func (nw *network) refs(removed []string) ([]int, error) {
+	seen := map[int]bool{}
+	var idx []int
+	for _, ref := range removed {
+		i, ok := nw.parts[ref]
+		if !ok {
+			return nil, fmt.Errorf("no part %q in the circuit", ref)
+		}
+		if !seen[i] {
+			seen[i] = true
+			idx = append(idx, i)
+		}
+	}
+	sort.Ints(idx)
+	return idx, nil
+}
