@@ -1,0 +1,102 @@
+package ac
+
+import (
+	"fmt"
+	"math"
+	"math/cmplx"
+	"math/rand/v2"
+	"testing"
+
+	"headroom/checker/circuit"
+)
+
+// randomNet builds a circuit of every part kind with values spread over many
+// decades, transistors at random currents (cut-off included).
+func randomNet(rng *rand.Rand, nets, parts int) *net {
+	name := func() string {
+		if rng.IntN(6) == 0 {
+			return "gnd"
+		}
+		return fmt.Sprintf("n%d", rng.IntN(nets))
+	}
+	decade := func(lo, hi float64) float64 { return math.Pow(10, lo+rng.Float64()*(hi-lo)) }
+	lo := decade(5, 8)
+	n := newNet(lo, lo*decade(0, 1)).supply("n0", 12, []float64{0, 0.2}[rng.IntN(2)]).
+		port("in", name(), "in", decade(0, 3)).port("out", name(), "out", decade(0, 3))
+	for i := 0; i < parts; i++ {
+		ref := fmt.Sprintf("P%d", i)
+		switch rng.IntN(6) {
+		case 0:
+			n.r(ref, name(), name(), decade(-3, 7))
+		case 1:
+			n.cap(ref, name(), name(), decade(-12, 0))
+		case 2:
+			n.ind(ref, name(), name(), decade(-9, -2)).c.Parts[len(n.c.Parts)-1].Resistance = []float64{0, decade(-2, 2)}[rng.IntN(2)]
+		case 3:
+			n.xfmr(ref, decade(-9, -6), 0.5+0.49*rng.Float64(),
+				wdg("a", float64(1+rng.IntN(20)), name(), name(), 0), wdg("b", float64(1+rng.IntN(20)), name(), name(), 0.1))
+		case 4:
+			n.c.Parts = append(n.c.Parts, &circuit.Part{Ref: ref, Kind: circuit.Potentiometer,
+				Nets: []string{name(), name(), name()}, Value: decade(1, 5), Setting: []float64{0, rng.Float64(), 1}[rng.IntN(3)]})
+		case 5:
+			n.bjt(circuit.NPN, ref, name(), name(), name(), []float64{0, decade(-5, -1)}[rng.IntN(2)], decade(1, 2.5), decade(7, 9.5), decade(-13, -11))
+		}
+	}
+	return n
+}
+
+// Whatever the circuit, Analyze gives finite figures or an error, and the
+// low-rank impedance agrees with a fresh factorisation of the same network.
+func TestRandomCircuitsFiniteAndConsistent(t *testing.T) {
+	rng := rand.New(rand.NewPCG(7, 11))
+	checked := 0
+	for trial := 0; trial < 300; trial++ {
+		n := randomNet(rng, 3+rng.IntN(8), 3+rng.IntN(15))
+		res, err := Analyze(n.c, n.op)
+		if err != nil {
+			continue
+		}
+		for _, bp := range res.Band {
+			vals := []float64{bp.Frequency, real(bp.InputImpedance), imag(bp.InputImpedance), bp.ReturnLossDB}
+			if bp.GainDB != nil {
+				vals = append(vals, *bp.GainDB, *bp.VoltageGainDB)
+			}
+			for _, v := range vals {
+				if math.IsNaN(v) || math.IsInf(v, 0) {
+					t.Fatalf("trial %d: non-finite band figure %+v", trial, bp)
+				}
+			}
+		}
+		lo := res.Band[0].Frequency
+		for _, p := range n.c.Parts {
+			if p.Kind != circuit.Capacitor && p.Kind != circuit.Inductor {
+				continue
+			}
+			got := res.Parts[p.Ref].CircuitImpedance
+			if math.IsNaN(got) || math.IsInf(got, 0) {
+				t.Fatalf("trial %d: %s circuit impedance %g", trial, p.Ref, got)
+			}
+			u := branch{res.net.nodes[p.Nets[0]], res.net.nodes[p.Nets[1]]}
+			if u.from == u.to {
+				continue
+			}
+			mods := []mod{{res.net.parts[p.Ref], -1}}
+			if res.net.source >= 0 {
+				mods = append(mods, mod{res.net.source, 1})
+			}
+			res.mu.Lock()
+			want, err := res.freshImpedance(res.freqs[lo], u, mods, "check "+p.Ref)
+			res.mu.Unlock()
+			if err != nil {
+				continue
+			}
+			if math.Abs(got-cmplx.Abs(want)) > 1e-6*cmplx.Abs(want) {
+				t.Errorf("trial %d: %s circuit impedance %g, fresh factorisation %g", trial, p.Ref, got, cmplx.Abs(want))
+			}
+			checked++
+		}
+	}
+	if checked < 200 {
+		t.Errorf("only %d impedances compared", checked)
+	}
+}
