@@ -241,6 +241,9 @@ func TestCommonEmitter(t *testing.T) {
 			r("R1", "vf", "b").r("R2", "b", "gnd").npn("Q1", "vf", "b", "e").r("RE", "e", "gnd"), false},
 		{"PNP follower, collector on gnd", newCkt().supply("vcc", 12).r("R1", "vcc", "b").r("R2", "b", "gnd").
 			pnp("Q1", "gnd", "b", "e").r("RE", "vcc", "e"), false},
+		// Read literally, the table makes CF a tuning capacitor (its net
+		// touches a collector), so vf is not decoupled and the follower
+		// counts as common emitter. This pins the literal reading.
 		{"follower on a filtered net, role found", newCkt().supply("vcc", 12).r("RF", "vcc", "vf").cap("CF", "vf", "gnd").
 			r("R1", "vf", "b").r("R2", "b", "gnd").npn("Q1", "vf", "b", "e").r("RE", "e", "gnd"), true},
 		{"choke-fed collector", ceStage().l("L1", "vcc", "coll"), true},

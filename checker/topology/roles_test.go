@@ -55,6 +55,15 @@ func TestRoles(t *testing.T) {
 			cap("CT4", "vcc", "rf_out"),
 		want: map[string]string{"CT1": Tuning, "CT2": Tuning, "CT3": Tuning, "CT4": Tuning},
 	}, {
+		// A net that touches a base does not start the walk: a follower Q2
+		// drives Q1's base through RS, and C1 from that base to gnd is a
+		// tuning capacitor, not a bypass of Q2's emitter.
+		name: "base net does not start the bypass walk",
+		ckt: newCkt().supply("vcc", 12).r("R1", "vcc", "b2").r("R2", "b2", "gnd").npn("Q2", "vcc", "b2", "e2").
+			r("RE2", "e2", "gnd").r("RS", "e2", "b1").cap("C1", "b1", "gnd").
+			npn("Q1", "c1", "b1", "e1").r("RE1", "e1", "gnd").r("RC1", "vcc", "c1"),
+		want: map[string]string{"C1": Tuning},
+	}, {
 		// Row: decoupling, any other case (a filtered supply branch); then the
 		// inductor from that decoupled net to a collector is a choke.
 		name: "decoupled net feeding a choke",
