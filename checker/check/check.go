@@ -1,0 +1,194 @@
+// Package check runs the whole of `headroom check` on one circuit file: it
+// finds the rule set, loads the circuit, analyses it (nominal or worst case),
+// turns the rules' measurements into findings with severities, and applies
+// the file's waivers.
+package check
+
+import (
+	"errors"
+	"fmt"
+	"os"
+	"path/filepath"
+	"time"
+
+	"headroom/checker/analysis"
+	"headroom/checker/circuit"
+	"headroom/checker/engine"
+	"headroom/checker/ruleset"
+	"headroom/checker/topology"
+)
+
+// WorstCase finds, for every judged item, the most adverse case in the corner
+// box. It is supplied by the corners package; nil means worst case is not
+// available and "worst" runs fall back to an error.
+type WorstCase func(c *circuit.Circuit, topo *topology.Topology, nominal *analysis.Case, cfg *engine.Config) ([]engine.Finding, error)
+
+// Options configure a run over many files.
+type Options struct {
+	Rules    []*engine.Rule
+	RulesRef string // --rules: a shipped name or a path; "" = discovery
+	Corners  string // --corners override, "" = the rule set's
+	FailOn   string // --fail-on override, "" = the rule set's
+	ReadFile func(string) ([]byte, error)
+	Exists   func(string) bool // for discovery; nil = the working tree
+	Today    string            // YYYY-MM-DD for waiver expiry; "" = the real clock
+	Worst    WorstCase
+}
+
+// Result is the outcome for one file.
+type Result struct {
+	Path     string
+	Circuit  string
+	RuleSet  string
+	Corners  string
+	FailOn   engine.Severity
+	Findings []engine.Finding
+	Err      error // an input error: no findings are reported for the file
+	Skipped  bool  // not a circuit file
+}
+
+// Runner checks files, caching rule sets between them.
+type Runner struct {
+	opt    Options
+	loader *ruleset.Loader
+	sets   map[string]*ruleset.Set
+}
+
+// NewRunner prepares a run.
+func NewRunner(opt Options) *Runner {
+	if opt.ReadFile == nil {
+		opt.ReadFile = os.ReadFile
+	}
+	if opt.Exists == nil {
+		opt.Exists = func(p string) bool { _, err := os.Stat(p); return err == nil }
+	}
+	if opt.Today == "" {
+		opt.Today = time.Now().Format("2006-01-02")
+	}
+	return &Runner{opt: opt, loader: &ruleset.Loader{Rules: opt.Rules, ReadFile: opt.ReadFile},
+		sets: map[string]*ruleset.Set{}}
+}
+
+// RuleSet resolves the rule set that applies to a circuit file at path,
+// overrides included.
+func (r *Runner) RuleSet(path string) (*ruleset.Set, error) {
+	ref := r.opt.RulesRef
+	if ref == "" {
+		ref = ruleset.Discover(filepath.Dir(path), r.opt.Exists)
+	}
+	set, ok := r.sets[ref]
+	if !ok {
+		var err error
+		set, err = r.loader.Load(ref)
+		if err != nil {
+			return nil, err
+		}
+		if err := ruleset.Override(set, r.opt.Corners, r.opt.FailOn); err != nil {
+			return nil, err
+		}
+		r.sets[ref] = set
+	}
+	return set, nil
+}
+
+// File checks one circuit file. data is its text when already read (standard
+// input, the git index); nil reads path.
+func (r *Runner) File(path string, data []byte) Result {
+	res := Result{Path: path}
+	if data == nil {
+		b, err := r.opt.ReadFile(path)
+		if err != nil {
+			res.Err = &circuit.InputError{Pos: circuit.Pos{File: path, Line: 1, Col: 1}, Msg: fmt.Sprintf("cannot read file: %v", err)}
+			return res
+		}
+		data = b
+	}
+	set, err := r.RuleSet(path)
+	if err != nil {
+		res.Err = err
+		return res
+	}
+	c, err := circuit.LoadBytes(path, data, circuit.Options{ReadFile: r.opt.ReadFile, Libraries: set.Libraries})
+	if errors.Is(err, circuit.ErrNotCircuit) {
+		res.Skipped = true
+		return res
+	}
+	if err != nil {
+		res.Err = err
+		return res
+	}
+	res.Circuit, res.RuleSet, res.Corners, res.FailOn = c.Name, set.Name, set.Corners, set.FailOn
+	if err := r.checkWaiverRules(c); err != nil {
+		res.Err = err
+		return res
+	}
+	cfg := set.Config(r.opt.Rules)
+	fs, err := r.judge(c, cfg)
+	if err != nil {
+		res.Err = err
+		return res
+	}
+	res.Findings = applyWaivers(c, cfg, fs, r.opt.Today)
+	engine.Sort(res.Findings)
+	return res
+}
+
+// judge analyses the circuit and returns its failing findings with severities.
+func (r *Runner) judge(c *circuit.Circuit, cfg *engine.Config) ([]engine.Finding, error) {
+	topo := topology.Analyze(c)
+	nominal := analysis.Run(c, topo)
+	var fs []engine.Finding
+	var err error
+	if cfg.Corners == "worst" {
+		if r.opt.Worst == nil {
+			return nil, errors.New("worst-case corners are not available in this build")
+		}
+		fs, err = r.opt.Worst(c, topo, nominal, cfg)
+	} else {
+		fs, err = engine.Evaluate(nominal, nil, cfg)
+	}
+	if err != nil {
+		return nil, err
+	}
+	var out []engine.Finding
+	seen := map[[2]string]int{} // two-bound rules: one finding per part, the worse bound
+	for _, f := range fs {
+		if !f.Failing() {
+			continue
+		}
+		f.Severity = cfg.Severity[f.Rule]
+		if f.Absolute > 1 {
+			f.Severity = engine.Error
+		}
+		if f.Corner == nil {
+			f.Corner = map[string]float64{}
+		}
+		if f.Bound != "" {
+			k := [2]string{f.Rule, f.Part}
+			if i, ok := seen[k]; ok {
+				if engine.Worse(&f, &out[i]) {
+					out[i] = f
+				}
+				continue
+			}
+			seen[k] = len(out)
+		}
+		out = append(out, f)
+	}
+	return out, nil
+}
+
+// checkWaiverRules rejects a waiver that names a rule nobody knows.
+func (r *Runner) checkWaiverRules(c *circuit.Circuit) error {
+	for _, w := range c.Waivers {
+		known := false
+		for _, rule := range r.opt.Rules {
+			known = known || rule.ID == w.Rule
+		}
+		if !known {
+			return &circuit.InputError{Pos: w.RulePos,
+				Msg: fmt.Sprintf("waiver names unknown rule %q; %s", w.Rule, ruleset.Closest(w.Rule, r.opt.Rules))}
+		}
+	}
+	return nil
+}

@@ -1,0 +1,81 @@
+// Package corners finds, for every item a rule judges, the most adverse case
+// in the corner box of FORMAT.md §6: part tolerances, core AL tolerances,
+// hFE spread, supply ranges and the ambient range.
+//
+// Method: one extra analysis per parameter, at the high end of its range,
+// tells each judged item which end of that parameter hurts it (the sign of a
+// one-sided finite-difference sensitivity); the item is then judged at the
+// vertex made of all its adverse ends. Items that want the same vertex share
+// one analysis. For a metric monotonic in each parameter this is the worst
+// vertex of the box; the README lists where it can miss.
+package corners
+
+import (
+	"headroom/checker/circuit"
+	"headroom/checker/quantity"
+)
+
+// Param is one dimension of the box.
+type Param struct {
+	Key         string  // the corner key of FORMAT.md §5: REF, REF.hfe, REF.al, a supply net, "ambient"
+	Nom, Lo, Hi float64 // the nominal value and the range
+	Unit        quantity.Unit
+	Tolerance   bool // the range is nominal ± a tolerance (shown as a percentage)
+	set         func(c *circuit.Circuit, v float64)
+	holdsSupply bool // a supply's range (bias.drift holds these at nominal)
+}
+
+// Box lists the parameters of c that can move, in a fixed order: parts in
+// file order (value or AL, then hFE), supplies, ambient.
+func Box(c *circuit.Circuit) []Param {
+	var ps []Param
+	for i, p := range c.Parts {
+		i := i
+		switch p.Kind {
+		case circuit.Resistor, circuit.Capacitor, circuit.Potentiometer:
+			u := quantity.Ohm
+			if p.Kind == circuit.Capacitor {
+				u = quantity.Farad
+			}
+			ps = appendTol(ps, p.Ref, p.Value, p.Tolerance, u, func(c *circuit.Circuit, v float64) { c.Parts[i].Value = v })
+		case circuit.Inductor:
+			if p.Turns > 0 {
+				ps = appendTol(ps, p.Ref+".al", p.AL, p.ALTolerance, quantity.Henry, func(c *circuit.Circuit, v float64) { c.Parts[i].AL = v })
+			} else {
+				ps = appendTol(ps, p.Ref, p.Value, p.Tolerance, quantity.Henry, func(c *circuit.Circuit, v float64) { c.Parts[i].Value = v })
+			}
+		case circuit.Transformer:
+			ps = appendTol(ps, p.Ref+".al", p.AL, p.ALTolerance, quantity.Henry, func(c *circuit.Circuit, v float64) { c.Parts[i].AL = v })
+		case circuit.NPN, circuit.PNP:
+			b := p.BJT
+			if b != nil && b.HFEMax > b.HFEMin {
+				ps = append(ps, Param{Key: p.Ref + ".hfe", Nom: b.NominalHFE(), Lo: b.HFEMin, Hi: b.HFEMax,
+					Unit: quantity.Ratio, set: func(c *circuit.Circuit, v float64) { c.Parts[i].BJT.HFETyp = v }})
+			}
+		}
+	}
+	for i, s := range c.Supplies {
+		i := i
+		lo, hi := s.Range[0], s.Range[1]
+		if lo > hi {
+			lo, hi = hi, lo
+		}
+		if hi > lo {
+			ps = append(ps, Param{Key: s.Net, Nom: s.Volts, Lo: lo, Hi: hi, holdsSupply: true, Unit: quantity.Volt,
+				set: func(c *circuit.Circuit, v float64) { c.Supplies[i].Volts = v }})
+		}
+	}
+	if a := c.Ambient; a.Hi > a.Lo {
+		ps = append(ps, Param{Key: "ambient", Nom: a.Nominal, Lo: a.Lo, Hi: a.Hi,
+			Unit: quantity.Celsius, set: func(c *circuit.Circuit, v float64) { c.Ambient.Nominal = v }})
+	}
+	return ps
+}
+
+func appendTol(ps []Param, key string, nom, tol float64, u quantity.Unit, set func(*circuit.Circuit, float64)) []Param {
+	if nom <= 0 || tol <= 0 {
+		return ps
+	}
+	return append(ps, Param{Key: key, Nom: nom, Lo: nom * (1 - tol), Hi: nom * (1 + tol), Unit: u,
+		Tolerance: true, set: set})
+}

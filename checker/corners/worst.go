@@ -1,0 +1,188 @@
+package corners
+
+import (
+	"fmt"
+	"math"
+	"strings"
+
+	"headroom/checker/analysis"
+	"headroom/checker/circuit"
+	"headroom/checker/engine"
+	"headroom/checker/quantity"
+	"headroom/checker/topology"
+)
+
+// moveTol is how much a metric must move for a parameter to count: one part
+// in 10⁶ (FORMAT.md §6).
+const moveTol = 1e-6
+
+// item is one judged thing (rule, part, bound) during the search.
+type item struct {
+	best   engine.Finding
+	corner map[string]float64 // where best was found
+	nom    *engine.Finding    // the item at nominal, nil when nominal did not judge it
+	dirs   []int8             // per parameter: +1 high end hurts, −1 low end, 0 no effect
+	hold   bool               // supplies stay nominal for this item
+}
+
+// Worst judges every item at the most adverse case of the box and returns
+// one finding per item (failing or not, as engine.Evaluate does).
+func Worst(c *circuit.Circuit, topo *topology.Topology, nominal *analysis.Case, cfg *engine.Config) ([]engine.Finding, error) {
+	box := Box(c)
+	fs, err := engine.Evaluate(nominal, nominal, cfg)
+	if err != nil {
+		return nil, err
+	}
+	hold := map[string]bool{}
+	for _, r := range cfg.Rules {
+		hold[r.ID] = r.HoldSupplies
+	}
+	items := map[engine.Key]*item{}
+	var order []engine.Key
+	get := func(f *engine.Finding) *item {
+		k := engine.KeyOf(f)
+		it := items[k]
+		if it == nil {
+			it = &item{best: *f, corner: map[string]float64{}, dirs: make([]int8, len(box)), hold: hold[f.Rule]}
+			items[k] = it
+			order = append(order, k)
+		}
+		return it
+	}
+	for i := range fs {
+		it := get(&fs[i])
+		it.nom = &fs[i]
+	}
+
+	// One analysis per parameter, at its high end: the sign of each item's
+	// change gives the adverse end.
+	for i, p := range box {
+		cc := c.Clone()
+		p.set(cc, p.Hi)
+		hi, err := engine.Evaluate(analysis.Run(cc, topo), nominal, cfg)
+		if err != nil {
+			return nil, err
+		}
+		for j := range hi {
+			f := &hi[j]
+			it := get(f)
+			if it.hold && p.holdsSupply {
+				continue
+			}
+			if it.nom != nil && f.HasMetric && it.nom.HasMetric && moved(f, it.nom) {
+				switch {
+				case engine.Worse(f, it.nom):
+					it.dirs[i] = +1
+				case engine.Worse(it.nom, f):
+					it.dirs[i] = -1
+				}
+			}
+			if engine.Worse(f, &it.best) {
+				it.best, it.corner = *f, map[string]float64{p.Key: p.Hi}
+			}
+		}
+	}
+
+	// Judge each item at its vertex; items wanting the same vertex share it.
+	vertices := map[string][]engine.Key{}
+	var vorder []string
+	for _, k := range order {
+		it := items[k]
+		sig := signature(it.dirs)
+		if !strings.ContainsAny(sig, "+-") {
+			continue
+		}
+		if _, ok := vertices[sig]; !ok {
+			vorder = append(vorder, sig)
+		}
+		vertices[sig] = append(vertices[sig], k)
+	}
+	for _, sig := range vorder {
+		keys := vertices[sig]
+		dirs := items[keys[0]].dirs
+		cc := c.Clone()
+		corner := map[string]float64{}
+		for i, p := range box {
+			switch dirs[i] {
+			case +1:
+				p.set(cc, p.Hi)
+				corner[p.Key] = p.Hi
+			case -1:
+				p.set(cc, p.Lo)
+				corner[p.Key] = p.Lo
+			}
+		}
+		vf, err := engine.Evaluate(analysis.Run(cc, topo), nominal, cfg)
+		if err != nil {
+			return nil, err
+		}
+		at := map[engine.Key]*engine.Finding{}
+		for j := range vf {
+			at[engine.KeyOf(&vf[j])] = &vf[j]
+		}
+		for _, k := range keys {
+			it := items[k]
+			if f := at[k]; f != nil && !engine.Worse(&it.best, f) {
+				it.best, it.corner = *f, corner
+			}
+		}
+	}
+
+	out := make([]engine.Finding, 0, len(order))
+	for _, k := range order {
+		it := items[k]
+		f := it.best
+		f.Corner = it.corner
+		f.CornerText = Describe(box, it.corner)
+		out = append(out, f)
+	}
+	return out, nil
+}
+
+// moved reports whether a metric moved by more than one part in 10⁶.
+func moved(a, b *engine.Finding) bool {
+	return rel(a.Measured, b.Measured) > moveTol || rel(a.Limit, b.Limit) > moveTol
+}
+
+func rel(a, b float64) float64 {
+	d := math.Abs(a - b)
+	if s := math.Max(math.Abs(a), math.Abs(b)); s > 0 {
+		return d / s
+	}
+	return d
+}
+
+func signature(dirs []int8) string {
+	var b strings.Builder
+	for _, d := range dirs {
+		b.WriteByte("-0+"[d+1])
+	}
+	return b.String()
+}
+
+// Describe writes a corner for people, in box order: part values as their
+// deviation from nominal ("R1 -5 %"), hFE, AL, supply volts and the ambient.
+func Describe(box []Param, corner map[string]float64) string {
+	var parts []string
+	for _, p := range box {
+		v, ok := corner[p.Key]
+		if !ok {
+			continue
+		}
+		switch {
+		case strings.HasSuffix(p.Key, ".hfe"):
+			parts = append(parts, fmt.Sprintf("%s hFE %s", strings.TrimSuffix(p.Key, ".hfe"), quantity.Format(v, quantity.Ratio)))
+		case p.Tolerance:
+			name := p.Key
+			if strings.HasSuffix(name, ".al") {
+				name = strings.TrimSuffix(name, ".al") + " AL"
+			}
+			parts = append(parts, fmt.Sprintf("%s %+.3g %%", name, (v/p.Nom-1)*100))
+		case p.Key == "ambient":
+			parts = append(parts, "ambient "+quantity.Format(v, quantity.Celsius))
+		default:
+			parts = append(parts, p.Key+" "+quantity.Format(v, p.Unit))
+		}
+	}
+	return strings.Join(parts, ", ")
+}

@@ -1,0 +1,74 @@
+package engine
+
+import (
+	"fmt"
+	"sort"
+
+	"headroom/checker/analysis"
+)
+
+// Config is the effective rule set for one circuit file.
+type Config struct {
+	Rules    []*Rule                       // every known rule, sorted by id
+	Severity map[string]Severity           // per rule id; missing = Off
+	Params   map[string]map[string]float64 // per rule id
+	FailOn   Severity
+	Corners  string // "worst" or "nominal"
+	Name     string // the rule set's name, for output
+}
+
+// Enabled reports whether the rule runs under this configuration.
+func (cfg *Config) Enabled(r *Rule) bool { return cfg.Severity[r.ID] != Off }
+
+// Evaluate runs every enabled rule with a run function over one analysed
+// case and returns everything the rules judged, failing or not. nominal is
+// the nominal case of a worst-case search, nil for a nominal run (rules that
+// need corners run only in a search).
+func Evaluate(cs *analysis.Case, nominal *analysis.Case, cfg *Config) ([]Finding, error) {
+	worst := nominal != nil
+	if nominal == nil {
+		nominal = cs
+	}
+	var all []Finding
+	for _, r := range cfg.Rules {
+		if r.Run == nil || !cfg.Enabled(r) || r.NeedsCorners && !worst {
+			continue
+		}
+		p := &Pass{Circuit: cs.Circuit, A: cs, Params: cfg.Params[r.ID], Corners: worst,
+			Nominal: nominal, NominalCircuit: nominal.Circuit, rule: r}
+		if err := r.Run(p); err != nil {
+			return nil, fmt.Errorf("rule %s: %w", r.ID, err)
+		}
+		all = append(all, p.findings...)
+	}
+	return all, nil
+}
+
+// Key identifies one judged item across cases: the rule, the part and, for a
+// two-bound rule, the bound.
+type Key struct {
+	Rule, Part, Bound string
+}
+
+// KeyOf is the identity the worst-case search groups findings by.
+func KeyOf(f *Finding) Key { return Key{f.Rule, f.Part, f.Bound} }
+
+// Sort puts findings in a fixed order: file, line, column, rule, part.
+func Sort(fs []Finding) {
+	sort.SliceStable(fs, func(i, j int) bool {
+		a, b := fs[i], fs[j]
+		if a.Pos.File != b.Pos.File {
+			return a.Pos.File < b.Pos.File
+		}
+		if a.Pos.Line != b.Pos.Line {
+			return a.Pos.Line < b.Pos.Line
+		}
+		if a.Pos.Col != b.Pos.Col {
+			return a.Pos.Col < b.Pos.Col
+		}
+		if a.Rule != b.Rule {
+			return a.Rule < b.Rule
+		}
+		return a.Part < b.Part
+	})
+}

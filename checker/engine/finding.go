@@ -1,0 +1,107 @@
+package engine
+
+import "headroom/checker/circuit"
+
+// Severity orders how much a finding matters.
+type Severity int
+
+// Severities, lowest first. Off disables a rule.
+const (
+	Off Severity = iota
+	Info
+	Warning
+	Error
+)
+
+var severityNames = [...]string{"off", "info", "warning", "error"}
+
+func (s Severity) String() string { return severityNames[s] }
+
+// ParseSeverity reads a severity name.
+func ParseSeverity(s string) (Severity, bool) {
+	for i, n := range severityNames {
+		if n == s {
+			return Severity(i), true
+		}
+	}
+	return Off, false
+}
+
+// Finding is one judged item. A rule fills the first block; the engine fills
+// the rest.
+type Finding struct {
+	Rule    string
+	Part    string      // part, port or supply name; "" for the whole circuit
+	Pos     circuit.Pos // where the finding points
+	Message string      // states the fact, in the case judged
+
+	// The metric, in SI base units. Comparison reads "Measured must be
+	// Comparison Limit".
+	HasMetric  bool
+	Measured   float64
+	Limit      float64
+	Comparison string // ">=" or "<="
+	Unit       string // ohm F H V A W Hz dB ratio fraction
+	// Bound names which bound a two-bound rule judged ("min" or "max"); the
+	// worst-case search keeps one finding per part, at the worse bound.
+	Bound string
+	// Absolute is the load against the part's absolute rating (margin rules);
+	// above 1 the finding is an error whatever the rule's severity.
+	Absolute float64
+
+	Fix     string   // always present on a failing finding
+	Changes []Change // the file edits that make the fix, when it is concrete
+
+	// Engine-filled.
+	Severity   Severity
+	Corner     map[string]float64 // the values that differ from nominal
+	CornerText string             // the same, for people: "Q1 hFE 100, vcc 13.8 V, R1 -5 %"
+	Waived     bool
+	Reason     string // the waiver's reason, when waived
+}
+
+// Change is one circuit-file edit: part (or REF.WINDING), key, new text.
+type Change struct {
+	Part string `json:"part"`
+	Key  string `json:"key"`
+	To   string `json:"to"`
+}
+
+// Failing reports whether the finding fails its rule: always for an item
+// without a metric, else when the metric fails its comparison.
+func (f *Finding) Failing() bool {
+	if !f.HasMetric {
+		return true
+	}
+	return Fails(f.Measured, f.Limit, f.Comparison)
+}
+
+// Worse reports whether f is more adverse than g for the worst-case search
+// (FORMAT.md §6): the larger measured ÷ limit for a "<=" rule, the larger
+// limit ÷ measured for a ">=" rule, where a measured value at or below zero is
+// worse than every positive one and more negative is worse. An item without a
+// metric (it fails outright) is worse than any measured one.
+func Worse(f, g *Finding) bool {
+	cf, vf := f.badness()
+	cg, vg := g.badness()
+	if cf != cg {
+		return cf > cg
+	}
+	return vf > vg
+}
+
+// badness is a class and a value within it, compared lexicographically.
+func (f *Finding) badness() (int, float64) {
+	switch {
+	case !f.HasMetric:
+		return 3, 0
+	case f.Comparison == "<=":
+		if f.Limit <= 0 {
+			return 2, f.Measured
+		}
+		return 0, f.Measured / f.Limit
+	case f.Measured <= 0:
+		return 1, -f.Measured
+	}
+	return 0, f.Limit / f.Measured
+}

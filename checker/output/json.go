@@ -1,0 +1,158 @@
+// Package output writes the results of `headroom check` in the formats of
+// FORMAT.md §5: GNU-style text, JSON and SARIF.
+package output
+
+import (
+	"encoding/json"
+	"errors"
+	"io"
+	"math"
+
+	"headroom/checker/check"
+	"headroom/checker/circuit"
+	"headroom/checker/circuit/tomlfile"
+	"headroom/checker/engine"
+)
+
+// Summary counts unwaived findings by severity, and the waived ones.
+type Summary struct {
+	Error   int `json:"error"`
+	Warning int `json:"warning"`
+	Info    int `json:"info"`
+	Waived  int `json:"waived"`
+}
+
+// Summarize counts the findings of every file.
+func Summarize(results []check.Result) Summary {
+	var s Summary
+	for _, r := range results {
+		for _, f := range r.Findings {
+			switch {
+			case f.Waived:
+				s.Waived++
+			case f.Severity == engine.Error:
+				s.Error++
+			case f.Severity == engine.Warning:
+				s.Warning++
+			case f.Severity == engine.Info:
+				s.Info++
+			}
+		}
+	}
+	return s
+}
+
+type jsonFile struct {
+	Path    string `json:"path"`
+	Circuit string `json:"circuit"`
+	RuleSet string `json:"ruleset"`
+	Corners string `json:"corners"`
+	FailOn  string `json:"fail_on"`
+}
+
+type jsonFinding struct {
+	Rule       string             `json:"rule"`
+	Severity   string             `json:"severity"`
+	Path       string             `json:"path"`
+	Line       int                `json:"line"`
+	Column     int                `json:"column"`
+	Part       string             `json:"part,omitempty"`
+	Message    string             `json:"message"`
+	Measured   *float64           `json:"measured,omitempty"`
+	Limit      *float64           `json:"limit,omitempty"`
+	Comparison string             `json:"comparison,omitempty"`
+	Unit       string             `json:"unit,omitempty"`
+	Corner     map[string]float64 `json:"corner"`
+	Fix        string             `json:"fix"`
+	Changes    []engine.Change    `json:"changes,omitempty"`
+	Waived     bool               `json:"waived"`
+	Reason     string             `json:"waiver_reason,omitempty"`
+}
+
+type jsonError struct {
+	Path    string `json:"path"`
+	Line    int    `json:"line"`
+	Column  int    `json:"column"`
+	Message string `json:"message"`
+}
+
+type jsonCheck struct {
+	Version  int           `json:"version"`
+	Files    []jsonFile    `json:"files"`
+	Findings []jsonFinding `json:"findings"`
+	Errors   []jsonError   `json:"errors"`
+	Summary  Summary       `json:"summary"`
+}
+
+// JSON writes the check results as FORMAT.md §5's JSON document.
+func JSON(w io.Writer, results []check.Result, extra []error) error {
+	doc := jsonCheck{Version: 1, Files: []jsonFile{}, Findings: []jsonFinding{}, Errors: []jsonError{}}
+	for _, r := range results {
+		if r.Skipped {
+			continue
+		}
+		if r.Err != nil {
+			doc.Errors = append(doc.Errors, errorJSON(r.Path, r.Err))
+			continue
+		}
+		doc.Files = append(doc.Files, jsonFile{Path: r.Path, Circuit: r.Circuit, RuleSet: r.RuleSet,
+			Corners: r.Corners, FailOn: r.FailOn.String()})
+		for _, f := range r.Findings {
+			doc.Findings = append(doc.Findings, findingJSON(r.Path, f))
+		}
+	}
+	for _, e := range extra {
+		doc.Errors = append(doc.Errors, errorJSON("", e))
+	}
+	doc.Summary = Summarize(results)
+	enc := json.NewEncoder(w)
+	enc.SetIndent("", "  ")
+	enc.SetEscapeHTML(false)
+	return enc.Encode(doc)
+}
+
+func findingJSON(path string, f engine.Finding) jsonFinding {
+	j := jsonFinding{Rule: f.Rule, Severity: f.Severity.String(), Path: path, Line: f.Pos.Line,
+		Column: f.Pos.Col, Part: f.Part, Message: f.Message, Corner: f.Corner, Fix: f.Fix,
+		Changes: f.Changes, Waived: f.Waived, Reason: f.Reason}
+	if j.Corner == nil {
+		j.Corner = map[string]float64{}
+	}
+	if f.HasMetric {
+		m, l := finite(f.Measured), finite(f.Limit)
+		j.Measured, j.Limit, j.Comparison, j.Unit = &m, &l, f.Comparison, f.Unit
+	}
+	return j
+}
+
+// errorJSON places an input error (of a circuit, library or rule-set file);
+// an error without a position points at 1:1 of the file being checked.
+func errorJSON(path string, err error) jsonError {
+	var ie *circuit.InputError
+	var te *tomlfile.Error
+	j := jsonError{Path: path, Line: 1, Column: 1, Message: err.Error()}
+	switch {
+	case errors.As(err, &ie):
+		j = jsonError{Path: ie.Pos.File, Line: ie.Pos.Line, Column: ie.Pos.Col, Message: ie.Msg}
+	case errors.As(err, &te):
+		j = jsonError{Path: te.File, Line: te.Pos.Line, Column: te.Pos.Col, Message: te.Msg}
+	}
+	if j.Path == "" {
+		j.Path = path
+	}
+	j.Line, j.Column = max(j.Line, 1), max(j.Column, 1)
+	return j
+}
+
+// finite keeps JSON valid: no metric is ever printed as Inf or NaN.
+func finite(x float64) float64 {
+	switch {
+	case math.IsNaN(x):
+		return 0
+	case math.IsInf(x, 1):
+		return math.MaxFloat64
+	case math.IsInf(x, -1):
+		return -math.MaxFloat64
+	}
+	return x
+}

@@ -1,0 +1,94 @@
+package output
+
+import (
+	"fmt"
+	"io"
+
+	"github.com/fatih/color"
+
+	"headroom/checker/check"
+	"headroom/checker/engine"
+)
+
+// Palette colours the text output; the zero value prints plain text.
+type Palette struct {
+	on                           bool
+	err, warn, info, rule, faint *color.Color
+}
+
+// NewPalette returns a palette that colours only when on is true.
+func NewPalette(on bool) Palette {
+	mk := func(attrs ...color.Attribute) *color.Color {
+		c := color.New(attrs...)
+		if on {
+			c.EnableColor()
+		} else {
+			c.DisableColor()
+		}
+		return c
+	}
+	return Palette{on: on, err: mk(color.FgRed, color.Bold), warn: mk(color.FgYellow, color.Bold),
+		info: mk(color.FgBlue), rule: mk(color.FgCyan), faint: mk(color.Faint)}
+}
+
+func (p Palette) paint(c *color.Color, s string) string {
+	if !p.on || c == nil {
+		return s
+	}
+	return c.Sprint(s)
+}
+
+func (p Palette) severity(s engine.Severity) string {
+	switch s {
+	case engine.Error:
+		return p.paint(p.err, "error")
+	case engine.Warning:
+		return p.paint(p.warn, "warning")
+	}
+	return p.paint(p.info, "info")
+}
+
+// Text writes one GNU-style line per unwaived finding with indented detail
+// lines, then a summary line. Input errors are written to errw.
+func Text(w, errw io.Writer, results []check.Result, pal Palette) {
+	files := 0
+	for _, r := range results {
+		if r.Skipped {
+			continue
+		}
+		if r.Err != nil {
+			fmt.Fprintln(errw, ErrorLine(r.Path, r.Err))
+			continue
+		}
+		files++
+		for _, f := range r.Findings {
+			if f.Waived {
+				continue
+			}
+			fmt.Fprintf(w, "%s:%d:%d: %s: %s %s\n", r.Path, f.Pos.Line, f.Pos.Col, pal.severity(f.Severity),
+				f.Message, pal.paint(pal.rule, "["+f.Rule+"]"))
+			if c := f.CornerText; c != "" {
+				fmt.Fprintf(w, "    %s %s\n", pal.paint(pal.faint, "worst case:"), c)
+			}
+			if f.Fix != "" {
+				fmt.Fprintf(w, "    %s %s\n", pal.paint(pal.faint, "fix:"), f.Fix)
+			}
+		}
+	}
+	s := Summarize(results)
+	fmt.Fprintf(w, "%s, %s, %s, %d waived in %s\n", plural(s.Error, "error"), plural(s.Warning, "warning"),
+		plural(s.Info, "info"), s.Waived, plural(files, "circuit file"))
+}
+
+// ErrorLine renders an input error in the GNU form, at 1:1 when it has no position.
+func ErrorLine(path string, err error) string {
+	j := errorJSON(path, err)
+	return fmt.Sprintf("%s:%d:%d: error: %s", j.Path, j.Line, j.Column, j.Message)
+}
+
+func plural(n int, word string) string {
+	if n == 1 || word == "info" {
+		return fmt.Sprintf("%d %s", n, word)
+	}
+	return fmt.Sprintf("%d %ss", n, word)
+}

@@ -1,0 +1,177 @@
+package report
+
+import (
+	"encoding/json"
+	"io"
+	"math"
+
+	"headroom/checker/circuit"
+)
+
+type jsonZ struct {
+	Re float64 `json:"re"`
+	Im float64 `json:"im"`
+}
+
+type jsonBand struct {
+	Frequency      float64               `json:"frequency"`
+	InputImpedance *jsonZ                `json:"input_impedance,omitempty"`
+	ReturnLossDB   *float64              `json:"return_loss_db,omitempty"`
+	GainDB         *float64              `json:"gain_db"`
+	VoltageGainDB  *float64              `json:"voltage_gain_db"`
+	Ranges         map[string][2]float64 `json:"ranges,omitempty"`
+	hasGain        bool
+}
+
+// MarshalJSON leaves the gains out when the circuit has no in/out pair, and
+// writes null where a pair exists but no signal reaches the output.
+func (b jsonBand) MarshalJSON() ([]byte, error) {
+	type plain jsonBand
+	if b.hasGain {
+		return json.Marshal(plain(b))
+	}
+	type noGain struct {
+		Frequency      float64               `json:"frequency"`
+		InputImpedance *jsonZ                `json:"input_impedance,omitempty"`
+		ReturnLossDB   *float64              `json:"return_loss_db,omitempty"`
+		Ranges         map[string][2]float64 `json:"ranges,omitempty"`
+	}
+	return json.Marshal(noGain{b.Frequency, b.InputImpedance, b.ReturnLossDB, b.Ranges})
+}
+
+type jsonDoc struct {
+	Version     int                       `json:"version"`
+	Circuit     string                    `json:"circuit"`
+	Temperature float64                   `json:"temperature"`
+	Corners     string                    `json:"corners"`
+	Error       string                    `json:"error,omitempty"`
+	Nets        map[string]float64        `json:"nets"`
+	Parts       map[string]map[string]any `json:"parts"`
+	Band        []jsonBand                `json:"band"`
+}
+
+// JSON writes the report as FORMAT.md §5's document.
+func (r *Report) JSON(w io.Writer) error {
+	c, cs := r.Circuit, r.Case
+	doc := jsonDoc{Version: 1, Circuit: c.Name, Temperature: c.Ambient.Nominal, Corners: "nominal",
+		Nets: map[string]float64{}, Parts: map[string]map[string]any{}, Band: []jsonBand{}}
+	if r.Ranges != nil {
+		doc.Corners = "worst"
+	}
+	if cs.OPErr != nil {
+		doc.Error = "no DC operating point: " + cs.OPErr.Error()
+	} else if cs.ACErr != nil {
+		doc.Error = "no band analysis: " + cs.ACErr.Error()
+	}
+	op, ac := cs.OP, cs.AC
+	if op != nil {
+		for _, n := range c.Nets() {
+			doc.Nets[n] = fin(op.V[n])
+		}
+	}
+	for _, p := range c.Parts {
+		e := map[string]any{}
+		if op != nil {
+			if d := op.Parts[p.Ref]; d != nil {
+				switch p.Kind {
+				case circuit.Resistor:
+					e["current"], e["power"] = fin(d.Current), fin(d.Power)
+				case circuit.Potentiometer:
+					e["power"] = fin(d.Power)
+				case circuit.Capacitor:
+					e["voltage"] = fin(d.Voltage)
+				case circuit.Inductor:
+					e["current"] = fin(d.Current)
+				}
+			}
+			if b := op.BJTs[p.Ref]; b != nil {
+				e["ic"], e["ib"], e["vbe"], e["vce"] = fin(b.IC), fin(b.IB), fin(b.VBE), fin(b.VCE)
+				e["power"], e["hfe"], e["region"] = fin(b.Power), fin(b.HFE), b.Region
+				if ac != nil && ac.BJTs[p.Ref] != nil {
+					e["gm"], e["beta_high"] = fin(ac.BJTs[p.Ref].GM), fin(ac.BJTs[p.Ref].BetaHigh)
+				}
+				if r.Ranges != nil {
+					rg := map[string][2]float64{}
+					for _, k := range []string{"ic", "vce", "power"} {
+						if v, ok := r.Ranges[p.Ref+"."+k]; ok {
+							rg[k] = [2]float64{fin(v[0]), fin(v[1])}
+						}
+					}
+					e["ranges"] = rg
+				}
+			}
+		}
+		if ac != nil {
+			if x := ac.Parts[p.Ref]; x != nil {
+				if p.Kind == circuit.Inductor {
+					e["inductance"] = fin(x.Inductance)
+				}
+				e["reactance"], e["circuit_impedance"] = fin(x.Reactance), fin(x.CircuitImpedance)
+			}
+		}
+		if role := cs.Topo.Roles[p.Ref]; role != "" {
+			e["role"] = role
+		}
+		if p.Kind == circuit.Transformer {
+			ws := map[string]any{}
+			for _, wd := range p.Windings {
+				we := map[string]any{}
+				if op != nil && op.Parts[p.Ref] != nil {
+					we["current"] = fin(op.Parts[p.Ref].Windings[wd.Name])
+				}
+				if ac != nil && ac.Windings[p.Ref] != nil {
+					if x := ac.Windings[p.Ref][wd.Name]; x != nil {
+						we["inductance"], we["reactance"], we["termination"] = fin(x.Inductance), fin(x.Reactance), fin(x.Termination)
+					}
+				}
+				ws[wd.Name] = we
+			}
+			e["windings"] = ws
+		}
+		doc.Parts[p.Ref] = e
+	}
+	if ac != nil {
+		for i, bp := range ac.Band {
+			jb := jsonBand{Frequency: bp.Frequency, hasGain: ac.HasGain, GainDB: finp(bp.GainDB), VoltageGainDB: finp(bp.VoltageGainDB)}
+			if ac.HasInput {
+				jb.InputImpedance = &jsonZ{fin(real(bp.InputImpedance)), fin(imag(bp.InputImpedance))}
+				rl := fin(bp.ReturnLossDB)
+				jb.ReturnLossDB = &rl
+			}
+			if r.Ranges != nil {
+				jb.Ranges = map[string][2]float64{}
+				for _, k := range []string{"gain_db", "return_loss_db"} {
+					if v, ok := r.Ranges[bandKey(i, k)]; ok {
+						jb.Ranges[k] = [2]float64{fin(v[0]), fin(v[1])}
+					}
+				}
+			}
+			doc.Band = append(doc.Band, jb)
+		}
+	}
+	enc := json.NewEncoder(w)
+	enc.SetIndent("", "  ")
+	enc.SetEscapeHTML(false)
+	return enc.Encode(doc)
+}
+
+// fin keeps the document valid JSON: never Inf or NaN.
+func fin(x float64) float64 {
+	switch {
+	case math.IsNaN(x):
+		return 0
+	case math.IsInf(x, 1):
+		return math.MaxFloat64
+	case math.IsInf(x, -1):
+		return -math.MaxFloat64
+	}
+	return x
+}
+
+func finp(p *float64) *float64 {
+	if p == nil {
+		return nil
+	}
+	v := fin(*p)
+	return &v
+}

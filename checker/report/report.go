@@ -1,0 +1,46 @@
+// Package report builds what `headroom report` shows: the nominal operating
+// point, the band analysis, the roles of the reactive parts and, with
+// worst-case corners, the range of the main figures over the corner box. One
+// Report value is rendered as text, Markdown or JSON (FORMAT.md §5).
+package report
+
+import (
+	"headroom/checker/analysis"
+	"headroom/checker/circuit"
+)
+
+// Report is everything `report` prints about one circuit.
+type Report struct {
+	Circuit *circuit.Circuit
+	Case    *analysis.Case // the nominal case
+	// Ranges holds, with worst-case corners, the [lo, hi] of each main figure
+	// over the box, keyed like "Q1.ic" or "band.0.gain_db"; nil for nominal.
+	Ranges map[string][2]float64
+}
+
+// Quantities are the figures whose range over the box the report shows:
+// each BJT's IC, VCE and dissipation, and each band point's gain and input
+// return loss. Missing figures (no operating point, no ports) are left out.
+func Quantities(cs *analysis.Case) map[string]float64 {
+	q := map[string]float64{}
+	if cs.OP != nil {
+		for ref, b := range cs.OP.BJTs {
+			q[ref+".ic"], q[ref+".vce"], q[ref+".power"] = b.IC, b.VCE, b.Power
+		}
+	}
+	if cs.AC != nil {
+		for i, bp := range cs.AC.Band {
+			if bp.GainDB != nil {
+				q[bandKey(i, "gain_db")] = *bp.GainDB
+			}
+			if cs.AC.HasInput {
+				q[bandKey(i, "return_loss_db")] = bp.ReturnLossDB
+			}
+		}
+	}
+	return q
+}
+
+func bandKey(i int, name string) string {
+	return "band." + string(rune('0'+i)) + "." + name
+}

@@ -1,0 +1,276 @@
+// Package ruleset reads rule-set files (FORMAT.md §4): the shipped sets, files
+// that extend them, discovery of .headroom.toml, and command-line overrides.
+// It turns them into the engine's Config for one circuit file.
+package ruleset
+
+import (
+	"fmt"
+	"os"
+	"path/filepath"
+	"sort"
+	"strings"
+
+	"headroom/checker/circuit/tomlfile"
+	"headroom/checker/engine"
+	"headroom/checker/quantity"
+	"headroom/rulesets"
+)
+
+// DiscoveryName is the rule-set file `check` looks for beside circuit files.
+const DiscoveryName = ".headroom.toml"
+
+// Set is a fully resolved rule set.
+type Set struct {
+	Name      string
+	Source    string // path, or "builtin:NAME"
+	FailOn    engine.Severity
+	Corners   string   // "worst" or "nominal"
+	Libraries []string // resolved paths, in the order they are merged
+	Severity  map[string]engine.Severity
+	Params    map[string]map[string]float64
+}
+
+// Config returns the engine configuration for this set.
+func (s *Set) Config(rules []*engine.Rule) *engine.Config {
+	return &engine.Config{Rules: rules, Severity: s.Severity, Params: s.Params,
+		FailOn: s.FailOn, Corners: s.Corners, Name: s.Name}
+}
+
+// Loader reads rule sets. ReadFile lets `check --staged` read from the git index.
+type Loader struct {
+	Rules    []*engine.Rule
+	ReadFile func(path string) ([]byte, error)
+}
+
+// IsBuiltin reports whether ref names a shipped rule set rather than a file.
+func IsBuiltin(ref string) bool {
+	_, ok := rulesets.Builtin(ref)
+	return ok && !strings.ContainsAny(ref, `/\.`)
+}
+
+// Load reads the rule set ref: a shipped name or a file path.
+func (l *Loader) Load(ref string) (*Set, error) {
+	return l.load(ref, nil)
+}
+
+func (l *Loader) load(ref string, seen []string) (*Set, error) {
+	builtin := IsBuiltin(ref)
+	key := ref
+	if !builtin {
+		key = filepath.Clean(ref)
+	}
+	for _, s := range seen {
+		if s == key {
+			return nil, &tomlfile.Error{File: key, Pos: tomlfile.Pos{Line: 1, Col: 1},
+				Msg: fmt.Sprintf("rule sets extend each other in a cycle: %s -> %s", strings.Join(seen, " -> "), key)}
+		}
+	}
+	seen = append(seen, key)
+
+	var data []byte
+	file := key
+	if builtin {
+		data, _ = rulesets.Builtin(ref)
+		file = "builtin:" + ref
+	} else {
+		read := l.ReadFile
+		if read == nil {
+			read = os.ReadFile
+		}
+		b, err := read(key)
+		if err != nil {
+			return nil, &tomlfile.Error{File: key, Pos: tomlfile.Pos{Line: 1, Col: 1},
+				Msg: fmt.Sprintf("cannot read rule set: %v", unwrapPathError(err))}
+		}
+		data = b
+	}
+	doc, err := tomlfile.Parse(file, data)
+	if err != nil {
+		return nil, err
+	}
+	root := doc.Root
+	root.What = "rule set"
+	root.Allow("name", "extends", "fail_on", "corners", "library", "rules")
+	if err := doc.Err(); err != nil {
+		return nil, err
+	}
+
+	var set *Set
+	if builtin && ref == "default" {
+		set = &Set{Name: "default", FailOn: engine.Error, Corners: "worst",
+			Severity: map[string]engine.Severity{}, Params: map[string]map[string]float64{}}
+	} else {
+		parentRef := "default"
+		if s, ok := root.String("extends", false); ok {
+			parentRef = s
+			if !IsBuiltin(s) {
+				if builtin {
+					return nil, &tomlfile.Error{File: file, Pos: root.ValPos("extends"), Msg: "a shipped rule set extends only shipped ones"}
+				}
+				parentRef = filepath.Join(filepath.Dir(key), s)
+			}
+		}
+		if err := doc.Err(); err != nil {
+			return nil, err
+		}
+		parent, err := l.load(parentRef, seen)
+		if err != nil {
+			if te, ok := err.(*tomlfile.Error); ok && te.File == filepath.Clean(parentRef) && te.Pos == (tomlfile.Pos{Line: 1, Col: 1}) && !strings.Contains(te.Msg, "cycle") {
+				// The parent cannot be read: point at the extends line that names it.
+				return nil, &tomlfile.Error{File: file, Pos: root.ValPos("extends"), Msg: fmt.Sprintf("extends %q: %s", parentRef, te.Msg)}
+			}
+			return nil, err
+		}
+		set = parent.clone()
+		set.Name = ""
+	}
+	set.Source = file
+	l.apply(root, set, filepath.Dir(key))
+	if err := doc.Err(); err != nil {
+		return nil, err
+	}
+	if set.Name == "" {
+		set.Name = strings.TrimSuffix(filepath.Base(key), ".toml")
+	}
+	return set, nil
+}
+
+func (s *Set) clone() *Set {
+	d := *s
+	d.Libraries = append([]string(nil), s.Libraries...)
+	d.Severity = map[string]engine.Severity{}
+	for k, v := range s.Severity {
+		d.Severity[k] = v
+	}
+	d.Params = map[string]map[string]float64{}
+	for k, m := range s.Params {
+		d.Params[k] = map[string]float64{}
+		for p, v := range m {
+			d.Params[k][p] = v
+		}
+	}
+	return &d
+}
+
+// apply overlays one rule-set file on the set it extends. Problems are
+// recorded on the file's document.
+func (l *Loader) apply(root *tomlfile.Table, set *Set, dir string) {
+	if s, ok := root.String("name", false); ok {
+		set.Name = s
+	}
+	if s, ok := root.String("fail_on", false); ok {
+		if sev, ok := engine.ParseSeverity(s); ok && sev != engine.Off {
+			set.FailOn = sev
+		} else {
+			root.Errorf(root.ValPos("fail_on"), "fail_on must be one of error, warning, info, not %q", s)
+		}
+	}
+	if s, ok := root.String("corners", false); ok {
+		if s == "worst" || s == "nominal" {
+			set.Corners = s
+		} else {
+			root.Errorf(root.ValPos("corners"), "corners must be \"worst\" or \"nominal\", not %q", s)
+		}
+	}
+	if libs, ok := root.Strings("library"); ok {
+		for _, s := range libs {
+			set.Libraries = append(set.Libraries, filepath.Join(dir, s))
+		}
+	}
+	rulesTable := root.Table("rules", "rules")
+	if rulesTable == nil {
+		return
+	}
+	for _, t := range rulesTable.Tables(func(id string) string { return fmt.Sprintf("[rules.%q]", id) }) {
+		id := t.Name
+		rule := l.find(id)
+		if rule == nil && strings.HasPrefix(root.Doc().File, "builtin:") {
+			continue // listed in the shipped set, not written yet
+		}
+		if rule == nil {
+			t.Errorf(rulesTable.KeyPos(id), "unknown rule %q; %s", id, Closest(id, l.Rules))
+			continue
+		}
+		accepted := []string{"severity"}
+		for _, p := range rule.Doc.Params {
+			accepted = append(accepted, p.Name)
+		}
+		t.Allow(accepted...)
+		if s, ok := t.String("severity", false); ok {
+			if sev, ok := engine.ParseSeverity(s); ok {
+				set.Severity[id] = sev
+			} else {
+				t.Errorf(t.ValPos("severity"), "severity must be one of error, warning, info, off, not %q", s)
+			}
+		}
+		if set.Params[id] == nil {
+			set.Params[id] = map[string]float64{}
+		}
+		for _, p := range rule.Doc.Params {
+			sign := tomlfile.NonNegative
+			if p.Unit == quantity.Celsius {
+				sign = tomlfile.AnySign
+			}
+			if x, ok := t.Quantity(p.Name, p.Unit, sign); ok {
+				set.Params[id][p.Name] = x
+			}
+		}
+	}
+}
+
+func (l *Loader) find(id string) *engine.Rule {
+	for _, x := range l.Rules {
+		if x.ID == id {
+			return x
+		}
+	}
+	return nil
+}
+
+// Closest names the known rule ids nearest to id, for an error message.
+func Closest(id string, rules []*engine.Rule) string {
+	type cand struct {
+		id string
+		d  int
+	}
+	var cs []cand
+	for _, r := range rules {
+		cs = append(cs, cand{r.ID, distance(id, r.ID)})
+	}
+	sort.SliceStable(cs, func(i, j int) bool { return cs[i].d < cs[j].d })
+	var names []string
+	for i := 0; i < len(cs) && i < 3; i++ {
+		names = append(names, cs[i].id)
+	}
+	return "closest known rules: " + strings.Join(names, ", ")
+}
+
+// distance is the Levenshtein edit distance.
+func distance(a, b string) int {
+	prev := make([]int, len(b)+1)
+	for j := range prev {
+		prev[j] = j
+	}
+	for i := 1; i <= len(a); i++ {
+		cur := make([]int, len(b)+1)
+		cur[0] = i
+		for j := 1; j <= len(b); j++ {
+			cost := 1
+			if a[i-1] == b[j-1] {
+				cost = 0
+			}
+			cur[j] = min(prev[j]+1, cur[j-1]+1, prev[j-1]+cost)
+		}
+		prev = cur
+	}
+	return prev[len(b)]
+}
+
+func unwrapPathError(err error) error {
+	if pe, ok := err.(interface{ Unwrap() error }); ok {
+		if inner := pe.Unwrap(); inner != nil {
+			return inner
+		}
+	}
+	return err
+}

@@ -1,0 +1,87 @@
+package main
+
+import (
+	"encoding/json"
+	"flag"
+	"fmt"
+
+	"headroom/checker/ruledoc"
+	"headroom/checker/ruleset"
+	"headroom/rules"
+)
+
+func (e *env) rules(args []string) int {
+	fset := flag.NewFlagSet("rules", flag.ContinueOnError)
+	ref := fset.String("rules", "", "rule set: a file or a shipped name (default: discovery from this folder)")
+	format := fset.String("format", "text", "text or json")
+	rest, ok := e.parse(fset, args)
+	if !ok {
+		return exitInput
+	}
+	if len(rest) > 0 {
+		return e.usageError("rules takes no arguments")
+	}
+	if !oneOf(*format, "text", "json") {
+		return e.usageError("--format must be text or json, not %q", *format)
+	}
+	all := rules.All()
+	loader := &ruleset.Loader{Rules: all, ReadFile: readFile}
+	name := *ref
+	if name == "" {
+		name = ruleset.Discover(".", exists)
+	}
+	set, err := loader.Load(name)
+	if err != nil {
+		fmt.Fprintln(e.stderr, errorLine(name, err))
+		return exitInput
+	}
+	if *format == "json" {
+		type jr struct {
+			ID       string             `json:"id"`
+			Title    string             `json:"title"`
+			Severity string             `json:"severity"`
+			Params   map[string]float64 `json:"params"`
+		}
+		doc := struct {
+			Version int    `json:"version"`
+			RuleSet string `json:"ruleset"`
+			Rules   []jr   `json:"rules"`
+		}{Version: 1, RuleSet: set.Name, Rules: []jr{}}
+		for _, r := range all {
+			params := map[string]float64{}
+			for _, p := range r.Doc.Params {
+				params[p.Name] = set.Params[r.ID][p.Name]
+			}
+			doc.Rules = append(doc.Rules, jr{r.ID, r.Doc.Title, set.Severity[r.ID].String(), params})
+		}
+		enc := json.NewEncoder(e.stdout)
+		enc.SetIndent("", "  ")
+		enc.Encode(doc)
+		return exitOK
+	}
+	fmt.Fprintf(e.stdout, "rule set %s\n\n", set.Name)
+	for _, r := range all {
+		fmt.Fprintf(e.stdout, "%-26s %-8s %s\n", r.ID, set.Severity[r.ID], r.Doc.Title)
+		for _, p := range r.Doc.Params {
+			fmt.Fprintf(e.stdout, "%-26s   %s = %s\n", "", p.Name, ruledoc.Value(set.Params[r.ID][p.Name], p.Unit))
+		}
+	}
+	return exitOK
+}
+
+func (e *env) explain(args []string) int {
+	if len(args) != 1 {
+		return e.usageError("explain takes one rule id, e.g. headroom explain bias.divider-stiffness")
+	}
+	all := rules.All()
+	r := rules.ByID(args[0])
+	if r == nil {
+		return e.usageError("unknown rule %q; %s", args[0], ruleset.Closest(args[0], all))
+	}
+	def, strict, err := ruledoc.Shipped(all)
+	if err != nil {
+		return e.usageError("%v", err)
+	}
+	fmt.Fprint(e.stdout, ruledoc.Explain(r, def, strict))
+	return exitOK
+}

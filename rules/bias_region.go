@@ -1,0 +1,62 @@
+package rules
+
+import (
+	"fmt"
+
+	"headroom/checker/dc"
+	"headroom/checker/engine"
+	"headroom/checker/quantity"
+)
+
+// BiasRegion is the first safety net: every transistor must sit in its
+// forward-active region, and the circuit must have an operating point at all.
+var BiasRegion = &engine.Rule{
+	ID: "bias.region",
+	Doc: engine.Doc{
+		Title: "every transistor must be biased in its forward-active region",
+		Why: "A stage that is cut off passes nothing and one that is saturated clips everything; " +
+			"every other bias and margin figure is meaningless until the operating point is in the active region. " +
+			"When no operating point can be found at all (no convergence, a singular network) the reason is reported here.",
+		Formula: "cut off: IC < min_ic (tested first; measured IC, >=, unit A); saturated: VCE < min_vce (measured VCE, >=, unit V)",
+		Source:  "the definition of the forward-active region (Ebers–Moll model, FORMAT.md §6)",
+		Fix: "Cut off: raise the base voltage (upper divider leg smaller, or lower leg larger) or lower the emitter resistance. " +
+			"Saturated: lower the collector-feed resistance, raise the emitter resistance, or lower the base voltage.",
+		Params: []engine.Param{
+			{Name: "min_ic", Unit: quantity.Ampere, Help: "collector current below which a transistor counts as cut off"},
+			{Name: "min_vce", Unit: quantity.Volt, Help: "collector–emitter voltage below which a transistor counts as saturated"},
+		},
+	},
+	Run: runBiasRegion,
+}
+
+func runBiasRegion(p *engine.Pass) error {
+	cs := p.A
+	if cs.OPErr != nil {
+		part := ""
+		if f, ok := cs.OPErr.(*dc.Failure); ok {
+			part = f.Part
+		}
+		p.Report(engine.Finding{Part: part,
+			Message: "no DC operating point: " + cs.OPErr.Error(),
+			Fix:     "check the wiring the reason names; a network without a solution usually has a short, a loop of ideal windings or a transistor with no bias path"})
+		return nil
+	}
+	minIC, minVCE := p.Param("min_ic"), p.Param("min_vce")
+	for _, part := range bjts(p) {
+		q := cs.OP.BJTs[part.Ref]
+		if q == nil {
+			continue
+		}
+		p.Report(engine.Finding{Part: part.Ref, Bound: "cutoff",
+			HasMetric: true, Measured: q.IC, Limit: minIC, Comparison: ">=", Unit: "A",
+			Message: fmt.Sprintf("%s is cut off: IC %s, needs at least %s", part.Ref,
+				quantity.Format(q.IC, quantity.Ampere), quantity.Format(minIC, quantity.Ampere)),
+			Fix: "raise the base voltage (a smaller upper divider leg or a larger lower leg) or lower the emitter resistance until the collector current flows"})
+		p.Report(engine.Finding{Part: part.Ref, Bound: "saturated",
+			HasMetric: true, Measured: q.VCE, Limit: minVCE, Comparison: ">=", Unit: "V",
+			Message: fmt.Sprintf("%s is saturated: VCE %s, needs at least %s", part.Ref,
+				quantity.Format(q.VCE, quantity.Volt), quantity.Format(minVCE, quantity.Volt)),
+			Fix: "lower the collector-feed resistance or the base voltage, or raise the emitter resistance, so that VCE sits near half the supply"})
+	}
+	return nil
+}
