@@ -186,17 +186,23 @@ func TestNoConvergenceNamesTransistor(t *testing.T) {
 // never a panic.
 func TestInvalidValues(t *testing.T) {
 	cases := map[string]func(c *circuit.Circuit){
-		"zero resistor":     func(c *circuit.Circuit) { c.Part("R1").Value = 0 },
-		"NaN resistor":      func(c *circuit.Circuit) { c.Part("R2").Value = math.NaN() },
-		"no BJT figures":    func(c *circuit.Circuit) { c.Part("Q1").BJT = nil },
-		"zero hFE":          func(c *circuit.Circuit) { c.Part("Q1").BJT.HFEMin = 0 },
-		"two-net BJT":       func(c *circuit.Circuit) { c.Part("Q1").Nets = c.Part("Q1").Nets[:2] },
-		"negative DCR":      func(c *circuit.Circuit) { c.Parts = append(c.Parts, &circuit.Part{Ref: "L5", Kind: circuit.Inductor, Resistance: -1, Nets: []string{"coll", "gnd"}}) },
-		"pot setting 2":     func(c *circuit.Circuit) { c.Parts = append(c.Parts, &circuit.Part{Ref: "RV", Kind: circuit.Potentiometer, Value: 1e3, Setting: 2, Nets: []string{"coll", "x", "gnd"}}) },
-		"infinite supply":   func(c *circuit.Circuit) { c.Supplies[0].Volts = math.Inf(1) },
-		"zero port":         func(c *circuit.Circuit) { c.Ports[0].Impedance = 0 },
-		"absolute zero":     func(c *circuit.Circuit) { c.Ambient.Nominal = -300 },
-		"unknown part kind": func(c *circuit.Circuit) { c.Parts = append(c.Parts, &circuit.Part{Ref: "D1", Kind: "diode", Nets: []string{"coll", "gnd"}}) },
+		"zero resistor":  func(c *circuit.Circuit) { c.Part("R1").Value = 0 },
+		"NaN resistor":   func(c *circuit.Circuit) { c.Part("R2").Value = math.NaN() },
+		"no BJT figures": func(c *circuit.Circuit) { c.Part("Q1").BJT = nil },
+		"zero hFE":       func(c *circuit.Circuit) { c.Part("Q1").BJT.HFEMin = 0 },
+		"two-net BJT":    func(c *circuit.Circuit) { c.Part("Q1").Nets = c.Part("Q1").Nets[:2] },
+		"negative DCR": func(c *circuit.Circuit) {
+			c.Parts = append(c.Parts, &circuit.Part{Ref: "L5", Kind: circuit.Inductor, Resistance: -1, Nets: []string{"coll", "gnd"}})
+		},
+		"pot setting 2": func(c *circuit.Circuit) {
+			c.Parts = append(c.Parts, &circuit.Part{Ref: "RV", Kind: circuit.Potentiometer, Value: 1e3, Setting: 2, Nets: []string{"coll", "x", "gnd"}})
+		},
+		"infinite supply": func(c *circuit.Circuit) { c.Supplies[0].Volts = math.Inf(1) },
+		"zero port":       func(c *circuit.Circuit) { c.Ports[0].Impedance = 0 },
+		"absolute zero":   func(c *circuit.Circuit) { c.Ambient.Nominal = -300 },
+		"unknown part kind": func(c *circuit.Circuit) {
+			c.Parts = append(c.Parts, &circuit.Part{Ref: "D1", Kind: "diode", Nets: []string{"coll", "gnd"}})
+		},
 	}
 	for name, spoil := range cases {
 		c := dividerStage().c

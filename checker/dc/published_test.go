@@ -36,7 +36,9 @@ func ibOf(ref string) func(*Result) float64  { return func(r *Result) float64 { 
 func ieOf(ref string) func(*Result) float64 {
 	return func(r *Result) float64 { return r.BJTs[ref].IC + r.BJTs[ref].IB }
 }
-func vceOf(ref string) func(*Result) float64 { return func(r *Result) float64 { return r.BJTs[ref].VCE } }
+func vceOf(ref string) func(*Result) float64 {
+	return func(r *Result) float64 { return r.BJTs[ref].VCE }
+}
 
 // Source: expertsmind.com, "Determine voltage at all nodes and current by all
 // branches" (https://expertsmind.com/topic/bipolar-junction-transistor-construction/determine-voltage-at-all-nodes-and-current-by-all-branches-96239.aspx):
