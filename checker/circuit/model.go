@@ -6,6 +6,8 @@ package circuit
 import (
 	"math"
 	"sort"
+
+	"headroom/checker/library"
 )
 
 // Gnd is the reference net.
@@ -48,6 +50,12 @@ type Circuit struct {
 	Parts     []*Part   // file order
 	Waivers   []*Waiver // file order
 	Pos       Pos       // the [circuit] table header
+
+	// Library is the merged library the parts were resolved against (shipped,
+	// then the rule set's, then the circuit's own): fixes that change a
+	// transistor look here, and core.frequency finds a core's f_range here.
+	// Shared, read-only.
+	Library *library.Library
 }
 
 // Ambient is the ambient temperature in °C: a nominal value and the range the
@@ -88,7 +96,7 @@ type Part struct {
 	Nets []string
 
 	Value     float64 // Ω, F, or H (inductor given by value; 0 when given by turns)
-	Tolerance float64 // fraction, e.g. 0.05
+	Tolerance float64 // fraction, e.g. 0.05 (0 for an inductor given by turns: its spread is ALTolerance)
 	Rating    float64 // resistor/potentiometer W, capacitor V; 0 when not given
 	Role      string  // explicit role, "" when not given
 
@@ -96,7 +104,7 @@ type Part struct {
 	Resistance  float64 // inductor DC resistance, Ω (0 = ideal short)
 	Turns       float64 // inductor given by turns (0 when given by value)
 	AL          float64 // H per turn², from al or the core
-	ALTolerance float64 // fraction, default 0.25
+	ALTolerance float64 // fraction, default 0.25 (or the core's); 0 for an inductor given by value
 	Core        string  // library core name, "" when not given
 
 	// Transformer.
@@ -151,6 +159,7 @@ type Waiver struct {
 	Reason  string
 	Expires string // "YYYY-MM-DD" or ""
 	Pos     Pos
+	RulePos Pos // the rule value, for an unknown-rule error from the engine
 }
 
 // Inductance is the inductor's nominal inductance in henries.

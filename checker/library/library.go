@@ -162,11 +162,14 @@ func readTransistor(t *tomlfile.Table) *Transistor {
 	}
 	tr.Polarity = pol
 	ReadFigures(t, pol == "pnp", tr)
+	if tr.HFETypOutside() {
+		t.Errorf(t.ValPos("hfe_typ"), "%s hfe_typ: %g lies outside hfe [%g, %g]", t.What, tr.HFETyp, tr.HFEMin, tr.HFEMax)
+	}
 	return tr
 }
 
 // ReadFigures reads the transistor figures present in t into tr, leaving the
-// others alone, and checks hfe_typ against hfe when both are in t. With pnp,
+// others alone (so inline figures can override a library entry). With pnp,
 // vbe, ic_ref, ic_max and vceo may be written negative and are stored as
 // magnitudes.
 func ReadFigures(t *tomlfile.Table, pnp bool, tr *Transistor) {
@@ -208,9 +211,11 @@ func ReadFigures(t *tomlfile.Table, pnp bool, tr *Transistor) {
 	if v, ok := t.Quantity("cob", quantity.Farad, tomlfile.NonNegative); ok {
 		tr.Cob = v
 	}
-	if t.Has("hfe_typ") && tr.HFETyp > 0 && tr.HFEMax > 0 && (tr.HFETyp < tr.HFEMin || tr.HFETyp > tr.HFEMax) {
-		t.Errorf(t.ValPos("hfe_typ"), "%s hfe_typ: %g lies outside hfe [%g, %g]", t.What, tr.HFETyp, tr.HFEMin, tr.HFEMax)
-	}
+}
+
+// HFETypOutside reports whether hfe_typ is given and lies outside [min, max].
+func (tr *Transistor) HFETypOutside() bool {
+	return tr.HFETyp > 0 && tr.HFEMax > 0 && (tr.HFETyp < tr.HFEMin || tr.HFETyp > tr.HFEMax)
 }
 
 var coreKeys = []string{"mu", "od", "id", "height", "al", "al_tolerance", "f_range"}

@@ -1,0 +1,704 @@
+package circuit
+
+import (
+	"errors"
+	"fmt"
+	"io/fs"
+	"os"
+	"path/filepath"
+	"regexp"
+	"slices"
+	"strings"
+
+	"headroom/checker/circuit/tomlfile"
+	"headroom/checker/library"
+	"headroom/checker/quantity"
+)
+
+// ErrNotCircuit is returned for a TOML file with neither a [circuit] nor a
+// [parts] table: not a circuit description, which `check` skips silently.
+var ErrNotCircuit = errors.New("not a circuit file: no [circuit] table")
+
+// InputError is a problem with an input file, at the key or value concerned
+// (line 1, column 1 when there is none, as for an unreadable or empty file).
+type InputError struct {
+	Pos Pos
+	Msg string
+}
+
+func (e *InputError) Error() string {
+	return fmt.Sprintf("%s:%d:%d: %s", e.Pos.File, e.Pos.Line, e.Pos.Col, e.Msg)
+}
+
+// Options are what the caller knows beyond the circuit file itself.
+type Options struct {
+	// ReadFile reads the circuit and every library file (nil = os.ReadFile),
+	// so that a reader of the git index can be passed for staged checks.
+	ReadFile func(path string) ([]byte, error)
+	// Libraries are library paths from the rule set, already resolved; they
+	// are merged after the base library and before the circuit's own.
+	Libraries []string
+	// Base is the library everything else is merged over (nil = library.Shipped()).
+	Base *library.Library
+}
+
+func (o Options) read(path string) ([]byte, error) {
+	if o.ReadFile != nil {
+		return o.ReadFile(path)
+	}
+	return os.ReadFile(path)
+}
+
+// Load reads and checks the circuit file at path.
+func Load(path string, opt Options) (*Circuit, error) {
+	data, err := opt.read(path)
+	if err != nil {
+		return nil, &InputError{Pos: Pos{File: path, Line: 1, Col: 1}, Msg: "cannot read the file: " + reason(err)}
+	}
+	return LoadBytes(path, data, opt)
+}
+
+// reason drops the path an *fs.PathError repeats.
+func reason(err error) string {
+	var pe *fs.PathError
+	if errors.As(err, &pe) {
+		return pe.Err.Error()
+	}
+	return err.Error()
+}
+
+// LoadBytes checks a circuit file already read; path names it in errors and
+// anchors the circuit's relative library paths. Every problem is an
+// *InputError; when a file has several, the first in reading order is
+// returned (libraries that fail to load are reported before anything else).
+func LoadBytes(path string, data []byte, opt Options) (*Circuit, error) {
+	if strings.TrimSpace(strings.TrimPrefix(string(data), "\xef\xbb\xbf")) == "" {
+		return nil, &InputError{Pos: Pos{File: path, Line: 1, Col: 1}, Msg: "empty file: a circuit file needs a [circuit] table"}
+	}
+	doc, err := tomlfile.Parse(path, data)
+	if err != nil {
+		return nil, inputError(err)
+	}
+	root := doc.Root
+	if !root.Has("circuit") && !root.Has("parts") {
+		return nil, ErrNotCircuit
+	}
+	if !root.Has("circuit") {
+		return nil, &InputError{Pos: toPos(path, root.DefPos("parts")), Msg: "missing [circuit] table: a file with [parts] must describe its circuit (name, band)"}
+	}
+	ld := &loader{path: path, doc: doc, c: &Circuit{Path: path}}
+	root.What = "circuit file"
+	root.Allow("circuit", "supplies", "ports", "parts", "waivers")
+	ld.circuitTable(root)
+	if err := ld.libraries(opt); err != nil {
+		return nil, err
+	}
+	ld.supplies(root)
+	ld.ports(root)
+	ld.parts(root)
+	ld.waivers(root)
+	if err := doc.Err(); err != nil {
+		return nil, inputError(err)
+	}
+	return ld.c, nil
+}
+
+func inputError(err error) error {
+	var te *tomlfile.Error
+	if errors.As(err, &te) {
+		return &InputError{Pos: toPos(te.File, te.Pos), Msg: te.Msg}
+	}
+	return err
+}
+
+func toPos(file string, p tomlfile.Pos) Pos { return Pos{File: file, Line: p.Line, Col: p.Col} }
+
+// loader carries one file's state while its tables are read.
+type loader struct {
+	path    string
+	doc     *tomlfile.Doc
+	c       *Circuit
+	lib     *library.Library
+	libPos  []tomlfile.Pos // where each circuit library path is written
+	inPort  *Port
+	outPort *Port
+}
+
+func (ld *loader) pos(p tomlfile.Pos) Pos { return toPos(ld.path, p) }
+
+var (
+	netName = regexp.MustCompile(`^[A-Za-z0-9_.+-]+$`)
+	// A reference, port or winding name is also a key in corner and change
+	// lists ("Q1.hfe", "T1.primary"), so it may not contain a dot.
+	refName = regexp.MustCompile(`^[A-Za-z0-9_+-]+$`)
+)
+
+func (ld *loader) circuitTable(root *tomlfile.Table) {
+	t := root.Table("circuit", "[circuit]")
+	if t == nil {
+		return
+	}
+	c := ld.c
+	c.Pos = ld.pos(t.Pos)
+	t.Allow("name", "band", "ambient", "library")
+	if name, ok := t.String("name", true); ok {
+		if strings.TrimSpace(name) == "" {
+			t.Errorf(t.ValPos("name"), "[circuit] name: must not be empty")
+		}
+		c.Name = name
+	}
+	if !t.Has("band") {
+		t.Errorf(t.Pos, `[circuit]: missing required key "band" (lowest and highest operating frequency, as in band = ["10.1MHz", "10.15MHz"])`)
+	} else if b, ok := t.Pair("band", quantity.Hertz, tomlfile.Positive); ok {
+		if b[0] > b[1] {
+			t.Errorf(t.ValPos("band"), "[circuit] band: the low end %s is above the high end %s",
+				quantity.Format(b[0], quantity.Hertz), quantity.Format(b[1], quantity.Hertz))
+		}
+		c.Band = b
+	}
+	c.Ambient = Ambient{Nominal: 25, Lo: 25, Hi: 25}
+	if t.Has("ambient") {
+		if _, isArray := t.Raw("ambient").([]any); isArray {
+			if r, ok := t.Pair("ambient", quantity.Celsius, tomlfile.AnySign); ok {
+				if r[0] > r[1] {
+					t.Errorf(t.ValPos("ambient"), "[circuit] ambient: the low end %s is above the high end %s",
+						quantity.Format(r[0], quantity.Celsius), quantity.Format(r[1], quantity.Celsius))
+				}
+				nominal := 25.0
+				if nominal < r[0] || nominal > r[1] {
+					nominal = (r[0] + r[1]) / 2
+				}
+				c.Ambient = Ambient{Nominal: nominal, Lo: r[0], Hi: r[1]}
+			}
+		} else if v, ok := t.Quantity("ambient", quantity.Celsius, tomlfile.AnySign); ok {
+			c.Ambient = Ambient{Nominal: v, Lo: v, Hi: v}
+		}
+	}
+	if libs, ok := t.Strings("library"); ok {
+		c.Libraries = libs
+		for i := range libs {
+			ld.libPos = append(ld.libPos, t.ElemPos("library", i))
+		}
+	}
+}
+
+// libraries builds the merged library: base, the rule set's, the circuit's.
+func (ld *loader) libraries(opt Options) error {
+	lib := library.New()
+	if opt.Base != nil {
+		lib.Merge(opt.Base)
+	} else {
+		lib.Merge(library.Shipped())
+	}
+	for _, p := range opt.Libraries {
+		data, err := opt.read(p)
+		if err != nil {
+			return &InputError{Pos: Pos{File: p, Line: 1, Col: 1}, Msg: "cannot read the library named by the rule set: " + reason(err)}
+		}
+		l, err := library.Parse(p, data)
+		if err != nil {
+			return inputError(err)
+		}
+		lib.Merge(l)
+	}
+	for i, p := range ld.c.Libraries {
+		resolved := p
+		if !filepath.IsAbs(p) {
+			resolved = filepath.Join(filepath.Dir(ld.path), p)
+		}
+		data, err := opt.read(resolved)
+		if err != nil {
+			return &InputError{Pos: ld.pos(ld.libPos[i]), Msg: fmt.Sprintf("cannot read library %q (%s): %s", p, resolved, reason(err))}
+		}
+		l, err := library.Parse(resolved, data)
+		if err != nil {
+			return inputError(err)
+		}
+		lib.Merge(l)
+	}
+	ld.lib = lib
+	ld.c.Library = lib
+	return nil
+}
+
+func (ld *loader) supplies(root *tomlfile.Table) {
+	st := root.Table("supplies", "[supplies]")
+	if st == nil {
+		return
+	}
+	for _, t := range st.Tables(func(k string) string { return "supply " + k }) {
+		s := &Supply{Net: t.Name, Pos: ld.pos(t.Pos)}
+		switch {
+		case t.Name == Gnd:
+			t.Errorf(t.Pos, "supply gnd: gnd is the reference net; a supply sits between its own net and gnd")
+		case !netName.MatchString(t.Name):
+			t.Errorf(t.Pos, "supply %q: a net name may hold only letters, digits and _ . + -", t.Name)
+		}
+		t.Allow("volts", "range", "impedance")
+		if !t.Has("volts") {
+			t.Errorf(t.Pos, `%s: missing required key "volts"`, t.What)
+		} else if v, ok := t.Quantity("volts", quantity.Volt, tomlfile.NonZero); ok {
+			s.Volts = v
+		}
+		s.Range = [2]float64{s.Volts, s.Volts}
+		if r, ok := t.Pair("range", quantity.Volt, tomlfile.NonZero); ok {
+			switch {
+			case r[0] > r[1]:
+				t.Errorf(t.ValPos("range"), "%s range: the low end %s is above the high end %s", t.What,
+					quantity.Format(r[0], quantity.Volt), quantity.Format(r[1], quantity.Volt))
+			case r[0] < 0 && r[1] > 0:
+				t.Errorf(t.ValPos("range"), "%s range: must not cross 0 V (a supply is never zero)", t.What)
+			case s.Volts != 0 && (s.Volts < r[0] || s.Volts > r[1]):
+				t.Errorf(t.ValPos("range"), "%s range: [%s, %s] does not contain volts = %s", t.What,
+					quantity.Format(r[0], quantity.Volt), quantity.Format(r[1], quantity.Volt), quantity.Format(s.Volts, quantity.Volt))
+			default:
+				s.Range = r
+			}
+		}
+		if v, ok := t.Quantity("impedance", quantity.Ohm, tomlfile.NonNegative); ok {
+			s.Impedance = v
+		}
+		ld.c.Supplies = append(ld.c.Supplies, s)
+	}
+}
+
+func (ld *loader) ports(root *tomlfile.Table) {
+	pt := root.Table("ports", "[ports]")
+	if pt == nil {
+		return
+	}
+	for _, t := range pt.Tables(func(k string) string { return "port " + k }) {
+		p := &Port{Name: t.Name, Impedance: 50, Matched: true, Pos: ld.pos(t.Pos)}
+		if !refName.MatchString(t.Name) {
+			t.Errorf(t.Pos, "port %q: a port name may hold only letters, digits and _ + -", t.Name)
+		}
+		t.Allow("net", "direction", "impedance", "matched")
+		if n, ok := t.String("net", true); ok {
+			ld.checkNet(t, "net", n, t.ValPos("net"))
+			if n == Gnd {
+				t.Errorf(t.ValPos("net"), "%s net: a port cannot sit on gnd, the reference net", t.What)
+			}
+			p.Net = n
+		}
+		if d, ok := t.String("direction", true); ok {
+			switch d {
+			case "in", "out":
+				p.Direction = d
+			default:
+				t.Errorf(t.ValPos("direction"), `%s direction: expected "in" or "out", got %q`, t.What, d)
+			}
+		}
+		if v, ok := t.Quantity("impedance", quantity.Ohm, tomlfile.Positive); ok {
+			p.Impedance = v
+		}
+		if m, ok := t.Bool("matched"); ok {
+			p.Matched = m
+		}
+		first := &ld.inPort
+		if p.Direction == "out" {
+			first = &ld.outPort
+		}
+		if p.Direction != "" {
+			if *first != nil {
+				t.Errorf(t.Pos, "%s: a second %q port; a circuit has at most one (the first is %s at line %d)",
+					t.What, p.Direction, (*first).Name, (*first).Pos.Line)
+			} else {
+				*first = p
+			}
+		}
+		ld.c.Ports = append(ld.c.Ports, p)
+	}
+}
+
+func (ld *loader) checkNet(t *tomlfile.Table, what, n string, p tomlfile.Pos) bool {
+	if !netName.MatchString(n) {
+		t.Errorf(p, "%s %s: %q is not a net name; a net name holds only letters, digits and _ . + -", t.What, what, n)
+		return false
+	}
+	return true
+}
+
+// Part kinds and the keys each accepts (FORMAT.md §2).
+var partKeys = map[Kind][]string{
+	Resistor:      {"kind", "value", "nets", "tolerance", "rating"},
+	Capacitor:     {"kind", "value", "nets", "tolerance", "rating", "role"},
+	Inductor:      {"kind", "value", "turns", "core", "al", "al_tolerance", "nets", "tolerance", "resistance", "role"},
+	Transformer:   {"kind", "core", "al", "al_tolerance", "coupling", "windings"},
+	Potentiometer: {"kind", "value", "nets", "setting", "rating", "tolerance"},
+	NPN:           append([]string{"kind", "device", "nets"}, library.TransistorKeys...),
+	PNP:           append([]string{"kind", "device", "nets"}, library.TransistorKeys...),
+}
+
+var kindOrder = []Kind{Resistor, Capacitor, Inductor, Transformer, Potentiometer, NPN, PNP}
+
+func kindList() string {
+	s := make([]string, len(kindOrder))
+	for i, k := range kindOrder {
+		s[i] = string(k)
+	}
+	return strings.Join(s, ", ")
+}
+
+func (ld *loader) parts(root *tomlfile.Table) {
+	pt := root.Table("parts", "[parts]")
+	if pt == nil {
+		return
+	}
+	for _, t := range pt.Tables(func(k string) string { return k }) {
+		if p := ld.part(t); p != nil {
+			ld.c.Parts = append(ld.c.Parts, p)
+		}
+	}
+}
+
+func (ld *loader) part(t *tomlfile.Table) *Part {
+	p := &Part{Ref: t.Name, Pos: ld.pos(t.Pos)}
+	if !refName.MatchString(t.Name) {
+		t.Errorf(t.Pos, "part %q: a reference may hold only letters, digits and _ + -", t.Name)
+	}
+	kind, ok := t.String("kind", true)
+	if !ok {
+		return nil
+	}
+	p.Kind = Kind(kind)
+	keys, known := partKeys[p.Kind]
+	switch {
+	case kind == "diode" || kind == "jfet" || kind == "mosfet":
+		t.Errorf(t.ValPos("kind"), "%s kind: %q is reserved, not supported yet; supported kinds: %s", t.Name, kind, kindList())
+		return nil
+	case !known:
+		t.Errorf(t.ValPos("kind"), "%s kind: unknown kind %q; supported kinds: %s", t.Name, kind, kindList())
+		return nil
+	}
+	t.What = fmt.Sprintf("%s (%s)", t.Name, kind)
+	t.Allow(keys...)
+	t.What = t.Name
+	switch p.Kind {
+	case Resistor:
+		ld.twoNets(t, p)
+		p.Value = ld.required(t, "value", quantity.Ohm)
+		p.Tolerance = tolerance(t, "tolerance", 0.05)
+		p.Rating, _ = t.Quantity("rating", quantity.Watt, tomlfile.Positive)
+	case Capacitor:
+		ld.twoNets(t, p)
+		p.Value = ld.required(t, "value", quantity.Farad)
+		p.Tolerance = tolerance(t, "tolerance", 0.10)
+		p.Rating, _ = t.Quantity("rating", quantity.Volt, tomlfile.Positive)
+		p.Role = role(t, "coupling", "bypass", "decoupling", "tuning")
+	case Inductor:
+		ld.twoNets(t, p)
+		ld.inductor(t, p)
+		p.Resistance, _ = t.Quantity("resistance", quantity.Ohm, tomlfile.NonNegative)
+		p.Role = role(t, "choke", "tuning")
+	case Transformer:
+		ld.magnetics(t, p)
+		p.Coupling = 0.98
+		if k, ok := t.Quantity("coupling", quantity.Ratio, tomlfile.Positive); ok {
+			if k >= 1 {
+				t.Errorf(t.ValPos("coupling"), "%s coupling: must lie between 0 and 1, exclusive (k = 1 makes the windings' inductance matrix singular); got %g", t.What, k)
+			} else {
+				p.Coupling = k
+			}
+		}
+		ld.windings(t, p)
+	case Potentiometer:
+		p.Nets = ld.namedNets(t, "a", "wiper", "b")
+		p.Value = ld.required(t, "value", quantity.Ohm)
+		p.Tolerance = tolerance(t, "tolerance", 0.20)
+		p.Rating, _ = t.Quantity("rating", quantity.Watt, tomlfile.Positive)
+		p.Setting = 0.5
+		if s, ok := t.Quantity("setting", quantity.Ratio, tomlfile.NonNegative); ok {
+			if s > 1 {
+				t.Errorf(t.ValPos("setting"), "%s setting: must lie in [0, 1] (0 = wiper at b, 1 = wiper at a); got %g", t.What, s)
+			} else {
+				p.Setting = s
+			}
+		}
+	case NPN, PNP:
+		p.Nets = ld.namedNets(t, "collector", "base", "emitter")
+		ld.transistor(t, p)
+	}
+	return p
+}
+
+// required reads a positive quantity that must be present.
+func (ld *loader) required(t *tomlfile.Table, key string, u quantity.Unit) float64 {
+	if !t.Has(key) {
+		t.Errorf(t.Pos, "%s: missing required key %q", t.What, key)
+		return 0
+	}
+	v, _ := t.Quantity(key, u, tomlfile.Positive)
+	return v
+}
+
+// tolerance reads a tolerance in [0, 1), or gives def.
+func tolerance(t *tomlfile.Table, key string, def float64) float64 {
+	v, ok := t.Quantity(key, quantity.Fraction, tomlfile.NonNegative)
+	if !ok {
+		return def
+	}
+	if v >= 1 {
+		t.Errorf(t.ValPos(key), "%s %s: must be below 100 %%, got %s", t.What, key, quantity.Format(v, quantity.Fraction))
+		return def
+	}
+	return v
+}
+
+func role(t *tomlfile.Table, accepted ...string) string {
+	r, ok := t.String("role", false)
+	if !ok {
+		return ""
+	}
+	if !slices.Contains(accepted, r) {
+		t.Errorf(t.ValPos("role"), "%s role: %q is not a role of this kind; accepted: %s", t.What, r, strings.Join(accepted, ", "))
+		return ""
+	}
+	return r
+}
+
+// twoNets reads nets = [a, b].
+func (ld *loader) twoNets(t *tomlfile.Table, p *Part) {
+	if !t.Has("nets") {
+		t.Errorf(t.Pos, `%s: missing required key "nets" (two net names, as in nets = ["vcc", "base"])`, t.What)
+		return
+	}
+	if _, ok := t.Raw("nets").([]any); !ok {
+		t.Errorf(t.ValPos("nets"), `%s nets: expected an array of two net names, got %s`, t.What, tomlfile.TypeName(t.Raw("nets")))
+		return
+	}
+	nets, ok := t.Strings("nets")
+	if !ok {
+		return
+	}
+	if len(nets) != 2 {
+		t.Errorf(t.ValPos("nets"), "%s nets: expected two net names, got %d", t.What, len(nets))
+		return
+	}
+	for i, n := range nets {
+		if !ld.checkNet(t, fmt.Sprintf("nets[%d]", i), n, t.ElemPos("nets", i)) {
+			return
+		}
+	}
+	p.Nets = nets
+}
+
+// namedNets reads nets = { name = "net", ... } with exactly the given names.
+func (ld *loader) namedNets(t *tomlfile.Table, names ...string) []string {
+	form := make([]string, len(names))
+	for i, n := range names {
+		form[i] = n + ` = "..."`
+	}
+	if !t.Has("nets") {
+		t.Errorf(t.Pos, `%s: missing required key "nets" ({ %s })`, t.What, strings.Join(form, ", "))
+		return nil
+	}
+	nt := t.Table("nets", t.What+" nets")
+	if nt == nil {
+		return nil
+	}
+	nt.Allow(names...)
+	out := make([]string, len(names))
+	good := true
+	for i, n := range names {
+		s, ok := nt.String(n, true)
+		if ok {
+			ok = ld.checkNet(nt, n, s, nt.ValPos(n))
+		}
+		out[i] = s
+		good = good && ok
+	}
+	if !good {
+		return nil
+	}
+	return out
+}
+
+// inductor reads value, or turns with core or al.
+func (ld *loader) inductor(t *tomlfile.Table, p *Part) {
+	switch {
+	case t.Has("value") && t.Has("turns"):
+		t.Errorf(t.KeyPos("turns"), "%s: give value or turns (with core or al), not both", t.What)
+	case t.Has("value"):
+		for _, k := range []string{"core", "al", "al_tolerance"} {
+			if t.Has(k) {
+				t.Errorf(t.KeyPos(k), "%s %s: core, al and al_tolerance go with turns, not with value", t.What, k)
+			}
+		}
+		p.Value, _ = t.Quantity("value", quantity.Henry, tomlfile.Positive)
+		p.Tolerance = tolerance(t, "tolerance", 0.10)
+	case t.Has("turns"):
+		if t.Has("tolerance") {
+			t.Errorf(t.KeyPos("tolerance"), "%s tolerance: an inductor given by turns varies with its core's AL; write al_tolerance", t.What)
+		}
+		p.Turns, _ = t.Quantity("turns", quantity.Ratio, tomlfile.Positive)
+		ld.magnetics(t, p)
+	default:
+		t.Errorf(t.Pos, `%s: missing "value" (or "turns" with "core" or "al")`, t.What)
+	}
+}
+
+// magnetics reads core, al and al_tolerance: al wins over the core's AL; the
+// part's al_tolerance wins over the core's, which wins over 25 %.
+func (ld *loader) magnetics(t *tomlfile.Table, p *Part) {
+	var core *library.Core
+	if name, ok := t.String("core", false); ok {
+		p.Core = name
+		core = ld.lib.Cores[name]
+		if core == nil {
+			t.Errorf(t.ValPos("core"), "%s core: unknown core %q; the library has %s", t.What, name, strings.Join(sortedKeys(ld.lib.Cores), ", "))
+		}
+	}
+	p.ALTolerance = library.DefaultALTolerance
+	if core != nil {
+		p.AL = core.AL()
+		p.ALTolerance = core.ALTolerance
+	}
+	if v, ok := t.Quantity("al", quantity.Henry, tomlfile.Positive); ok {
+		p.AL = v
+	}
+	if !t.Has("core") && !t.Has("al") {
+		t.Errorf(t.Pos, `%s: missing "core" (a library core) or "al" (inductance per turn squared, as in al = "360nH")`, t.What)
+	}
+	p.ALTolerance = tolerance(t, "al_tolerance", p.ALTolerance)
+}
+
+func sortedKeys[V any](m map[string]V) []string {
+	keys := make([]string, 0, len(m))
+	for k := range m {
+		keys = append(keys, k)
+	}
+	slices.Sort(keys)
+	return keys
+}
+
+func (ld *loader) windings(t *tomlfile.Table, p *Part) {
+	if !t.Has("windings") {
+		t.Errorf(t.Pos, `%s: missing required key "windings" (two or more, as in windings.primary = { turns = 12, nets = ["vcc", "coll"] })`, t.What)
+		return
+	}
+	wt := t.Table("windings", t.What+" windings")
+	if wt == nil {
+		return
+	}
+	for _, w := range wt.Tables(func(k string) string { return t.What + " winding " + k }) {
+		win := &Winding{Name: w.Name, Pos: ld.pos(w.Pos)}
+		if !refName.MatchString(w.Name) {
+			w.Errorf(w.Pos, "%s: a winding name may hold only letters, digits and _ + -", w.What)
+		}
+		w.Allow("turns", "nets", "resistance")
+		if !w.Has("turns") {
+			w.Errorf(w.Pos, `%s: missing required key "turns"`, w.What)
+		} else {
+			win.Turns, _ = w.Quantity("turns", quantity.Ratio, tomlfile.Positive)
+		}
+		var two Part
+		ld.twoNets(w, &two)
+		if len(two.Nets) == 2 {
+			win.Nets = [2]string{two.Nets[0], two.Nets[1]}
+		}
+		win.Resistance, _ = w.Quantity("resistance", quantity.Ohm, tomlfile.NonNegative)
+		p.Windings = append(p.Windings, win)
+	}
+	if len(p.Windings) < 2 {
+		t.Errorf(t.ValPos("windings"), "%s windings: a transformer needs two or more windings, got %d", t.What, len(p.Windings))
+	}
+}
+
+// requiredFigures are the transistor figures FORMAT.md §2 requires.
+var requiredFigures = []string{"ft", "hfe", "vbe", "ic_ref", "pd", "tj_max", "ic_max", "vceo"}
+
+func (ld *loader) transistor(t *tomlfile.Table, p *Part) {
+	var tr library.Transistor
+	from := ""
+	if name, ok := t.String("device", false); ok {
+		p.Device = name
+		lt := ld.lib.Transistors[name]
+		switch {
+		case lt == nil:
+			var same []string
+			for _, k := range sortedKeys(ld.lib.Transistors) {
+				if ld.lib.Transistors[k].Polarity == string(p.Kind) {
+					same = append(same, k)
+				}
+			}
+			t.Errorf(t.ValPos("device"), "%s device: unknown transistor %q; the library's %s types are %s", t.What, name, p.Kind, strings.Join(same, ", "))
+			return
+		case lt.Polarity != string(p.Kind):
+			t.Errorf(t.ValPos("device"), "%s device: %s is a %s transistor, but kind is %q", t.What, name, lt.Polarity, p.Kind)
+			return
+		}
+		tr = *lt
+		from = fmt.Sprintf(" (device %s)", name)
+	}
+	library.ReadFigures(t, p.Kind == PNP, &tr)
+	have := map[string]bool{"ft": tr.FT > 0, "hfe": tr.HFEMax > 0, "vbe": tr.VBE > 0, "ic_ref": tr.ICRef > 0,
+		"pd": tr.PD > 0, "tj_max": tr.TjMax > 0, "ic_max": tr.ICMax > 0, "vceo": tr.VCEO > 0}
+	var missing []string
+	for _, k := range requiredFigures {
+		// A figure present but unreadable has its own error already.
+		if !have[k] && !t.Has(k) {
+			missing = append(missing, k)
+		}
+	}
+	if len(missing) > 0 {
+		how := "name a library device with device = \"...\" or give them inline"
+		if p.Device != "" {
+			how = "give them inline"
+		}
+		t.Errorf(t.Pos, "%s: transistor figures missing%s: %s; %s", t.What, from, strings.Join(missing, ", "), how)
+	}
+	if tr.HFETypOutside() {
+		at := t.ValPos("device")
+		switch {
+		case t.Has("hfe_typ"):
+			at = t.ValPos("hfe_typ")
+		case t.Has("hfe"):
+			at = t.ValPos("hfe")
+		}
+		t.Errorf(at, "%s hfe_typ: %g lies outside hfe [%g, %g]", t.What, tr.HFETyp, tr.HFEMin, tr.HFEMax)
+	}
+	p.BJT = &BJTParams{FT: tr.FT, HFEMin: tr.HFEMin, HFEMax: tr.HFEMax, HFETyp: tr.HFETyp, VBE: tr.VBE,
+		ICRef: tr.ICRef, PD: tr.PD, TjMax: tr.TjMax, ICMax: tr.ICMax, VCEO: tr.VCEO, Cob: tr.Cob}
+}
+
+func (ld *loader) waivers(root *tomlfile.Table) {
+	if !root.Has("waivers") {
+		return
+	}
+	names := map[string]bool{}
+	for _, p := range ld.c.Parts {
+		names[p.Ref] = true
+	}
+	for _, p := range ld.c.Ports {
+		names[p.Name] = true
+	}
+	for _, s := range ld.c.Supplies {
+		names[s.Net] = true
+	}
+	for _, t := range root.TableArray("waivers", func(i int) string { return fmt.Sprintf("waiver %d", i+1) }) {
+		w := &Waiver{Pos: ld.pos(t.Pos)}
+		t.Allow("rule", "part", "reason", "expires")
+		if r, ok := t.String("rule", true); ok {
+			if strings.TrimSpace(r) == "" {
+				t.Errorf(t.ValPos("rule"), "%s rule: must name a rule", t.What)
+			}
+			w.Rule = r
+			w.RulePos = ld.pos(t.ValPos("rule"))
+		}
+		if p, ok := t.String("part", false); ok {
+			if !names[p] {
+				t.Errorf(t.ValPos("part"), "%s part: %q is not a part, port or supply of this circuit", t.What, p)
+			}
+			w.Part = p
+		}
+		if r, ok := t.String("reason", false); ok && strings.TrimSpace(r) != "" {
+			w.Reason = r
+		} else if ok {
+			t.Errorf(t.ValPos("reason"), "%s reason: must say why the rule does not apply", t.What)
+		} else if !t.Has("reason") {
+			t.Errorf(t.Pos, `%s: missing required key "reason" (a waiver must say why)`, t.What)
+		}
+		w.Expires, _ = t.Date("expires")
+		ld.c.Waivers = append(ld.c.Waivers, w)
+	}
+}
