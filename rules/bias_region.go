@@ -50,12 +50,12 @@ func runBiasRegion(p *engine.Pass) error {
 		p.Report(engine.Finding{Part: part.Ref, Bound: "cutoff",
 			HasMetric: true, Measured: q.IC, Limit: minIC, Comparison: ">=", Unit: "A",
 			Message: fmt.Sprintf("%s is cut off: IC %s, needs at least %s", part.Ref,
-				quantity.Format(q.IC, quantity.Ampere), quantity.Format(minIC, quantity.Ampere)),
+				quantity.Approx(q.IC, quantity.Ampere), quantity.Approx(minIC, quantity.Ampere)),
 			Fix: "raise the base voltage (a smaller upper divider leg or a larger lower leg) or lower the emitter resistance until the collector current flows"})
 		p.Report(engine.Finding{Part: part.Ref, Bound: "saturated",
 			HasMetric: true, Measured: q.VCE, Limit: minVCE, Comparison: ">=", Unit: "V",
 			Message: fmt.Sprintf("%s is saturated: VCE %s, needs at least %s", part.Ref,
-				quantity.Format(q.VCE, quantity.Volt), quantity.Format(minVCE, quantity.Volt)),
+				quantity.Approx(q.VCE, quantity.Volt), quantity.Approx(minVCE, quantity.Volt)),
 			Fix: "lower the collector-feed resistance or the base voltage, or raise the emitter resistance, so that VCE sits near half the supply"})
 	}
 	return nil

@@ -26,7 +26,8 @@ type WorstCase func(c *circuit.Circuit, topo *topology.Topology, nominal *analys
 // Options configure a run over many files.
 type Options struct {
 	Rules    []*engine.Rule
-	RulesRef string // --rules: a shipped name or a path; "" = discovery
+	RulesRef string       // --rules: a shipped name or a path; "" = discovery
+	Set      *ruleset.Set // a rule set already resolved (tests); wins over RulesRef
 	Corners  string // --corners override, "" = the rule set's
 	FailOn   string // --fail-on override, "" = the rule set's
 	ReadFile func(string) ([]byte, error)
@@ -72,6 +73,9 @@ func NewRunner(opt Options) *Runner {
 // RuleSet resolves the rule set that applies to a circuit file at path,
 // overrides included.
 func (r *Runner) RuleSet(path string) (*ruleset.Set, error) {
+	if r.opt.Set != nil {
+		return r.opt.Set, nil
+	}
 	ref := r.opt.RulesRef
 	if ref == "" {
 		ref = ruleset.Discover(filepath.Dir(path), r.opt.Exists)

@@ -1,0 +1,18 @@
+package quantity
+
+import "strconv"
+
+// Approx writes v like Format but rounded to three significant figures, for
+// messages a person reads ("64.4 mV", "4.7 kohm"); JSON carries the exact value.
+func Approx(v float64, u Unit) string {
+	return Format(Round(v, 3), u)
+}
+
+// Round rounds v to n significant figures through its decimal form.
+func Round(v float64, n int) float64 {
+	r, err := strconv.ParseFloat(strconv.FormatFloat(v, 'g', n, 64), 64)
+	if err != nil {
+		return v
+	}
+	return r
+}
