@@ -13,10 +13,29 @@ import (
 // that adding a rule is one visible line here.
 func All() []*engine.Rule {
 	list := []*engine.Rule{
+		BiasCollectorHeadroom,
+		BiasDividerStiffness,
+		BiasDrift,
+		BiasEmitterFraction,
 		BiasRegion,
+		BJTCurrent,
+		BJTDissipation,
+		BJTFtHeadroom,
+		BJTVoltage,
+		BypassReactance,
+		CapacitorVoltage,
+		ChokeReactance,
+		CoreFrequency,
+		CouplingReactance,
+		DecouplingReactance,
+		MatchInput,
 		NetConnectivity,
+		ResistorPower,
+		SafetyVoltage,
+		ValuesPreferred,
 		WaiverExpired,
 		WaiverUnused,
+		WindingReactance,
 	}
 	sort.Slice(list, func(i, j int) bool { return list[i].ID < list[j].ID })
 	return list

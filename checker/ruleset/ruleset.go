@@ -184,9 +184,6 @@ func (l *Loader) apply(root *tomlfile.Table, set *Set, dir string) {
 	for _, t := range rulesTable.Tables(func(id string) string { return fmt.Sprintf("[rules.%q]", id) }) {
 		id := t.Name
 		rule := l.find(id)
-		if rule == nil && strings.HasPrefix(root.Doc().File, "builtin:") {
-			continue // listed in the shipped set, not written yet
-		}
 		if rule == nil {
 			t.Errorf(rulesTable.KeyPos(id), "unknown rule %q; %s", id, Closest(id, l.Rules))
 			continue
