@@ -191,9 +191,9 @@ func (t *Topology) singleConnections() (map[string]bool, []Problem) {
 		order int
 	}
 	var fs []found
-	for _, n := range t.c.Nets() {
+	for _, n := range t.nets() {
 		ts := t.touches[n]
-		if len(ts) != 1 {
+		if n == circuit.Gnd || len(ts) != 1 {
 			continue
 		}
 		single[n] = true
@@ -256,10 +256,8 @@ func (t *Topology) closestNet(n string) string {
 		limit = 1
 	}
 	best, bestD := "", limit+1
-	cands := append([]string{circuit.Gnd}, t.c.Nets()...)
-	sort.Strings(cands)
-	for _, m := range cands {
-		if m == n || len(t.touches[m]) < 2 && m != circuit.Gnd {
+	for _, m := range t.nets() {
+		if m == n || len(t.touches[m]) < 2 && m != circuit.Gnd { // a candidate is a net in use
 			continue
 		}
 		if d := editDistance(strings.ToLower(n), strings.ToLower(m)); d < bestD {

@@ -1,6 +1,10 @@
 package topology
 
-import "headroom/checker/circuit"
+import (
+	"sort"
+
+	"headroom/checker/circuit"
+)
 
 // inductiveFeed returns the first inductor or winding, in file order, that
 // lies on a simple DC path from q's collector to a rail which avoids q's own
@@ -18,29 +22,42 @@ func (t *Topology) inductiveFeed(self *circuit.Part, q *BJT) string {
 	if t.Rails[q.Collector] {
 		return ""
 	}
-	id := map[string]int{}
+	cross := func(e *edge) bool { return e.dc() && !(e.kind == eCE && e.part == self) }
+	excluded := func(n string) bool { return n != q.Collector && (n == q.Base || n == q.Emitter) && !t.Rails[n] }
+	// Only the nets the collector reaches without crossing a rail or an
+	// excluded net can carry such a path; numbering just those keeps the
+	// work local to the stage.
 	const rail = 0 // T
+	id := map[string]int{}
+	var edges []int
+	seenEdge := map[int]bool{}
+	for _, n := range t.g.walk(q.Collector, cross, func(n string) bool { return !t.Rails[n] && !excluded(n) }) {
+		if t.Rails[n] || excluded(n) {
+			continue
+		}
+		id[n] = len(id) + 1
+		for _, ei := range t.g.adj[n] {
+			if !seenEdge[ei] && cross(&t.g.edges[ei]) {
+				seenEdge[ei] = true
+				edges = append(edges, ei)
+			}
+		}
+	}
+	sort.Ints(edges) // file order
 	node := func(n string) int {
 		if t.Rails[n] {
 			return rail
 		}
-		if n != q.Collector && (n == q.Base || n == q.Emitter) {
-			return -1
-		}
 		if i, ok := id[n]; ok {
 			return i
 		}
-		id[n] = len(id) + 1
-		return id[n]
+		return -1
 	}
 	type arc struct{ x, y, edge int }
 	var arcs []arc
 	var cands []int
-	for ei := range t.g.edges {
+	for _, ei := range edges {
 		e := &t.g.edges[ei]
-		if !e.dc() || (e.kind == eCE && e.part == self) {
-			continue
-		}
 		x, y := node(e.a), node(e.b)
 		if x < 0 || y < 0 || x == y {
 			continue

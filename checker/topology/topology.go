@@ -212,6 +212,16 @@ func (t *Topology) TouchesBase(net string) bool      { return t.flags[net].base 
 func (t *Topology) TouchesEmitter(net string) bool   { return t.flags[net].emitter }
 func (t *Topology) TouchesPort(net string) bool      { return t.flags[net].port }
 
+// nets lists every net named in the circuit, gnd included, sorted.
+func (t *Topology) nets() []string {
+	out := make([]string, 0, len(t.touches))
+	for n := range t.touches {
+		out = append(out, n)
+	}
+	sort.Strings(out)
+	return out
+}
+
 // railsIn returns the rails among nets, sorted by name for determinism.
 func (t *Topology) railsIn(nets []string) []string {
 	var out []string
