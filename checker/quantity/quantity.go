@@ -394,7 +394,7 @@ func unitMismatch(w string, u Unit) string {
 // unit's symbol: 4700 Ω → "4.7 kohm", 1.01e7 Hz → "10.1 MHz", 0.05 → "5 %".
 // Resistances below one ohm are written as plain decimals ("0.47 ohm").
 // The digits are the shortest that read back as v, and Parse(Format(v, u), u)
-// == v for every finite v.
+// == v for every finite v (for temperatures, every v at or above absolute zero).
 func Format(v float64, u Unit) string {
 	switch u {
 	case Celsius:
