@@ -1,10 +1,3 @@
-// Package topology derives the facts of a circuit that depend only on how it
-// is wired, never on part values: which nets are rails and AC ground, the role
-// of every capacitor and inductor, each transistor's return and feed rail,
-// and the wiring mistakes net.connectivity reports. The definitions are those
-// of RULES.md ("Roles", the rail and DC-path paragraph, net.connectivity).
-// Because values never enter, a circuit is analysed once and the result is
-// shared by the nominal case and every worst-case corner.
 package topology
 
 import (
