@@ -51,13 +51,14 @@ func (p Palette) severity(s engine.Severity) string {
 // Text writes one GNU-style line per unwaived finding with indented detail
 // lines, then a summary line. Input errors are written to errw.
 func Text(w, errw io.Writer, results []check.Result, pal Palette) {
-	files := 0
+	files, failed := 0, 0
 	for _, r := range results {
 		if r.Skipped {
 			continue
 		}
 		if r.Err != nil {
 			fmt.Fprintln(errw, ErrorLine(r.Path, r.Err))
+			failed++
 			continue
 		}
 		files++
@@ -76,8 +77,12 @@ func Text(w, errw io.Writer, results []check.Result, pal Palette) {
 		}
 	}
 	s := Summarize(results)
-	fmt.Fprintf(w, "%s, %s, %s, %d waived in %s\n", plural(s.Error, "error"), plural(s.Warning, "warning"),
-		plural(s.Info, "info"), s.Waived, plural(files, "circuit file"))
+	tail := ""
+	if failed > 0 {
+		tail = fmt.Sprintf("; %s not checked (input errors)", plural(failed, "file"))
+	}
+	fmt.Fprintf(w, "%s, %s, %s, %d waived in %s%s\n", plural(s.Error, "error"), plural(s.Warning, "warning"),
+		plural(s.Info, "info"), s.Waived, plural(files, "circuit file"), tail)
 }
 
 // ErrorLine renders an input error in the GNU form, at 1:1 when it has no position.

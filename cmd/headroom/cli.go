@@ -14,7 +14,7 @@ type env struct {
 	stdout, stderr io.Writer
 	getenv         func(string) string
 	today          string // YYYY-MM-DD; "" = the real clock (tests set it)
-	isTerminal     func(io.Writer) bool
+	isTerminal     func(any) bool // nil: a character device
 }
 
 const usage = `usage:
