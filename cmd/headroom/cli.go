@@ -13,7 +13,7 @@ type env struct {
 	stdin          io.Reader
 	stdout, stderr io.Writer
 	getenv         func(string) string
-	today          string // YYYY-MM-DD; "" = the real clock (tests set it)
+	today          string         // YYYY-MM-DD; "" = the real clock (tests set it)
 	isTerminal     func(any) bool // nil: a character device
 }
 
