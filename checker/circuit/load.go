@@ -148,7 +148,7 @@ func (ld *loader) circuitTable(root *tomlfile.Table) {
 		c.Name = name
 	}
 	if !t.Has("band") {
-		t.Errorf(t.Pos, `[circuit]: missing required key "band" (lowest and highest operating frequency, as in band = ["10.1MHz", "10.15MHz"])`)
+		t.Missing("band", `(lowest and highest operating frequency, as in band = ["10.1MHz", "10.15MHz"])`)
 	} else if b, ok := t.Pair("band", quantity.Hertz, tomlfile.Positive); ok {
 		if b[0] > b[1] {
 			t.Errorf(t.ValPos("band"), "[circuit] band: the low end %s is above the high end %s",
@@ -236,7 +236,7 @@ func (ld *loader) supplies(root *tomlfile.Table) {
 		}
 		t.Allow("volts", "range", "impedance")
 		if !t.Has("volts") {
-			t.Errorf(t.Pos, `%s: missing required key "volts"`, t.What)
+			t.Missing("volts", "")
 		} else if v, ok := t.Quantity("volts", quantity.Volt, tomlfile.NonZero); ok {
 			s.Volts = v
 		}
@@ -424,7 +424,7 @@ func (ld *loader) part(t *tomlfile.Table) *Part {
 // required reads a positive quantity that must be present.
 func (ld *loader) required(t *tomlfile.Table, key string, u quantity.Unit) float64 {
 	if !t.Has(key) {
-		t.Errorf(t.Pos, "%s: missing required key %q", t.What, key)
+		t.Missing(key, "")
 		return 0
 	}
 	v, _ := t.Quantity(key, u, tomlfile.Positive)
@@ -459,7 +459,7 @@ func role(t *tomlfile.Table, accepted ...string) string {
 // twoNets reads nets = [a, b].
 func (ld *loader) twoNets(t *tomlfile.Table, p *Part) {
 	if !t.Has("nets") {
-		t.Errorf(t.Pos, `%s: missing required key "nets" (two net names, as in nets = ["vcc", "base"])`, t.What)
+		t.Missing("nets", `(two net names, as in nets = ["vcc", "base"])`)
 		return
 	}
 	if _, ok := t.Raw("nets").([]any); !ok {
@@ -489,7 +489,7 @@ func (ld *loader) namedNets(t *tomlfile.Table, names ...string) []string {
 		form[i] = n + ` = "..."`
 	}
 	if !t.Has("nets") {
-		t.Errorf(t.Pos, `%s: missing required key "nets" ({ %s })`, t.What, strings.Join(form, ", "))
+		t.Missing("nets", "({ "+strings.Join(form, ", ")+" })")
 		return nil
 	}
 	nt := t.Table("nets", t.What+" nets")
@@ -573,7 +573,7 @@ func sortedKeys[V any](m map[string]V) []string {
 
 func (ld *loader) windings(t *tomlfile.Table, p *Part) {
 	if !t.Has("windings") {
-		t.Errorf(t.Pos, `%s: missing required key "windings" (two or more, as in windings.primary = { turns = 12, nets = ["vcc", "coll"] })`, t.What)
+		t.Missing("windings", `(two or more, as in windings.primary = { turns = 12, nets = ["vcc", "coll"] })`)
 		return
 	}
 	wt := t.Table("windings", t.What+" windings")
@@ -587,7 +587,7 @@ func (ld *loader) windings(t *tomlfile.Table, p *Part) {
 		}
 		w.Allow("turns", "nets", "resistance")
 		if !w.Has("turns") {
-			w.Errorf(w.Pos, `%s: missing required key "turns"`, w.What)
+			w.Missing("turns", "")
 		} else {
 			win.Turns, _ = w.Quantity("turns", quantity.Ratio, tomlfile.Positive)
 		}
@@ -696,7 +696,7 @@ func (ld *loader) waivers(root *tomlfile.Table) {
 		} else if ok {
 			t.Errorf(t.ValPos("reason"), "%s reason: must say why the rule does not apply", t.What)
 		} else if !t.Has("reason") {
-			t.Errorf(t.Pos, `%s: missing required key "reason" (a waiver must say why)`, t.What)
+			t.Missing("reason", "(a waiver must say why)")
 		}
 		w.Expires, _ = t.Date("expires")
 		ld.c.Waivers = append(ld.c.Waivers, w)

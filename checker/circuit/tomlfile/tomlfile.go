@@ -83,6 +83,11 @@ func Parse(file string, data []byte) (*Doc, error) {
 // column are the fallback.
 func parseErrorPos(s string, p toml.Position) Pos {
 	if p.Start >= 0 && p.Start <= len(s) {
+		// The parser's item may start with the blank before the offending
+		// character ("... but got 'x'"): point at the character itself.
+		for n := 1; n < p.Len && p.Start < len(s) && (s[p.Start] == ' ' || s[p.Start] == '\t'); n++ {
+			p.Start++
+		}
 		ls := strings.LastIndexByte(s[:p.Start], '\n') + 1
 		return Pos{Line: strings.Count(s[:p.Start], "\n") + 1, Col: runeCol(s[ls:], p.Start-ls)}
 	}
@@ -279,7 +284,7 @@ func (t *Table) String(key string, required bool) (string, bool) {
 	raw, ok := t.m[key]
 	if !ok {
 		if required {
-			t.Errorf(t.Pos, "%s: missing required key %q", t.What, key)
+			t.Missing(key, "")
 		}
 		return "", false
 	}
@@ -289,6 +294,49 @@ func (t *Table) String(key string, required bool) (string, bool) {
 		return "", false
 	}
 	return s, true
+}
+
+// Missing records that a required key is absent, at the table's place. The
+// message suggests a key of the table that looks like a misspelling of it.
+func (t *Table) Missing(key, detail string) {
+	msg := fmt.Sprintf("%s: missing required key %q", t.What, key)
+	if detail != "" {
+		msg += " " + detail
+	}
+	for _, k := range t.Keys() {
+		if k != key && editDistance(k, key) <= 2 {
+			msg += fmt.Sprintf(" (is %q a misspelling of it?)", k)
+			break
+		}
+	}
+	t.Errorf(t.Pos, "%s", msg)
+}
+
+// editDistance is the optimal-string-alignment distance between short keys:
+// insertions, deletions, substitutions and swaps of neighbours count one each.
+func editDistance(a, b string) int {
+	x, y := []rune(a), []rune(b)
+	d := make([][]int, len(x)+1)
+	for i := range d {
+		d[i] = make([]int, len(y)+1)
+		d[i][0] = i
+	}
+	for j := range d[0] {
+		d[0][j] = j
+	}
+	for i := 1; i <= len(x); i++ {
+		for j := 1; j <= len(y); j++ {
+			cost := 1
+			if x[i-1] == y[j-1] {
+				cost = 0
+			}
+			d[i][j] = min(d[i-1][j]+1, d[i][j-1]+1, d[i-1][j-1]+cost)
+			if i > 1 && j > 1 && x[i-1] == y[j-2] && x[i-2] == y[j-1] {
+				d[i][j] = min(d[i][j], d[i-2][j-2]+1)
+			}
+		}
+	}
+	return d[len(x)][len(y)]
 }
 
 // Bool returns a boolean value; absent or wrong type gives false, false.
@@ -350,7 +398,7 @@ func (t *Table) Pair(key string, u quantity.Unit, s Sign) ([2]float64, bool) {
 	if !ok || len(arr) != 2 {
 		got := TypeName(raw)
 		if ok {
-			got = fmt.Sprintf("%d values", len(arr))
+			got = fmt.Sprint(len(arr))
 		}
 		t.Errorf(t.ValPos(key), "%s %s: expected two values [low, high], got %s", t.What, key, got)
 		return out, false
