@@ -111,37 +111,60 @@ func TestTransformerDots(t *testing.T) {
 	}
 }
 
+// ceStage is a common-emitter stage with a 27 kΩ / 4.7 kΩ divider, 470 Ω
+// emitter resistor bypassed by 100 µF, 1 kΩ collector load, 10 µF coupling
+// capacitors and 50 Ω ports, for the low-frequency input and gain checks.
+func ceStage(kind circuit.Kind, lo, hi float64) *net {
+	vcc := 12.0
+	if kind == circuit.PNP {
+		vcc = -12
+	}
+	return newNet(lo, hi).supply("vcc", vcc, 0).port("in", "rf_in", "in", 50).port("out", "rf_out", "out", 50).
+		cap("C1", "rf_in", "base", 10e-6).r("R1", "vcc", "base", 27e3).r("R2", "base", "gnd", 4.7e3).
+		r("RE", "emit", "gnd", 470).cap("CE", "emit", "gnd", 100e-6).r("RC", "vcc", "coll", 1000).
+		cap("C2", "coll", "rf_out", 10e-6)
+}
+
+// ceExpected is the hybrid-π solution of ceStage without Cμ, by hand: with
+// yπ = 1/rπ + jωCπ and ZE = RE ‖ CE, the base shows Zb = 1/yπ + (1 + gm/yπ)·ZE;
+// vbe = vb/(yπ·Zb); the collector current gm·vbe flows in RC ‖ (C2 + RL).
+func ceExpected(f, gm, beta, ft float64) (zin complex128, av float64) {
+	ypi := complex(gm/beta, 2*math.Pi*f*gm/(2*math.Pi*ft))
+	ze := par(ohm(470), zC(100e-6, f))
+	zb := 1/ypi + (1+complex(gm, 0)/ypi)*ze
+	zpar := par(ohm(27e3), ohm(4.7e3), zb)
+	zin = zC(10e-6, f) + zpar
+	vb := zpar / zin // per volt at rf_in
+	vc := -complex(gm, 0) * vb / (ypi * zb) * par(ohm(1000), zC(10e-6, f)+ohm(50))
+	vout := vc * 50 / (zC(10e-6, f) + 50)
+	return zin, 20 * math.Log10(cmplx.Abs(vout))
+}
+
 // Common-emitter stage, emitter bypassed, well below the β cut-off: the input
 // impedance is close to R1 ‖ R2 ‖ β·re, re = VT/IE (REFERENCES §9–10). Vector
 // of REFERENCES §10: IE = 5 mA at 300 K (re = 5.170 Ω), β = 100, R1 = 27 kΩ,
-// R2 = 4.7 kΩ. The exact hybrid-π value (base impedance 1/yπ + (1 + gm/yπ)·ZE,
-// yπ = 1/rπ + jωCπ) is checked tightly, the textbook approximation to 2 %.
-// A PNP's small-signal model is the same (FORMAT.md §6).
+// R2 = 4.7 kΩ. The exact hybrid-π value (ceExpected) is checked tightly, the
+// textbook approximation to 2 %. A PNP's small-signal model is the same
+// (FORMAT.md §6).
 func TestCommonEmitterInput(t *testing.T) {
 	const beta, ie, ft = 100.0, 5e-3, 300e6
 	ic := ie * beta / (beta + 1)
 	for _, kind := range []circuit.Kind{circuit.NPN, circuit.PNP} {
-		n := newNet(100e3, 150e3).supply("vcc", 12, 0).port("in", "rf_in", "in", 50).port("out", "rf_out", "out", 50).
-			cap("C1", "rf_in", "base", 10e-6).r("R1", "vcc", "base", 27e3).r("R2", "base", "gnd", 4.7e3).
-			r("RE", "emit", "gnd", 470).cap("CE", "emit", "gnd", 100e-6).r("RC", "vcc", "coll", 1000).
-			cap("C2", "coll", "rf_out", 10e-6).bjt(kind, "Q1", "coll", "base", "emit", ic, beta, ft, 0)
+		n := ceStage(kind, 100e3, 150e3).bjt(kind, "Q1", "coll", "base", "emit", ic, beta, ft, 0)
 		n.op.VT = vt(300)
 		res := n.analyze(t)
 
 		re := vt(300) / ie
 		nearAbs(t, "re (REFERENCES §9)", re, 5.170, 0.0005)
 		approx := cmplx.Abs(par(ohm(27e3), ohm(4.7e3), ohm(beta*re)))
-
 		gm := ic / vt(300)
-		cpi := gm / (2 * math.Pi * ft)
 		for _, bp := range res.Band {
-			f := bp.Frequency
-			ypi := complex(gm/beta, 2*math.Pi*f*cpi)
-			ze := par(ohm(470), zC(100e-6, f))
-			zb := 1/ypi + (1+complex(gm, 0)/ypi)*ze
-			want := zC(10e-6, f) + par(ohm(27e3), ohm(4.7e3), zb)
-			nearZ(t, string(kind)+" Zin exact", bp.InputImpedance, want, 1e-6)
+			zin, av := ceExpected(bp.Frequency, gm, beta, ft)
+			nearZ(t, string(kind)+" Zin exact", bp.InputImpedance, zin, 1e-6)
 			near(t, string(kind)+" |Zin| ≈ R1‖R2‖β·re", cmplx.Abs(bp.InputImpedance), approx, 0.02)
+			nearAbs(t, string(kind)+" voltage gain", *bp.VoltageGainDB, av, 1e-5)
+			// Textbook CE gain, emitter bypassed: |Av| ≈ gm·(RC ‖ RL).
+			nearAbs(t, string(kind)+" voltage gain ≈ gm·(RC‖RL)", *bp.VoltageGainDB, 20*math.Log10(gm*1000*50/1050), 0.05)
 		}
 		b := res.BJTs["Q1"]
 		near(t, "gm", b.GM, gm, 1e-12)
@@ -330,6 +353,9 @@ func TestImpedanceRemovingParallelCapacitors(t *testing.T) {
 		}
 	}
 	near(t, "C1 own circuit impedance", res.Parts["C1"].CircuitImpedance, cmplx.Abs(par(g, zC(10e-9, f))), 1e-9)
+	if n := len(res.freqs[f].fresh); n != 0 {
+		t.Errorf("%d fresh factorisations, want the low-rank update alone", n)
+	}
 	// Both ends AC ground, or the same net: no impedance.
 	if z, _ := res.Impedance(f, "vcc", "gnd"); z != 0 {
 		t.Errorf("vcc–gnd = %v, want 0", z)
@@ -367,6 +393,9 @@ func TestImpedanceDominantPartRemoved(t *testing.T) {
 		t.Fatal(err)
 	}
 	nearZ(t, "both removed", z, par(ohm(1e4), ohm(1/Gmin), ohm(10+1/Gmin)), 1e-9)
+	if len(res.freqs[f].fresh) == 0 {
+		t.Error("the fresh factorisation was not used")
+	}
 }
 
 // A potentiometer is two resistors, each at least 1 mΩ (FORMAT.md §6).

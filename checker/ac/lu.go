@@ -22,12 +22,17 @@ type lu struct {
 	n   int
 	a   []complex128 // L below the diagonal (unit diagonal implied), U on and above
 	piv []int        // row i of the factors is row piv[i] of the original
+	// The factors' non-zero entries off the diagonal, row by row (row i's
+	// are col[start[i]:start[i+1]]), so that solves skip the zeros.
+	lcol, lstart []int
+	ucol, ustart []int
 }
 
 // factor overwrites a (row-major, n×n) with its LU factors. It fails only on an
 // exactly zero or non-finite pivot.
 func factor(a []complex128, n int) (*lu, error) {
 	piv := make([]int, n)
+	nz := make([]int, 0, n)
 	for i := range piv {
 		piv[i] = i
 	}
@@ -49,7 +54,14 @@ func factor(a []complex128, n int) (*lu, error) {
 			piv[k], piv[p] = piv[p], piv[k]
 		}
 		inv := 1 / a[k*n+k]
-		rk := a[k*n+k+1 : k*n+n]
+		// Nodal matrices are sparse: update only the pivot row's non-zero columns.
+		nz = nz[:0]
+		for j := k + 1; j < n; j++ {
+			if a[k*n+j] != 0 {
+				nz = append(nz, j)
+			}
+		}
+		rk := a[k*n : k*n+n]
 		for i := k + 1; i < n; i++ {
 			m := a[i*n+k]
 			if m == 0 {
@@ -57,13 +69,28 @@ func factor(a []complex128, n int) (*lu, error) {
 			}
 			m *= inv
 			a[i*n+k] = m
-			ri := a[i*n+k+1 : i*n+n]
-			for j, v := range rk {
-				ri[j] -= m * v
+			ri := a[i*n : i*n+n]
+			for _, j := range nz {
+				ri[j] -= m * rk[j]
 			}
 		}
 	}
-	return &lu{n: n, a: a, piv: piv}, nil
+	f := &lu{n: n, a: a, piv: piv, lstart: make([]int, n+1), ustart: make([]int, n+1)}
+	for i := 0; i < n; i++ {
+		for j := 0; j < i; j++ {
+			if a[i*n+j] != 0 {
+				f.lcol = append(f.lcol, j)
+			}
+		}
+		f.lstart[i+1] = len(f.lcol)
+		for j := i + 1; j < n; j++ {
+			if a[i*n+j] != 0 {
+				f.ucol = append(f.ucol, j)
+			}
+		}
+		f.ustart[i+1] = len(f.ucol)
+	}
+	return f, nil
 }
 
 // solve returns x with A·x = b; b is left untouched.
@@ -75,19 +102,19 @@ func (f *lu) solve(b []complex128) []complex128 {
 	}
 	for i := 1; i < n; i++ {
 		s := x[i]
-		row := f.a[i*n : i*n+i]
-		for j, v := range row {
-			s -= v * x[j]
+		row := f.a[i*n : i*n+n]
+		for _, j := range f.lcol[f.lstart[i]:f.lstart[i+1]] {
+			s -= row[j] * x[j]
 		}
 		x[i] = s
 	}
 	for i := n - 1; i >= 0; i-- {
 		s := x[i]
-		row := f.a[i*n+i+1 : i*n+n]
-		for j, v := range row {
-			s -= v * x[i+1+j]
+		row := f.a[i*n : i*n+n]
+		for _, j := range f.ucol[f.ustart[i]:f.ustart[i+1]] {
+			s -= row[j] * x[j]
 		}
-		x[i] = s / f.a[i*n+i]
+		x[i] = s / row[i]
 	}
 	return x
 }

@@ -65,13 +65,12 @@ func build(c *circuit.Circuit, op *dc.Result) (*network, error) {
 			acGround[s.Net] = true
 		}
 	}
-	for _, net := range c.Nets() {
-		if acGround[net] {
-			nw.nodes[net] = ground
-			continue
-		}
+	for _, net := range order(c, acGround) {
 		nw.nodes[net] = nw.n
 		nw.n++
+	}
+	for net := range acGround {
+		nw.nodes[net] = ground
 	}
 	node := func(net string) int { return nw.nodes[net] }
 
@@ -126,11 +125,13 @@ func (nw *network) add(ref string, br []branch, adm func(float64) ([]complex128,
 	nw.elems = append(nw.elems, element{ref: ref, branches: br, adm: adm})
 }
 
+// netCount is how many nets each kind with a Nets list must have.
+var netCount = map[circuit.Kind]int{circuit.Resistor: 2, circuit.Capacitor: 2, circuit.Inductor: 2,
+	circuit.Potentiometer: 3, circuit.NPN: 3, circuit.PNP: 3}
+
 // addPart adds one part's small-signal stamp (FORMAT.md §6).
 func (nw *network) addPart(p *circuit.Part, op *dc.Result, node func(string) int) error {
-	need := map[circuit.Kind]int{circuit.Resistor: 2, circuit.Capacitor: 2, circuit.Inductor: 2,
-		circuit.Potentiometer: 3, circuit.NPN: 3, circuit.PNP: 3}
-	if k, ok := need[p.Kind]; ok && len(p.Nets) != k {
+	if k, ok := netCount[p.Kind]; ok && len(p.Nets) != k {
 		return fmt.Errorf("%s needs %d nets, has %d", p.Kind, k, len(p.Nets))
 	}
 	switch p.Kind {
@@ -329,4 +330,69 @@ func (nw *network) refs(removed []string) ([]int, error) {
 	}
 	sort.Ints(idx)
 	return idx, nil
+}
+
+// order numbers the nets that are not AC ground by reverse Cuthill–McKee on
+// the graph of nets that share a part, so that the nodal matrix is banded and
+// its factorisation fills in little (a chain of stages stays a chain).
+func order(c *circuit.Circuit, acGround map[string]bool) []string {
+	adj := map[string]map[string]bool{}
+	link := func(nets []string) {
+		for _, a := range nets {
+			if a == circuit.Gnd || acGround[a] {
+				continue
+			}
+			if adj[a] == nil {
+				adj[a] = map[string]bool{}
+			}
+			for _, b := range nets {
+				if b != a && b != circuit.Gnd && !acGround[b] {
+					adj[a][b] = true
+				}
+			}
+		}
+	}
+	for _, p := range c.Parts {
+		link(p.PartNets())
+	}
+	nets := c.Nets() // sorted: ties are broken by name
+	degree := func(n string) int { return len(adj[n]) }
+	seen := map[string]bool{}
+	out := make([]string, 0, len(nets))
+	for {
+		start := ""
+		for _, n := range nets {
+			if !seen[n] && !acGround[n] && (start == "" || degree(n) < degree(start)) {
+				start = n
+			}
+		}
+		if start == "" {
+			break
+		}
+		seen[start] = true
+		queue := []string{start}
+		for len(queue) > 0 {
+			n := queue[0]
+			queue = queue[1:]
+			out = append(out, n)
+			var next []string
+			for m := range adj[n] {
+				if !seen[m] {
+					seen[m] = true
+					next = append(next, m)
+				}
+			}
+			sort.Slice(next, func(i, j int) bool {
+				if di, dj := degree(next[i]), degree(next[j]); di != dj {
+					return di < dj
+				}
+				return next[i] < next[j]
+			})
+			queue = append(queue, next...)
+		}
+	}
+	for i, j := 0, len(out)-1; i < j; i, j = i+1, j-1 {
+		out[i], out[j] = out[j], out[i]
+	}
+	return out
 }
