@@ -66,7 +66,6 @@ type jsonFinding struct {
 	Fix        string             `json:"fix"`
 	Changes    []engine.Change    `json:"changes,omitempty"`
 	Waived     bool               `json:"waived"`
-	Reason     string             `json:"waiver_reason,omitempty"`
 }
 
 type jsonError struct {
@@ -114,7 +113,7 @@ func JSON(w io.Writer, results []check.Result, extra []error) error {
 func findingJSON(path string, f engine.Finding) jsonFinding {
 	j := jsonFinding{Rule: f.Rule, Severity: f.Severity.String(), Path: path, Line: f.Pos.Line,
 		Column: f.Pos.Col, Part: f.Part, Message: f.Message, Corner: f.Corner, Fix: f.Fix,
-		Changes: f.Changes, Waived: f.Waived, Reason: f.Reason}
+		Changes: f.Changes, Waived: f.Waived}
 	if j.Corner == nil {
 		j.Corner = map[string]float64{}
 	}
