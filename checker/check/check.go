@@ -28,8 +28,8 @@ type Options struct {
 	Rules    []*engine.Rule
 	RulesRef string       // --rules: a shipped name or a path; "" = discovery
 	Set      *ruleset.Set // a rule set already resolved (tests); wins over RulesRef
-	Corners  string // --corners override, "" = the rule set's
-	FailOn   string // --fail-on override, "" = the rule set's
+	Corners  string       // --corners override, "" = the rule set's
+	FailOn   string       // --fail-on override, "" = the rule set's
 	ReadFile func(string) ([]byte, error)
 	Exists   func(string) bool // for discovery; nil = the working tree
 	Today    string            // YYYY-MM-DD for waiver expiry; "" = the real clock
