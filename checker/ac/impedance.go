@@ -80,10 +80,10 @@ func (fr *freq) solveBranch(b branch) []complex128 {
 	n := fr.f0.n
 	rhs := make([]complex128, n)
 	if b.from != ground {
-		rhs[b.from] = 1
+		rhs[b.from]++
 	}
 	if b.to != ground {
-		rhs[b.to] = -1
+		rhs[b.to]-- // a branch from a net to itself is the zero vector
 	}
 	x := fr.f0.solve(rhs)
 	fr.sol[b] = x
@@ -207,10 +207,10 @@ func (r *Result) freshImpedance(fr *freq, u branch, mods []mod, key string) (com
 	n := r.net.n
 	rhs := make([]complex128, n)
 	if u.from != ground {
-		rhs[u.from] = 1
+		rhs[u.from]++
 	}
 	if u.to != ground {
-		rhs[u.to] = -1
+		rhs[u.to]--
 	}
 	z := across(f.solve(rhs), u)
 	if !finite(z) {
