@@ -122,4 +122,3 @@ func BenchmarkCheckFolder(b *testing.B) {
 		})
 	}
 }
-
