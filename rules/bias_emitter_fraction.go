@@ -1,18 +1,175 @@
 package rules
 
 import (
+	"fmt"
+	"math"
+
+	"headroom/checker/dc"
 	"headroom/checker/engine"
+	"headroom/checker/eseries"
 	"headroom/checker/quantity"
+	"headroom/checker/topology"
 )
 
-// BiasEmitterFraction is not written yet: it is listed so that the shipped rule sets load.
+// BiasEmitterFraction checks that a common-emitter stage drops a sensible
+// share of its supply across the emitter resistance.
 var BiasEmitterFraction = &engine.Rule{
 	ID: "bias.emitter-fraction",
 	Doc: engine.Doc{
-		Title: "not written yet",
+		Title: "a common-emitter stage must drop about a tenth of its supply across the emitter",
+		Why: "The emitter voltage is what holds the collector current against VBE, which falls about 2 mV per °C: " +
+			"with too little of it the bias drifts with temperature and from part to part; with too much the " +
+			"stage wastes supply that the collector swing needs.",
+		Formula: "for a common-emitter stage (the collector not directly on an AC-ground or decoupled net): " +
+			"V(emitter) ÷ V(feed rail), both measured from the return rail, >= min_fraction and <= max_fraction " +
+			"(one item per bound; the finding reports the bound it violates); unit fraction",
+		Source: "common practice, no published source (about a tenth of the supply across the emitter resistor)",
+		Fix: "When one resistor returns the emitter to its rail and changing it moves the emitter voltage (a " +
+			"base fed by current rather than held by a divider), the E24 value of it nearest one tenth, checked by " +
+			"solving the operating point again. Otherwise the emitter resistance for one tenth at the present " +
+			"current, and the base voltage that goes with it.",
 		Params: []engine.Param{
 			{Name: "min_fraction", Unit: quantity.Ratio, Help: "smallest emitter voltage ÷ feed-rail voltage"},
 			{Name: "max_fraction", Unit: quantity.Ratio, Help: "largest emitter voltage ÷ feed-rail voltage"},
 		},
 	},
+	Run: runEmitterFraction,
+}
+
+// emitterTarget is the fraction the fix aims at.
+const emitterTarget = 0.1
+
+// emitterFraction is V(emitter) ÷ V(feed rail), both from the return rail;
+// false where the feed rail sits at the return rail's voltage.
+func emitterFraction(op *dc.Result, tb *topology.BJT) (float64, bool) {
+	vret := netV(op, tb.ReturnRail)
+	den := netV(op, tb.FeedRail) - vret
+	if den == 0 || math.IsNaN(den) {
+		return 0, false
+	}
+	return (netV(op, tb.Emitter) - vret) / den, true
+}
+
+func runEmitterFraction(p *engine.Pass) error {
+	op := p.A.OP
+	if op == nil {
+		return nil
+	}
+	lo, hi := p.Param("min_fraction"), p.Param("max_fraction")
+	for _, part := range bjts(p) {
+		tb := p.A.Topo.BJTs[part.Ref]
+		if tb == nil || !tb.CommonEmitter || tb.ReturnRail == "" || tb.FeedRail == "" {
+			continue
+		}
+		fr, ok := emitterFraction(op, tb)
+		if !ok {
+			continue
+		}
+		ve := math.Abs(netV(op, tb.Emitter) - netV(op, tb.ReturnRail))
+		vf := math.Abs(netV(op, tb.FeedRail) - netV(op, tb.ReturnRail))
+		for _, b := range []struct {
+			bound, cmp, word string
+			limit            float64
+		}{{"min", ">=", "at least", lo}, {"max", "<=", "at most", hi}} {
+			f := engine.Finding{Part: part.Ref, Bound: b.bound,
+				HasMetric: true, Measured: fr, Limit: b.limit, Comparison: b.cmp, Unit: "fraction",
+				Message: fmt.Sprintf("%s drops %s across its emitter, %s of the %s feed, needs %s %s", part.Ref,
+					quantity.Approx(ve, quantity.Volt), quantity.Approx(fr, quantity.Fraction),
+					quantity.Approx(vf, quantity.Volt), b.word, quantity.Approx(b.limit, quantity.Fraction))}
+			if engine.Fails(fr, b.limit, b.cmp) {
+				f.Fix, f.Changes = emitterFix(p, tb, lo, hi)
+			}
+			p.Report(f)
+		}
+	}
+	return nil
+}
+
+// emitterFix looks for the E24 emitter resistor nearest one tenth; failing
+// that, it says what the emitter and base need.
+func emitterFix(p *engine.Pass, tb *topology.BJT, lo, hi float64) (string, []engine.Change) {
+	op := p.A.OP
+	ers := resistorsOn(p.Circuit, tb.Emitter)
+	if len(ers) == 1 && otherNet(ers[0], tb.Emitter) == tb.ReturnRail {
+		re := ers[0]
+		nom := p.NominalCircuit.Part(re.Ref).Value
+		// The fraction rises with the emitter resistor: bisect two decades
+		// either side of the present value for the step that crosses a tenth.
+		vals := append(reverse(e24Walk(nom, false, 49)), e24Walk(nom*1.0001, true, 48)...)
+		at := func(i int) (float64, bool) {
+			op2, ok := solveWith(p, map[string]float64{re.Ref: vals[i]})
+			if !ok {
+				return 0, false
+			}
+			return emitterFraction(op2, tb)
+		}
+		a, b := 0, len(vals)-1
+		fa, okA := at(a)
+		fb, okB := at(b)
+		if okA && okB && fa < emitterTarget && fb >= emitterTarget {
+			for b-a > 1 {
+				m := (a + b) / 2
+				fm, ok := at(m)
+				if !ok {
+					break
+				}
+				if fm >= emitterTarget {
+					b, fb = m, fm
+				} else {
+					a, fa = m, fm
+				}
+			}
+			// The values either side of the crossing and their neighbours,
+			// each judged at this case and at its opposite vertex (the one
+			// worst for the other bound): the fix must hold at both.
+			best, bestErr, bestF := -1, math.Inf(1), 0.0
+			for i := a - 2; i <= b+2; i++ {
+				if i < 0 || i >= len(vals) || vals[i] == nom {
+					continue
+				}
+				fc, ok := at(i)
+				if !ok || fc < lo || fc > hi {
+					continue
+				}
+				op2, ok := opposite(p, map[string]float64{re.Ref: vals[i]})
+				if !ok {
+					continue
+				}
+				fo, ok := emitterFraction(op2, tb)
+				if !ok || fo < lo || fo > hi {
+					continue
+				}
+				if e := max(math.Abs(fc-emitterTarget), math.Abs(fo-emitterTarget)); e < bestErr {
+					best, bestErr, bestF = i, e, fc
+				}
+			}
+			if best >= 0 {
+				return fmt.Sprintf("%s = %s (E24) puts %s of the feed across the emitter", re.Ref,
+						quantity.Approx(vals[best], quantity.Ohm), quantity.Approx(bestF, quantity.Fraction)),
+					[]engine.Change{{Part: re.Ref, Key: "value", To: quantity.Code(vals[best], quantity.Ohm)}}
+			}
+		}
+	}
+	// Advice: the emitter resistance for a tenth at the present current.
+	q := op.BJTs[tb.Ref]
+	vf := math.Abs(netV(op, tb.FeedRail) - netV(op, tb.ReturnRail))
+	ie := q.IC + q.IB
+	if !(ie > 0) {
+		return fmt.Sprintf("set the emitter voltage near %s (a tenth of the feed) once the stage conducts",
+			quantity.Approx(emitterTarget*vf, quantity.Volt)), nil
+	}
+	want := emitterTarget * vf / ie
+	return fmt.Sprintf("the emitter voltage follows the base here: move the base to about %s from the return rail "+
+		"(a tenth of the feed, %s, plus VBE) and use about %s of emitter resistance (%s E24) to keep the present %s",
+		quantity.Approx(emitterTarget*vf+q.VBE, quantity.Volt), quantity.Approx(emitterTarget*vf, quantity.Volt),
+		quantity.Approx(want, quantity.Ohm), quantity.Approx(eseries.Nearest(want, eseries.E24), quantity.Ohm),
+		quantity.Approx(q.IC, quantity.Ampere)+" collector current"), nil
+}
+
+func reverse(v []float64) []float64 {
+	out := make([]float64, len(v))
+	for i, x := range v {
+		out[len(v)-1-i] = x
+	}
+	return out
 }
