@@ -1,0 +1,241 @@
+package rules
+
+import (
+	"fmt"
+	"math"
+	"math/cmplx"
+	"strings"
+
+	"headroom/checker/circuit"
+	"headroom/checker/engine"
+	"headroom/checker/eseries"
+	"headroom/checker/quantity"
+)
+
+// The reactance rules (coupling, bypass, decoupling, choke, winding) share
+// what is here: the lowest band frequency, capacitor groups, and fixes
+// rounded up to E12.
+
+// fixSeries is the series a reactance fix rounds to (RULES.md: "rounded up to
+// E12").
+const fixSeries = eseries.E12
+
+// safetyMargin lifts a computed requirement by a few ulps' worth before it is
+// rounded up, so that a requirement that lands on a series value within
+// floating-point error still passes when the engine recomputes the metric.
+const safetyMargin = 1 + 1e-9
+
+// omegaLow is the angular frequency of the lowest band frequency, where
+// every reactance rule judges: a series capacitor or a shunt inductance does
+// the most harm at the bottom of the band.
+func omegaLow(c *circuit.Circuit) float64 { return 2 * math.Pi * c.Band[0] }
+
+// roundUpE12 is the smallest E12 value at or above v, or 0 when there is
+// none (v not positive and finite, or beyond the largest float).
+func roundUpE12(v float64) float64 {
+	r := eseries.RoundUp(v, fixSeries)
+	if math.IsNaN(r) || math.IsInf(r, 0) {
+		return 0
+	}
+	return r
+}
+
+// capGroup is the set of capacitors of one role that share both nets: they
+// act as one capacitor, so they are judged as one (RULES.md, reactance rules).
+type capGroup struct {
+	Parts []*circuit.Part // the case's parts, in file order; Parts[0] names the finding
+	A, B  string          // the nets, as the first part writes them
+}
+
+// first is the part the finding names and the fix changes.
+func (g *capGroup) first() *circuit.Part { return g.Parts[0] }
+
+// refs lists the group's references, for Impedance's removed list.
+func (g *capGroup) refs() []string {
+	out := make([]string, len(g.Parts))
+	for i, p := range g.Parts {
+		out[i] = p.Ref
+	}
+	return out
+}
+
+// capacitance is the group's capacitance at the case judged: the sum of the
+// case's values (at a corner the circuit already holds the corner values).
+func (g *capGroup) capacitance() float64 {
+	s := 0.0
+	for _, p := range g.Parts {
+		s += p.Value
+	}
+	return s
+}
+
+// name is how messages call the group: "C1", or "C1 with C2 (together 20 nF)".
+func (g *capGroup) name() string {
+	if len(g.Parts) == 1 {
+		return g.first().Ref
+	}
+	return fmt.Sprintf("%s with %s (together %s)", g.first().Ref, strings.Join(g.refs()[1:], ", "),
+		quantity.Approx(g.capacitance(), quantity.Farad))
+}
+
+// capacitorGroups gathers the capacitors of the given role (explicit or
+// found by the topology) into groups by their unordered pair of nets, in the
+// file order of each group's first part. A capacitor with both ends on one
+// net is left out: nothing is across it.
+func capacitorGroups(p *engine.Pass, role string) []*capGroup {
+	var out []*capGroup
+	byNets := map[[2]string]*capGroup{}
+	for _, part := range p.Circuit.Parts {
+		if part.Kind != circuit.Capacitor || len(part.Nets) != 2 || p.A.Topo.Roles[part.Ref] != role {
+			continue
+		}
+		a, b := part.Nets[0], part.Nets[1]
+		if a == b {
+			continue
+		}
+		key := [2]string{a, b}
+		if b < a {
+			key = [2]string{b, a}
+		}
+		if g := byNets[key]; g != nil {
+			g.Parts = append(g.Parts, part)
+			continue
+		}
+		g := &capGroup{Parts: []*circuit.Part{part}, A: a, B: b}
+		byNets[key] = g
+		out = append(out, g)
+	}
+	return out
+}
+
+// groupImpedance is |the impedance the rest of the circuit presents across
+// the group| at the lowest band frequency, with every capacitor of the group
+// removed. ok is false when it cannot be had or is not a positive finite
+// number (nothing to judge against).
+func groupImpedance(p *engine.Pass, g *capGroup) (z float64, ok bool) {
+	zc, err := p.A.AC.Impedance(p.Circuit.Band[0], g.A, g.B, g.refs()...)
+	if err != nil {
+		return 0, false
+	}
+	z = cmplx.Abs(zc)
+	return z, z > 0 && !math.IsInf(z, 0) && !math.IsNaN(z)
+}
+
+// capacitorFix is the fix for a capacitor group whose reactance at the lowest
+// frequency must come down to maxX. The whole requirement goes on the first
+// part; the others stay. The new value is nominal, chosen so that the group
+// meets maxX at the case judged: the first part's case value is its nominal
+// value times caseRatio (1 at nominal, 1 − tolerance at the adverse corner),
+// so the requirement is scaled by nominal/case before it is rounded up to E12.
+func capacitorFix(p *engine.Pass, g *capGroup, maxX float64) (string, []engine.Change) {
+	w := omegaLow(p.Circuit)
+	need := 1 / (w * maxX) // total capacitance at the case
+	first := g.first()
+	others := g.capacitance() - first.Value
+	ratio := 1.0
+	if nom := p.NominalCircuit.Part(first.Ref); nom != nil && nom.Value > 0 {
+		ratio = first.Value / nom.Value
+	}
+	exact := (need - others) / ratio * safetyMargin
+	v := roundUpE12(exact)
+	if v == 0 {
+		return fmt.Sprintf("%s needs %s in all; no E12 value fits, so use %s",
+			first.Ref, quantity.Approx(need, quantity.Farad), quantity.Approx(exact, quantity.Farad)), nil
+	}
+	after := 1 / (w * (v*ratio + others))
+	var b strings.Builder
+	fmt.Fprintf(&b, "%s = %s (E12)", first.Ref, quantity.Approx(v, quantity.Farad))
+	if len(g.Parts) > 1 {
+		fmt.Fprintf(&b, ", with %s unchanged,", strings.Join(g.refs()[1:], ", "))
+	}
+	fmt.Fprintf(&b, " gives %s at %s", quantity.Approx(after, quantity.Ohm), quantity.Approx(p.Circuit.Band[0], quantity.Hertz))
+	if ratio != 1 {
+		fmt.Fprintf(&b, " at its %+.3g %% corner", (ratio-1)*100)
+	}
+	fmt.Fprintf(&b, " (needs at most %s)", quantity.Approx(maxX, quantity.Ohm))
+	return b.String(), []engine.Change{{Part: first.Ref, Key: "value", To: quantity.Code(v, quantity.Farad)}}
+}
+
+// judgeCapacitorGroups reports, for every group of the role, the reactance
+// at the lowest frequency against limit(circuit impedance). limit returns
+// ok false where the item is not judged (decoupling.reactance below
+// min_ohms), and a phrase explaining the limit for the message.
+func judgeCapacitorGroups(p *engine.Pass, role string, limit func(z float64) (lim float64, why string, ok bool)) {
+	if p.A.AC == nil {
+		return
+	}
+	w := omegaLow(p.Circuit)
+	for _, g := range capacitorGroups(p, role) {
+		z, ok := groupImpedance(p, g)
+		if !ok {
+			continue
+		}
+		lim, why, ok := limit(z)
+		if !ok || !(lim > 0) {
+			continue
+		}
+		x := 1 / (w * g.capacitance())
+		f := engine.Finding{Part: g.first().Ref,
+			HasMetric: true, Measured: x, Limit: lim, Comparison: "<=", Unit: "ohm",
+			Message: fmt.Sprintf("%s has %s of reactance at %s, needs at most %s (%s)", g.name(),
+				quantity.Approx(x, quantity.Ohm), quantity.Approx(p.Circuit.Band[0], quantity.Hertz),
+				quantity.Approx(lim, quantity.Ohm), why)}
+		if engine.Fails(x, lim, "<=") {
+			f.Fix, f.Changes = capacitorFix(p, g, lim)
+		}
+		p.Report(f)
+	}
+}
+
+// roundTurnsUp is the smallest set of turns, in the same ratio as turns, that
+// gives the winding at index i at least need turns. When the turns are whole
+// numbers (or become whole when multiplied by a small integer, as half turns
+// do) the ratio is kept exactly: the windings become a whole multiple of
+// their smallest whole-number ratio. Otherwise each winding is scaled and
+// rounded up to a whole turn, and exact is false (the ratio moves a little).
+func roundTurnsUp(turns []float64, i int, need float64) (out []int, exact bool) {
+	for m := 1; m <= 16; m++ {
+		ints := make([]int, len(turns))
+		whole := true
+		for j, n := range turns {
+			r := math.Round(n * float64(m))
+			if math.Abs(n*float64(m)-r) > 1e-9*math.Max(1, r) || r < 1 || r > 1e6 {
+				whole = false
+				break
+			}
+			ints[j] = int(r)
+		}
+		if !whole {
+			continue
+		}
+		g := ints[0]
+		for _, n := range ints[1:] {
+			g = gcd(g, n)
+		}
+		k := int(math.Ceil(need / float64(ints[i]/g)))
+		if k < 1 {
+			k = 1
+		}
+		out = make([]int, len(ints))
+		for j, n := range ints {
+			out[j] = k * (n / g)
+		}
+		return out, true
+	}
+	s := need / turns[i]
+	out = make([]int, len(turns))
+	for j, n := range turns {
+		out[j] = int(math.Ceil(n * s))
+	}
+	if c := int(math.Ceil(need)); out[i] < c {
+		out[i] = c
+	}
+	return out, false
+}
+
+func gcd(a, b int) int {
+	for b != 0 {
+		a, b = b, a%b
+	}
+	return a
+}
