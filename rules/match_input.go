@@ -1,17 +1,197 @@
 package rules
 
 import (
+	"fmt"
+	"math"
+	"math/cmplx"
+	"sort"
+	"strings"
+
+	"headroom/checker/ac"
+	"headroom/checker/circuit"
 	"headroom/checker/engine"
 	"headroom/checker/quantity"
 )
 
-// MatchInput is not written yet: it is listed so that the shipped rule sets load.
+// MatchInput checks that the input presents the impedance its source
+// expects across the band.
 var MatchInput = &engine.Rule{
 	ID: "match.input",
 	Doc: engine.Doc{
-		Title: "not written yet",
+		Title: "the input must match its source across the band",
+		Why: "A preamp or buffer is driven from an antenna, a filter or a previous stage designed for one " +
+			"impedance. A mismatch wastes signal, detunes the filter in front and, where the input resistance is " +
+			"negative, warns that the stage may oscillate.",
+		Formula: "for an in port not marked matched = false: the smallest return loss −20·log10|Γ|, " +
+			"Γ = (Zin − RS)/(Zin + RS), at the band's lowest, centre and highest frequencies, >= min_db; unit dB. " +
+			"The finding's part is the port's name.",
+		Source: "the definitions of reflection coefficient and return loss (REFERENCES.md §12: 10 dB is a VSWR of " +
+			"1.92); the 10 dB threshold is common practice, no published source",
+		Fix: "Advice: the input impedance found, at the worst frequency, and what sets it — the branches on the " +
+			"input net that carry most of the input admittance, and at a transistor's base the bias network and " +
+			"the transistor's own input. A negative input resistance is named: the stage may oscillate.",
 		Params: []engine.Param{
 			{Name: "min_db", Unit: quantity.Ratio, Help: "smallest input return loss over the band, dB"},
 		},
 	},
+	Run: runMatchInput,
+}
+
+func runMatchInput(p *engine.Pass) error {
+	port := p.Circuit.InPort()
+	res := p.A.AC
+	if port == nil || !port.Matched || res == nil || !res.HasInput {
+		return nil
+	}
+	minDB := p.Param("min_db")
+	worst := 0
+	for i, b := range res.Band {
+		if b.ReturnLossDB < res.Band[worst].ReturnLossDB {
+			worst = i
+		}
+	}
+	b := res.Band[worst]
+	msg := fmt.Sprintf("input %s has %s of return loss at %s (Zin %s against %s), needs at least %s",
+		port.Name, dB(b.ReturnLossDB), quantity.Approx(b.Frequency, quantity.Hertz),
+		complexOhms(b.InputImpedance), quantity.Approx(port.Impedance, quantity.Ohm), dB(minDB))
+	if real(b.InputImpedance) < 0 {
+		msg += fmt.Sprintf("; the input resistance is negative (%s): the stage may oscillate",
+			quantity.Approx(real(b.InputImpedance), quantity.Ohm))
+	}
+	f := engine.Finding{Part: port.Name,
+		HasMetric: true, Measured: b.ReturnLossDB, Limit: minDB, Comparison: ">=", Unit: "dB",
+		Message: msg}
+	if engine.Fails(b.ReturnLossDB, minDB, ">=") {
+		f.Fix = matchAdvice(p, port, b)
+	}
+	p.Report(f)
+	return nil
+}
+
+// dB writes a level in decibels to three significant figures.
+func dB(v float64) string { return quantity.Approx(v, quantity.Ratio) + " dB" }
+
+// complexOhms writes an impedance as "480 ohm − j1.62 kohm", three
+// significant figures each; a part below a thousandth of the magnitude is
+// left out.
+func complexOhms(z complex128) string {
+	re, im := real(z), imag(z)
+	m := cmplx.Abs(z)
+	if math.Abs(im) <= 1e-3*m {
+		return quantity.Approx(re, quantity.Ohm)
+	}
+	if math.Abs(re) <= 1e-3*m {
+		return "j" + quantity.Approx(im, quantity.Ohm)
+	}
+	sign := "+"
+	if im < 0 {
+		sign, im = "−", -im
+	}
+	return fmt.Sprintf("%s %s j%s", quantity.Approx(re, quantity.Ohm), sign, quantity.Approx(im, quantity.Ohm))
+}
+
+// matchAdvice explains the input impedance: which parts on the input net
+// carry the input admittance, and what the signal meets at a transistor's
+// base behind a series part.
+func matchAdvice(p *engine.Pass, port *circuit.Port, b ac.BandPoint) string {
+	res := p.A.AC
+	f, zin, rs := b.Frequency, b.InputImpedance, port.Impedance
+	var out strings.Builder
+	fmt.Fprintf(&out, "Zin is %s at %s against the %s source", complexOhms(zin),
+		quantity.Approx(f, quantity.Hertz), quantity.Approx(rs, quantity.Ohm))
+	if real(zin) < 0 {
+		out.WriteString(" — a negative input resistance: the stage may oscillate; look for feedback through " +
+			"the collector–base capacitance into an inductive collector load, and damp it (a resistor across " +
+			"the collector load, or a lower-gain stage) before matching")
+	}
+	if zin == 0 {
+		return out.String()
+	}
+
+	// Each part on the input net carries the admittance it removes when it
+	// is taken out (Impedance includes the source resistance RS, taken off).
+	yin := 1 / zin
+	type branch struct {
+		part *circuit.Part
+		y    complex128
+	}
+	var bs []branch
+	for _, part := range p.Circuit.Parts {
+		on := false
+		for _, n := range part.PartNets() {
+			on = on || n == port.Net
+		}
+		if !on {
+			continue
+		}
+		z, err := res.Impedance(f, port.Net, circuit.Gnd, part.Ref)
+		if err != nil || z == 0 {
+			continue
+		}
+		bs = append(bs, branch{part, yin - (1/z - complex(1/rs, 0))})
+	}
+	sort.SliceStable(bs, func(i, j int) bool { return cmplx.Abs(bs[i].y) > cmplx.Abs(bs[j].y) })
+	total := 0.0
+	for _, x := range bs {
+		total += cmplx.Abs(x.y)
+	}
+	if len(bs) == 0 || total == 0 {
+		return out.String()
+	}
+	out.WriteString(". It is set by ")
+	for i, x := range bs {
+		if i == 3 {
+			break
+		}
+		if i > 0 {
+			out.WriteString(", ")
+		}
+		fmt.Fprintf(&out, "%s (%s alone, %s of the input admittance)", x.part.Ref,
+			complexOhms(1/x.y), quantity.Approx(cmplx.Abs(x.y)/total, quantity.Fraction))
+	}
+	// Behind a series part into a transistor's base: the bias network and
+	// the transistor's own input (β·re with Cπ, at this frequency).
+	described := false
+	for _, x := range bs {
+		far := otherNet(x.part, port.Net)
+		for _, tp := range bjtsOn(p.Circuit, far) {
+			if described {
+				break
+			}
+			zall, err1 := res.Impedance(f, far, circuit.Gnd, x.part.Ref)
+			zbias, err2 := res.Impedance(f, far, circuit.Gnd, x.part.Ref, tp.Ref)
+			if err1 != nil || err2 != nil || zall == 0 || zbias == 0 {
+				continue
+			}
+			described = true
+			fmt.Fprintf(&out, "; behind %s, at %s's base, the bias network is %s", x.part.Ref, tp.Ref, complexOhms(zbias))
+			if yq := 1/zall - 1/zbias; yq != 0 {
+				fmt.Fprintf(&out, " and %s's own input (β·re with Cπ, its emitter circuit reflected) %s", tp.Ref, complexOhms(1/yq))
+				if real(1/yq) < 0 {
+					out.WriteString(", a negative resistance (feedback through the collector–base capacitance)")
+				}
+			}
+		}
+	}
+	if real(zin) > 0 {
+		n := math.Sqrt(real(zin) / rs)
+		ratio := "1:" + quantity.Approx(n, quantity.Ratio)
+		if n < 1 {
+			ratio = quantity.Approx(1/n, quantity.Ratio) + ":1"
+		}
+		fmt.Fprintf(&out, ". To match, bring the resistive part to %s: change the part that dominates, "+
+			"or add a transformer of turns ratio about %s (source side first)", quantity.Approx(rs, quantity.Ohm), ratio)
+	}
+	return out.String()
+}
+
+// bjtsOn lists the transistors whose base is on net, in file order.
+func bjtsOn(c *circuit.Circuit, net string) []*circuit.Part {
+	var out []*circuit.Part
+	for _, part := range c.Parts {
+		if part.Kind.IsBJT() && len(part.Nets) == 3 && part.Nets[1] == net {
+			out = append(out, part)
+		}
+	}
+	return out
 }

@@ -1,17 +1,67 @@
 package rules
 
 import (
+	"fmt"
+	"math"
+
+	"headroom/checker/circuit"
 	"headroom/checker/engine"
 	"headroom/checker/quantity"
 )
 
-// SafetyVoltage is not written yet: it is listed so that the shipped rule sets load.
+// SafetyVoltage cautions when a circuit's rails span more than the safety
+// extra-low voltage ceiling.
 var SafetyVoltage = &engine.Rule{
 	ID: "safety.voltage",
 	Doc: engine.Doc{
-		Title: "not written yet",
+		Title: "rails spanning more than the safety extra-low voltage call for hazardous-voltage practice",
+		Why: "Up to 60 V DC, the safety extra-low voltage ceiling, a circuit may be handled without further " +
+			"protection; above it, insulation, " +
+			"enclosure, creepage and the rules of the place it is built and used apply. This checker cannot judge " +
+			"those, so it says when they start to matter.",
+		Formula: "the largest span between the EMFs of any two rails (gnd at 0 V included; each supply at the " +
+			"case judged, so within its range in the worst case), <= max_volts; unit V. The finding names the " +
+			"supply with the largest |EMF|.",
+		Source: "IEC 60950-1 (withdrawn, replaced by IEC 62368-1), SELV circuit: at most 60 V DC in normal " +
+			"operation (REFERENCES.md §8, seen in a public summary); the same 60 V DC is the limit of the lowest " +
+			"energy class, ES1, of IEC 62368-1:2018 (from memory, not checked against the standard)",
+		Fix: "Advice: no value change makes a circuit safe. Bring every rail within max_volts of every other, or " +
+			"treat the circuit as hazardous: follow local codes and licensed practice.",
 		Params: []engine.Param{
 			{Name: "max_volts", Unit: quantity.Volt, Help: "largest span between rail EMFs"},
 		},
 	},
+	Run: runSafetyVoltage,
+}
+
+// safetyCaution is what a failing finding's message carries.
+const safetyCaution = "treat the circuit as hazardous, follow local codes and licensed practice"
+
+func runSafetyVoltage(p *engine.Pass) error {
+	c := p.Circuit
+	if len(c.Supplies) == 0 {
+		return nil
+	}
+	lo, hi := 0.0, 0.0 // gnd
+	var top *circuit.Supply
+	for _, s := range c.Supplies {
+		lo, hi = math.Min(lo, s.Volts), math.Max(hi, s.Volts)
+		if top == nil || math.Abs(s.Volts) > math.Abs(top.Volts) {
+			top = s
+		}
+	}
+	span := hi - lo
+	limit := p.Param("max_volts")
+	f := engine.Finding{Part: top.Net,
+		HasMetric: true, Measured: span, Limit: limit, Comparison: "<=", Unit: "V",
+		Message: fmt.Sprintf("the rails span %s (%s at %s), the limit for safety extra-low voltage is %s",
+			quantity.Approx(span, quantity.Volt), top.Net, quantity.Approx(top.Volts, quantity.Volt),
+			quantity.Approx(limit, quantity.Volt))}
+	if engine.Fails(span, limit, "<=") {
+		f.Message += ": " + safetyCaution
+		f.Fix = fmt.Sprintf("no value change makes this safe: bring every rail within %s of every other, or %s",
+			quantity.Approx(limit, quantity.Volt), safetyCaution)
+	}
+	p.Report(f)
+	return nil
 }
