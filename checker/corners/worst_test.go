@@ -90,31 +90,50 @@ func testCircuit(stages int) *circuit.Circuit {
 }
 
 // bruteForce evaluates every vertex of the box and keeps each item's worst.
+// Items of rules that hold the supplies at nominal (bias.drift) are judged
+// over the box without the supplies, every supply at nominal.
 func bruteForce(t *testing.T, c *circuit.Circuit, cfg *engine.Config) map[engine.Key]engine.Finding {
 	box := Box(c)
 	topo := topology.Analyze(c)
 	nominal := analysis.Run(c, topo)
+	hold := map[string]bool{}
+	var held []Param
+	for _, r := range cfg.Rules {
+		hold[r.ID] = r.HoldSupplies
+	}
+	for _, p := range box {
+		if !p.holdsSupply {
+			held = append(held, p)
+		}
+	}
 	worst := map[engine.Key]engine.Finding{}
-	for mask := 0; mask < 1<<len(box); mask++ {
-		cc := c.Clone()
-		for i, p := range box {
-			if mask&(1<<i) != 0 {
-				p.set(cc, p.Hi)
-			} else {
-				p.set(cc, p.Lo)
+	walk := func(box []Param, keep func(rule string) bool) {
+		for mask := 0; mask < 1<<len(box); mask++ {
+			cc := c.Clone()
+			for i, p := range box {
+				if mask&(1<<i) != 0 {
+					p.set(cc, p.Hi)
+				} else {
+					p.set(cc, p.Lo)
+				}
 			}
-		}
-		fs, err := engine.Evaluate(analysis.Run(cc, topo), nominal, cfg)
-		if err != nil {
-			t.Fatal(err)
-		}
-		for _, f := range fs {
-			k := engine.KeyOf(&f)
-			if w, ok := worst[k]; !ok || engine.Worse(&f, &w) {
-				worst[k] = f
+			fs, err := engine.Evaluate(analysis.Run(cc, topo), nominal, cfg)
+			if err != nil {
+				t.Fatal(err)
+			}
+			for _, f := range fs {
+				if !keep(f.Rule) {
+					continue
+				}
+				k := engine.KeyOf(&f)
+				if w, ok := worst[k]; !ok || engine.Worse(&f, &w) {
+					worst[k] = f
+				}
 			}
 		}
 	}
+	walk(box, func(rule string) bool { return !hold[rule] })
+	walk(held, func(rule string) bool { return hold[rule] })
 	return worst
 }
 
