@@ -102,4 +102,3 @@ func freeze(c *circuit.Circuit, n int) {
 		}
 	}
 }
-
