@@ -24,6 +24,11 @@ type index struct {
 	m   map[string]*entry
 	aot map[string]int // array-of-tables path → elements seen so far
 
+	// tooDeep is where a key path first grew past maxDepth; the scan stops
+	// there. The TOML parser slows down quadratically on very deep nesting,
+	// so such a file is refused before it is parsed.
+	tooDeep Pos
+
 	s         string
 	i         int
 	line, col int
@@ -40,8 +45,19 @@ func buildIndex(s string) *index {
 
 func (x *index) lookup(path []string) *entry { return x.m[joinPath(path)] }
 
+// maxDepth bounds the pieces of a key path, array and inline-table levels
+// included. A circuit file needs six (parts.T1.windings.primary.nets.0).
+const maxDepth = 32
+
 // define records a path; an explicit definition replaces an implicit one.
 func (x *index) define(path []string, def, key, val Pos, explicit bool) {
+	if len(path) > maxDepth {
+		if x.tooDeep.Line == 0 {
+			x.tooDeep = key
+		}
+		x.i = len(x.s) // stop scanning
+		return
+	}
 	k := joinPath(path)
 	e := x.m[k]
 	if e == nil {
@@ -177,7 +193,9 @@ func (x *index) keyPieces() []piece {
 			}
 			name = x.s[b:x.i]
 		}
-		out = append(out, piece{name, p})
+		if len(out) <= maxDepth {
+			out = append(out, piece{name, p})
+		}
 		x.skipSpace()
 		if x.peek() != '.' {
 			return out
@@ -216,6 +234,9 @@ func (x *index) quoted(q byte) string {
 func (x *index) headerPath(pieces []piece, header Pos, array bool) []string {
 	var path []string
 	for j, pc := range pieces {
+		if x.tooDeep.Line > 0 {
+			return path
+		}
 		path = append(path, pc.name)
 		last := j == len(pieces)-1
 		k := joinPath(path)

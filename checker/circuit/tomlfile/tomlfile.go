@@ -61,6 +61,10 @@ var start = Pos{Line: 1, Col: 1}
 // valid TOML gives an *Error at the place the parser stopped.
 func Parse(file string, data []byte) (*Doc, error) {
 	s := strings.TrimPrefix(string(data), "\xef\xbb\xbf")
+	idx := buildIndex(s)
+	if idx.tooDeep.Line > 0 {
+		return nil, &Error{File: file, Pos: idx.tooDeep, Msg: fmt.Sprintf("keys, tables and arrays nested more than %d deep; a circuit or library file never needs this", maxDepth)}
+	}
 	var m map[string]any
 	if _, err := toml.Decode(s, &m); err != nil {
 		var pe toml.ParseError
@@ -72,7 +76,7 @@ func Parse(file string, data []byte) (*Doc, error) {
 	if m == nil {
 		m = map[string]any{}
 	}
-	d := &Doc{File: file, idx: buildIndex(s)}
+	d := &Doc{File: file, idx: idx}
 	d.Root = &Table{doc: d, m: m, Pos: start, What: "file"}
 	return d, nil
 }
