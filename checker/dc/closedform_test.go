@@ -355,3 +355,23 @@ func TestInductiveLoadsAndPot(t *testing.T) {
 	r = solve(t, b.c)
 	checkRel(t, "end-stop section", r.Parts["RV1"].Sections[0].R, 1e-3, 1e-12)
 }
+
+// Resistances under 1 Ω become branches of the matrix (a 0.2 Ω supply, a
+// 0.47 Ω emitter resistor; RC 100 Ω keeps the 43 mA stage active): the
+// results must still follow the closed forms.
+func TestLowResistances(t *testing.T) {
+	const v0, zs, r1, r2, re = 12.0, 0.2, 22e3, 4.7e3, 0.47
+	b := newCircuit(25).supply("vcc", v0, zs).
+		res("R1", "vcc", "base", r1).res("R2", "base", "gnd", r2).
+		res("RC", "vcc", "coll", 100).res("RE", "emit", "gnd", re).
+		npn("Q1", "coll", "base", "emit", transistor(120, 0.65, 10e-3))
+	r := solve(t, b.c)
+	q := r.BJTs["Q1"]
+	vs, ib := seriesFedStage(v0, zs, r1, r2, re, 120, q.VBE)
+	checkRel(t, "V(vcc)", r.V["vcc"], vs, 1e-6)
+	checkRel(t, "IB", q.IB, ib, 1e-3)
+	checkRel(t, "RE current", r.Parts["RE"].Current, 121*ib, 1e-3)
+	checkRel(t, "RE power", r.Parts["RE"].Power, 121*ib*121*ib*re, 2e-3)
+	checkRel(t, "supply current", r.SupplyCurrent["vcc"], (v0-vs)/zs, 1e-6)
+	checkKCL(t, b.c, r, 1e-9)
+}

@@ -225,3 +225,17 @@ func TestNoNets(t *testing.T) {
 		t.Errorf("%+v", r)
 	}
 }
+
+// A supply straight across a base-emitter junction has no bounded model
+// current (IS·e^(12 V/VT)); Solve must say so and name the transistor rather
+// than iterate.
+func TestOverdrivenJunction(t *testing.T) {
+	c := newCircuit(25).supply("vcc", 12, 0).
+		res("RC", "vcc", "coll", 1e3).
+		npn("Q1", "coll", "vcc", "gnd", npn3904()).c
+	f := mustFail(t, c, Overdriven)
+	mentions(t, f, "Q1", "base-emitter")
+	if f.Part != "Q1" {
+		t.Errorf("part %q, want Q1", f.Part)
+	}
+}

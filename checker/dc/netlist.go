@@ -41,13 +41,21 @@ type conductance struct {
 	g    float64
 }
 
-// source is a branch whose voltage is fixed: V(p) − V(m) = e. Its current,
-// unknown number row, flows from p through the branch to m.
+// source is a branch whose current is an unknown of its own (number row),
+// flowing from p through the branch to m: V(p) − V(m) − r·I = e. It models an
+// ideal or nearly ideal supply, a zero-resistance winding (r = e = 0), and
+// any resistance below branchBelow: stamping 1 mΩ as 1000 S on the diagonal
+// would drown the 1e-12 S that is all that holds a floating cluster of such
+// parts, while as a branch it keeps every node row well scaled.
 type source struct {
 	p, m int
 	e    float64 // V at full source strength (0 for a short)
+	r    float64 // Ω, series resistance (0 for an ideal source or short)
 	row  int
 }
+
+// branchBelow is the resistance under which a part becomes a branch.
+const branchBelow = 1.0 // Ω
 
 // norton is the current a supply behind an impedance injects into its net at
 // full source strength.
@@ -84,8 +92,9 @@ type netlist struct {
 	nortons []norton
 	bjts    []bjt
 	// what each branch row belongs to, for messages: a part ref, REF.WINDING,
-	// or "supply NET".
+	// "REF:a" or "REF:b" for a potentiometer section, or "supply NET".
 	branchOwner []string
+	branchOf    map[string]int // owner → unknown index of its current
 }
 
 func invalid(part, format string, args ...any) *Failure {
@@ -98,7 +107,7 @@ func finite(x float64) bool { return !math.IsNaN(x) && !math.IsInf(x, 0) }
 
 // compile builds the index form of c and checks the zero-resistance topology.
 func compile(c *circuit.Circuit) (*netlist, *Failure) {
-	nl := &netlist{index: map[string]int{}}
+	nl := &netlist{index: map[string]int{}, branchOf: map[string]int{}}
 	nl.tempC = c.Ambient.Nominal
 	if !finite(nl.tempC) || nl.tempC+zeroC <= 0 {
 		return nil, &Failure{Reason: fmt.Sprintf("ambient %g °C is not a temperature", nl.tempC), Cause: Invalid}
@@ -116,9 +125,19 @@ func compile(c *circuit.Circuit) (*netlist, *Failure) {
 		return nl.index[net]
 	}
 	shorts := newShortFinder(nl.nodes)
-	addBranch := func(p, m int, e float64, owner string) {
-		nl.sources = append(nl.sources, source{p: p, m: m, e: e, row: nl.nodes + len(nl.sources)})
+	addBranch := func(p, m int, e, r float64, owner string) {
+		row := nl.nodes + len(nl.sources)
+		nl.sources = append(nl.sources, source{p: p, m: m, e: e, r: r, row: row})
 		nl.branchOwner = append(nl.branchOwner, owner)
+		nl.branchOf[owner] = row
+	}
+	// resistive adds r between a and b, as a conductance or, when small, a branch.
+	resistive := func(a, b int, r float64, owner string) {
+		if r < branchBelow {
+			addBranch(a, b, 0, r, owner)
+			return
+		}
+		nl.conds = append(nl.conds, conductance{a, b, 1 / r})
 	}
 
 	for _, s := range c.Supplies {
@@ -131,10 +150,14 @@ func compile(c *circuit.Circuit) (*netlist, *Failure) {
 		}
 		n := node(s.Net)
 		if s.Impedance == 0 {
-			if f := shorts.add(n, gnd, owner, true); f != nil {
-				return nil, f.failure(nl)
+			if f := shorts.add(n, gnd, s.Volts, owner, true); f != nil {
+				return nil, f.failure(nl.names)
 			}
-			addBranch(n, gnd, s.Volts, owner)
+			addBranch(n, gnd, s.Volts, 0, owner)
+			continue
+		}
+		if s.Impedance < branchBelow {
+			addBranch(n, gnd, s.Volts, s.Impedance, owner)
 			continue
 		}
 		nl.conds = append(nl.conds, conductance{n, gnd, 1 / s.Impedance})
@@ -170,11 +193,11 @@ func compile(c *circuit.Circuit) (*netlist, *Failure) {
 			if !positive(p.Value) {
 				return nil, invalid(p.Ref, "resistance %g Ω", p.Value)
 			}
-			nl.conds = append(nl.conds, conductance{node(p.Nets[0]), node(p.Nets[1]), 1 / p.Value})
+			resistive(node(p.Nets[0]), node(p.Nets[1]), p.Value, p.Ref)
 		case circuit.Capacitor:
 			// open at DC
 		case circuit.Inductor:
-			if err := nl.addDCR(shorts, p.Ref, node(p.Nets[0]), node(p.Nets[1]), p.Resistance, addBranch); err != nil {
+			if err := addDCR(shorts, nl.names, p.Ref, node(p.Nets[0]), node(p.Nets[1]), p.Resistance, resistive, addBranch); err != nil {
 				return nil, err
 			}
 		case circuit.Transformer:
@@ -182,7 +205,7 @@ func compile(c *circuit.Circuit) (*netlist, *Failure) {
 				if w == nil {
 					continue
 				}
-				if err := nl.addDCR(shorts, p.Ref+"."+w.Name, node(w.Nets[0]), node(w.Nets[1]), w.Resistance, addBranch); err != nil {
+				if err := addDCR(shorts, nl.names, p.Ref+"."+w.Name, node(w.Nets[0]), node(w.Nets[1]), w.Resistance, resistive, addBranch); err != nil {
 					return nil, err
 				}
 			}
@@ -192,7 +215,8 @@ func compile(c *circuit.Circuit) (*netlist, *Failure) {
 				return nil, invalid(p.Ref, "value %g Ω at setting %g", p.Value, p.Setting)
 			}
 			w := node(p.Nets[1])
-			nl.conds = append(nl.conds, conductance{node(p.Nets[0]), w, 1 / ra}, conductance{w, node(p.Nets[2]), 1 / rb})
+			resistive(node(p.Nets[0]), w, ra, p.Ref+":a")
+			resistive(w, node(p.Nets[2]), rb, p.Ref+":b")
 		case circuit.NPN, circuit.PNP:
 			q, f := newBJT(p, nl.tempC, nl.vt)
 			if f != nil {
@@ -205,23 +229,27 @@ func compile(c *circuit.Circuit) (*netlist, *Failure) {
 		}
 	}
 	nl.size = nl.nodes + len(nl.sources)
+	if f := shorts.forcedJunction(nl); f != nil {
+		return nil, f
+	}
 	return nl, nil
 }
 
 // addDCR adds an inductor or winding: its resistance, or a 0 V branch when it
 // has none (so that its current is an unknown of its own).
-func (nl *netlist) addDCR(sf *shortFinder, owner string, a, b int, r float64, addBranch func(p, m int, e float64, owner string)) *Failure {
+func addDCR(sf *shortFinder, names []string, owner string, a, b int, r float64,
+	resistive func(a, b int, r float64, owner string), addBranch func(p, m int, e, r float64, owner string)) *Failure {
 	if !(r >= 0) || math.IsInf(r, 0) {
 		return invalid(owner, "DC resistance %g Ω", r)
 	}
 	if r > 0 {
-		nl.conds = append(nl.conds, conductance{a, b, 1 / r})
+		resistive(a, b, r, owner)
 		return nil
 	}
-	if f := sf.add(a, b, owner, false); f != nil {
-		return f.failure(nl)
+	if f := sf.add(a, b, 0, owner, false); f != nil {
+		return f.failure(names)
 	}
-	addBranch(a, b, 0, owner)
+	addBranch(a, b, 0, 0, owner)
 	return nil
 }
 
@@ -266,6 +294,7 @@ type shortFinder struct {
 
 type shortEdge struct {
 	a, b   int
+	emf    float64 // V(a) − V(b), fixed by the edge
 	owner  string
 	supply bool
 }
@@ -299,8 +328,8 @@ func (s *shortFinder) find(i int) int {
 }
 
 // add records an edge, or returns the loop it closes.
-func (s *shortFinder) add(a, b int, owner string, supply bool) *shortLoop {
-	e := shortEdge{s.slot(a), s.slot(b), owner, supply}
+func (s *shortFinder) add(a, b int, emf float64, owner string, supply bool) *shortLoop {
+	e := shortEdge{s.slot(a), s.slot(b), emf, owner, supply}
 	ra, rb := s.find(e.a), s.find(e.b)
 	if ra == rb {
 		path := s.path(e.a, e.b)
@@ -358,7 +387,7 @@ func (s *shortFinder) path(a, b int) []shortEdge {
 }
 
 // failure words the loop for the user.
-func (l *shortLoop) failure(nl *netlist) *Failure {
+func (l *shortLoop) failure(names []string) *Failure {
 	var supplies, parts []string
 	for _, e := range l.edges {
 		if e.supply {
@@ -382,8 +411,8 @@ func (l *shortLoop) failure(nl *netlist) *Failure {
 		if len(parts) == 1 {
 			f.Reason = parts[0] + " has both ends on one net and no DC resistance, so its DC current is undefined; give it a resistance"
 		}
-		if e := l.edges[0]; e.a < len(nl.names) {
-			f.Net = nl.names[e.a]
+		if e := l.edges[0]; e.a < len(names) {
+			f.Net = names[e.a]
 		}
 	case 1:
 		f.Net = supplies[0]
@@ -397,4 +426,67 @@ func (l *shortLoop) failure(nl *netlist) *Failure {
 		f.Reason = "supplies " + strings.Join(supplies, " and ") + " are shorted together" + through
 	}
 	return f
+}
+
+// potentials gives every slot its voltage relative to the root of its
+// zero-resistance component (differences within a component are fixed by
+// the sources on it; between components they mean nothing).
+func (s *shortFinder) potentials() []float64 {
+	pot := make([]float64, len(s.parent))
+	seen := make([]bool, len(s.parent))
+	adj := make([][]int, len(s.parent)) // slot → indices of its edges
+	for i, e := range s.edges {
+		adj[e.a] = append(adj[e.a], i)
+		adj[e.b] = append(adj[e.b], i)
+	}
+	for root := range pot {
+		if seen[root] {
+			continue
+		}
+		seen[root] = true
+		stack := []int{root}
+		for len(stack) > 0 {
+			v := stack[len(stack)-1]
+			stack = stack[:len(stack)-1]
+			for _, i := range adj[v] {
+				e := s.edges[i]
+				w, p := e.b, pot[v]-e.emf
+				if e.b == v {
+					w, p = e.a, pot[v]+e.emf
+				}
+				if !seen[w] {
+					seen[w], pot[w] = true, p
+					stack = append(stack, w)
+				}
+			}
+		}
+	}
+	return pot
+}
+
+// forcedJunction finds a transistor junction held forward by supplies and
+// zero-resistance parts alone, at more than the model can carry (expMax·VT):
+// its current would be unbounded, and no iteration can find it.
+func (s *shortFinder) forcedJunction(nl *netlist) *Failure {
+	if len(s.edges) == 0 {
+		return nil
+	}
+	pot := s.potentials()
+	for _, q := range nl.bjts {
+		b := s.slot(q.b)
+		for _, j := range []struct {
+			name  string
+			other int
+		}{{"base-emitter", s.slot(q.e)}, {"base-collector", s.slot(q.c)}} {
+			if s.find(b) != s.find(j.other) {
+				continue
+			}
+			if v := q.pol * (pot[b] - pot[j.other]); v > expMax*nl.vt {
+				return &Failure{Cause: Overdriven, Part: q.ref, Parts: []string{q.ref},
+					Reason: fmt.Sprintf("the %s junction of %s is held forward at %.3g V by supplies and zero-resistance parts alone, "+
+						"so nothing limits its current", j.name, q.ref, v)}
+			}
+		}
+	}
+	return nil
 }

@@ -79,6 +79,10 @@ const (
 	Singular Cause = "singular"
 	// NoConvergence: Newton iteration and both fall-backs failed.
 	NoConvergence Cause = "no-convergence"
+	// Overdriven: a junction is forward-biased by a path with (next to) no
+	// resistance, e.g. a supply straight across base and emitter, so the
+	// model's current has no bound.
+	Overdriven Cause = "overdriven"
 	// Invalid: a value the loader should have rejected (zero resistance,
 	// missing transistor figures, wrong number of nets).
 	Invalid Cause = "invalid"

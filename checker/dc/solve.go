@@ -3,6 +3,7 @@ package dc
 import (
 	"fmt"
 	"math"
+	"slices"
 	"strings"
 
 	"headroom/checker/circuit"
@@ -37,6 +38,7 @@ func Solve(c *circuit.Circuit) (*Result, error) {
 	o := s.newton(1, 0, maxNewton, true)
 	method := "newton"
 	if o == diverged {
+		s.firstTry = append([]float64(nil), s.x...)
 		method = "gmin-stepping"
 		o = s.gminStepping()
 	}
@@ -46,11 +48,38 @@ func Solve(c *circuit.Circuit) (*Result, error) {
 	}
 	switch o {
 	case singular:
+		if f := nl.overdriven(s.x); f != nil {
+			return nil, f
+		}
 		return nil, s.singularFailure()
 	case diverged:
 		return nil, s.convergenceFailure()
 	}
+	if f := nl.overdriven(s.x); f != nil {
+		return nil, f
+	}
 	return nl.result(c, s.x, s.iters, method)
+}
+
+// overdriven finds a junction pushed past the range where the exponential
+// is evaluated exactly (expMax·VT, about 2 V at 25 °C): the solution there is
+// the tangent continuation's, not the model's, and the model's current would
+// be unbounded.
+func (nl *netlist) overdriven(x []float64) *Failure {
+	for _, q := range nl.bjts {
+		vb := volt(x, q.b)
+		for _, j := range []struct {
+			name string
+			v    float64
+		}{{"base-emitter", q.pol * (vb - volt(x, q.e))}, {"base-collector", q.pol * (vb - volt(x, q.c))}} {
+			if j.v > expMax*nl.vt {
+				return &Failure{Cause: Overdriven, Part: q.ref, Parts: []string{q.ref},
+					Reason: fmt.Sprintf("the %s junction of %s is forward-biased by %.3g V with nothing to limit its current "+
+						"(a supply across it, directly or through other junctions)", j.name, q.ref, j.v)}
+			}
+		}
+	}
+	return nil
 }
 
 func (s *solver) singularFailure() *Failure {
@@ -71,6 +100,14 @@ func (s *solver) singularFailure() *Failure {
 }
 
 func (s *solver) convergenceFailure() *Failure {
+	for _, x := range [][]float64{s.x, s.firstTry} {
+		if x == nil {
+			continue
+		}
+		if f := s.nl.overdriven(x); f != nil {
+			return f
+		}
+	}
 	var refs []string
 	for _, q := range s.nl.bjts {
 		if q.limited || !(q.moved <= 1e-6) {
@@ -83,14 +120,45 @@ func (s *solver) convergenceFailure() *Failure {
 		}
 	}
 	f := &Failure{Cause: NoConvergence, Parts: refs}
+	f.Reason = "no DC operating point found (Newton, gmin stepping and source stepping all failed)"
 	if len(refs) > 0 {
 		f.Part = refs[0]
-		f.Reason = "no DC operating point found (Newton, gmin stepping and source stepping all failed): " +
-			"the junctions of " + strings.Join(refs, ", ") + " did not settle"
-	} else {
-		f.Reason = "no DC operating point found (Newton, gmin stepping and source stepping all failed)"
+		f.Reason += ": the junctions of " + strings.Join(refs, ", ") + " did not settle"
+	}
+	if net := s.nl.floatingTerminal(refs); net != "" {
+		f.Net = net
+		f.Reason += "; net " + net + " has no DC path to a supply or gnd except through transistor junctions"
 	}
 	return f
+}
+
+// floatingTerminal returns the first terminal net of the named transistors
+// that reaches neither gnd nor a supply through resistive parts and sources:
+// the usual reason iteration cannot settle (only the 1e-12 S aid holds it).
+func (nl *netlist) floatingTerminal(refs []string) string {
+	sf := newShortFinder(nl.nodes)
+	join := func(a, b int) {
+		ra, rb := sf.find(sf.slot(a)), sf.find(sf.slot(b))
+		sf.parent[ra] = rb
+	}
+	for _, c := range nl.conds {
+		join(c.a, c.b)
+	}
+	for _, v := range nl.sources {
+		join(v.p, v.m)
+	}
+	ground := sf.find(sf.slot(gnd))
+	for _, q := range nl.bjts {
+		if !slices.Contains(refs, q.ref) {
+			continue
+		}
+		for _, t := range []int{q.c, q.b, q.e} {
+			if t != gnd && sf.find(t) != ground {
+				return nl.names[t]
+			}
+		}
+	}
+	return ""
 }
 
 // result evaluates every part at the solution x.
@@ -115,25 +183,23 @@ func (nl *netlist) result(c *circuit.Circuit, x []float64, iters int, method str
 	for i, name := range nl.names {
 		r.V[name] = x[i]
 	}
-	branch := 0 // sources were compiled in the order walked below
+	// through is the current from a to b of a part of resistance res: its
+	// branch current when it has one, else Ohm's law.
+	through := func(owner, a, b string, res float64) float64 {
+		if row, ok := nl.branchOf[owner]; ok {
+			return x[row]
+		}
+		return (v(a) - v(b)) / res
+	}
 	for _, s := range c.Supplies {
 		if s == nil {
 			continue
 		}
-		if s.Impedance == 0 {
-			r.SupplyCurrent[s.Net] = -x[nl.sources[branch].row]
-			branch++
+		if row, ok := nl.branchOf["supply "+s.Net]; ok {
+			r.SupplyCurrent[s.Net] = -x[row]
 		} else {
 			r.SupplyCurrent[s.Net] = (s.Volts - v(s.Net)) / s.Impedance
 		}
-	}
-	dcr := func(a, b string, res float64) float64 {
-		if res > 0 {
-			return (v(a) - v(b)) / res
-		}
-		i := x[nl.sources[branch].row]
-		branch++
-		return i
 	}
 	k := 0 // transistors in compile order
 	for _, p := range c.Parts {
@@ -142,25 +208,26 @@ func (nl *netlist) result(c *circuit.Circuit, x []float64, iters int, method str
 		}
 		switch p.Kind {
 		case circuit.Resistor:
-			vab := v(p.Nets[0]) - v(p.Nets[1])
-			r.Parts[p.Ref] = &Part{Current: vab / p.Value, Power: vab * vab / p.Value}
+			i := through(p.Ref, p.Nets[0], p.Nets[1], p.Value)
+			r.Parts[p.Ref] = &Part{Current: i, Power: i * i * p.Value}
 		case circuit.Capacitor:
 			r.Parts[p.Ref] = &Part{Voltage: math.Abs(v(p.Nets[0]) - v(p.Nets[1]))}
 		case circuit.Inductor:
-			r.Parts[p.Ref] = &Part{Current: dcr(p.Nets[0], p.Nets[1], p.Resistance)}
+			r.Parts[p.Ref] = &Part{Current: through(p.Ref, p.Nets[0], p.Nets[1], p.Resistance)}
 		case circuit.Transformer:
 			w := make(map[string]float64, len(p.Windings))
 			for _, wd := range p.Windings {
 				if wd != nil {
-					w[wd.Name] = dcr(wd.Nets[0], wd.Nets[1], wd.Resistance)
+					w[wd.Name] = through(p.Ref+"."+wd.Name, wd.Nets[0], wd.Nets[1], wd.Resistance)
 				}
 			}
 			r.Parts[p.Ref] = &Part{Windings: w}
 		case circuit.Potentiometer:
 			ra, rb, _ := potSections(p)
-			va, vw, vb := v(p.Nets[0]), v(p.Nets[1]), v(p.Nets[2])
-			sa := Section{R: ra, Current: (va - vw) / ra, Power: (va - vw) * (va - vw) / ra}
-			sb := Section{R: rb, Current: (vw - vb) / rb, Power: (vw - vb) * (vw - vb) / rb}
+			ia := through(p.Ref+":a", p.Nets[0], p.Nets[1], ra)
+			ib := through(p.Ref+":b", p.Nets[1], p.Nets[2], rb)
+			sa := Section{R: ra, Current: ia, Power: ia * ia * ra}
+			sb := Section{R: rb, Current: ib, Power: ib * ib * rb}
 			r.Parts[p.Ref] = &Part{Power: sa.Power + sb.Power, Sections: [2]Section{sa, sb}}
 		case circuit.NPN, circuit.PNP:
 			q := &nl.bjts[k]
