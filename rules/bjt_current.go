@@ -62,6 +62,6 @@ func currentFix(p *engine.Pass, part *circuit.Part, q *dc.BJT, maxLoad float64) 
 		return deviceFix(p, part, ch, fmt.Sprintf("(ic_max %s) brings the load to %s",
 			quantity.Approx(ch.Params.ICMax, quantity.Ampere), pct(ch.Metric)))
 	}
-	return noDevice(part, blocked) + fmt.Sprintf("run %s at no more than %s collector current",
+	return noDevice(part, blocked) + fmt.Sprintf("hold %s's collector current to %s",
 		part.Ref, icAdvice(p, part.Ref, q.IC, maxLoad*part.BJT.ICMax)), nil
 }

@@ -85,7 +85,7 @@ func dissipationFix(p *engine.Pass, part *circuit.Part, q *dc.BJT, der, maxLoad 
 	// this case, expressed at nominal in proportion.
 	allowed := maxLoad * b.PD * der / (q.VCE + q.VBE/q.HFE)
 	pdNeed := roundUp3(q.Power / (maxLoad * der))
-	return noDevice(part, blocked) + fmt.Sprintf("run %s at no more than %s collector current at its present VCE, "+
+	return noDevice(part, blocked) + fmt.Sprintf("hold %s's collector current to %s at its present VCE, "+
 		"or use a transistor with pd of at least %s at 25 °C and tj_max %s", part.Ref,
 		icAdvice(p, part.Ref, q.IC, allowed), quantity.Approx(pdNeed, quantity.Watt), temp(b.TjMax)), nil
 }

@@ -16,7 +16,14 @@ import (
 // moves the operating point (its hFE and VBE set IC), so each candidate is
 // judged on a fresh DC solution of the case, across its own hFE range in a
 // worst-case run, and must also stay inside its absolute ratings, so that a
-// fix for one limit does not break another.
+// fix for one limit does not break another. Nor may a candidate give away
+// gain at the top of the band: its ft must reach the present device's, or
+// ftGuard times the highest band frequency, whichever is lower.
+
+// ftGuard is ft ÷ highest band frequency that a proposed device keeps at
+// least (unless the present device has less): the "comfortable for HF gain
+// stages" figure of bjt.ft-headroom (common practice).
+const ftGuard = 10
 
 // deviceChoice is a library transistor proposed in place of a part's device.
 type deviceChoice struct {
@@ -138,7 +145,8 @@ func distance(a, b *circuit.BJTParams) float64 {
 // need none). A candidate counts only when, at every hFE of its range in a
 // worst-case run (its nominal hFE otherwise), the stage stays in its active
 // region, meets the rule, and stays inside the candidate's absolute ratings
-// (IC, dissipation at the ambient, the DC span against vceo).
+// (IC, dissipation at the ambient, the DC span against vceo), and keeps
+// its ft as the package comment says.
 //
 // needs lists the figures the metric depends on; when one of them is written
 // inline in the circuit file, no device change can move it, and swapDevice
@@ -168,7 +176,7 @@ func swapDevice(p *engine.Pass, part *circuit.Part, needs []string, limit float6
 			continue
 		}
 		b := withInline(t, nominal.BJT, inline)
-		if !loadable(&b) {
+		if !loadable(&b) || b.FT < math.Min(nominal.BJT.FT, ftGuard*p.Circuit.Band[1]) {
 			continue
 		}
 		m, ok := judgeDevice(p, part, name, b, limit, cmp, metric)

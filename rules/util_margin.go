@@ -87,7 +87,7 @@ func runsHot(absolute float64) string {
 // case's ambient: no metric, always an error (FORMAT.md §6).
 func zeroRating(p *engine.Pass, ref, what string, ambient, zero float64, fix string) {
 	p.Report(engine.Finding{Part: ref, Absolute: 2,
-		Message: fmt.Sprintf("%s's %s rating is zero at %s ambient (it falls to zero at %s): any dissipation overloads it",
+		Message: fmt.Sprintf("%s's %s rating is zero at %s ambient (its derating reaches zero at %s): any dissipation overloads it",
 			ref, what, temp(ambient), temp(zero)),
 		Fix: fix})
 }
