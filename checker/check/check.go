@@ -160,6 +160,7 @@ func (r *Runner) judge(c *circuit.Circuit, cfg *engine.Config) ([]engine.Finding
 		if !f.Failing() {
 			continue
 		}
+		f.ResolveFix()
 		f.Severity = cfg.Severity[f.Rule]
 		if f.Absolute > 1 {
 			f.Severity = engine.Error

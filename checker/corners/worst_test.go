@@ -8,7 +8,9 @@ import (
 	"headroom/checker/analysis"
 	"headroom/checker/circuit"
 	"headroom/checker/engine"
+	"headroom/checker/ruleset"
 	"headroom/checker/topology"
+	"headroom/rules"
 )
 
 // probe rules measure monotonic figures of the operating point, so that the
@@ -211,17 +213,25 @@ func TestCornerListsOnlyMovers(t *testing.T) {
 	}
 }
 
+// BenchmarkWorst times the worst-case search with every rule of the default
+// set on amplifiers of about 10, 30, 100 and 300 parts.
 func BenchmarkWorst(b *testing.B) {
-	for _, stages := range []int{1, 5, 16, 50} {
+	all := rules.All()
+	set, err := (&ruleset.Loader{Rules: all}).Load("default")
+	if err != nil {
+		b.Fatal(err)
+	}
+	cfg := set.Config(all)
+	for _, stages := range []int{2, 5, 16, 50} {
 		c := testCircuit(stages)
-		b.Run(fmt.Sprintf("%dparts", len(c.Parts)), func(b *testing.B) {
-			cfg := config(probes())
+		b.Run(fmt.Sprintf("parts=%d", len(c.Parts)), func(b *testing.B) {
 			topo := topology.Analyze(c)
 			for b.Loop() {
 				if _, err := Worst(c, topo, analysis.Run(c, topo), cfg); err != nil {
 					b.Fatal(err)
 				}
 			}
+			b.ReportMetric(float64(len(Box(c))), "params")
 		})
 	}
 }

@@ -31,7 +31,7 @@ func Evaluate(cs *analysis.Case, nominal *analysis.Case, cfg *Config) ([]Finding
 	}
 	var all []Finding
 	for _, r := range cfg.Rules {
-		if r.Run == nil || !cfg.Enabled(r) || r.NeedsCorners && !worst {
+		if r.Run == nil || !cfg.Enabled(r) || r.NeedsCorners && !worst || r.Static && cs != nominal {
 			continue
 		}
 		p := &Pass{Circuit: cs.Circuit, A: cs, Params: cfg.Params[r.ID], Corners: worst,

@@ -51,6 +51,10 @@ type Finding struct {
 
 	Fix     string   // always present on a failing finding
 	Changes []Change // the file edits that make the fix, when it is concrete
+	// FixLater computes Fix and Changes when they are costly (a fix that
+	// solves the circuit again): the engine calls it once, for a finding
+	// that fails at the case finally reported, instead of at every corner.
+	FixLater func() (string, []Change)
 
 	// Engine-filled.
 	Severity   Severity
@@ -65,6 +69,16 @@ type Change struct {
 	Part string `json:"part"`
 	Key  string `json:"key"`
 	To   string `json:"to"`
+}
+
+// ResolveFix fills Fix and Changes from FixLater, once.
+func (f *Finding) ResolveFix() {
+	if f.FixLater != nil {
+		if f.Fix == "" {
+			f.Fix, f.Changes = f.FixLater()
+		}
+		f.FixLater = nil
+	}
 }
 
 // Failing reports whether the finding fails its rule: always for an item

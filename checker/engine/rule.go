@@ -21,6 +21,10 @@ type Rule struct {
 	Run func(*Pass) error
 	// NeedsCorners marks a rule judged only with worst-case corners (bias.drift).
 	NeedsCorners bool
+	// Static marks a rule that judges the file as written (preferred values,
+	// core bands): its items are the same at every corner, so a worst-case
+	// search runs it once, at nominal.
+	Static bool
 	// HoldSupplies keeps every supply at nominal when the worst case is
 	// searched for this rule's items (bias.drift: a supply's own range moves
 	// IC by design).
