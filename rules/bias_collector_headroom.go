@@ -48,10 +48,10 @@ func runCollectorHeadroom(p *engine.Pass) error {
 		if q == nil || tb == nil {
 			continue
 		}
+		m, l := approx2(q.VCEf, minV, quantity.Volt)
 		f := engine.Finding{Part: part.Ref,
 			HasMetric: true, Measured: q.VCEf, Limit: minV, Comparison: ">=", Unit: "V",
-			Message: fmt.Sprintf("%s has %s from collector to emitter, needs at least %s", part.Ref,
-				quantity.Approx(q.VCEf, quantity.Volt), quantity.Approx(minV, quantity.Volt))}
+			Message: fmt.Sprintf("%s has %s from collector to emitter, needs at least %s", part.Ref, m, l)}
 		if engine.Fails(q.VCEf, minV, ">=") {
 			f.Fix, f.Changes = headroomFix(p, tb, minV)
 		}

@@ -7,6 +7,7 @@ import (
 	"headroom/checker/dc"
 	"headroom/checker/engine"
 	"headroom/checker/eseries"
+	"headroom/checker/quantity"
 )
 
 // Helpers shared by the bias rules (bias.divider-stiffness,
@@ -177,4 +178,16 @@ func opposite(p *engine.Pass, values map[string]float64) (*dc.Result, bool) {
 		return nil, false
 	}
 	return op, true
+}
+
+// approx2 writes a measured value and its limit to three significant figures,
+// or more (up to six) where three would print them alike: "1.3769 V" against
+// "1.377 V", not "1.38 V" against "1.38 V".
+func approx2(a, b float64, u quantity.Unit) (string, string) {
+	for n := 3; ; n++ {
+		x, y := quantity.Format(quantity.Round(a, n), u), quantity.Format(quantity.Round(b, n), u)
+		if x != y || n == 6 || a == b {
+			return x, y
+		}
+	}
 }
