@@ -160,17 +160,24 @@ func (t *Table) Raw(key string) any { return t.m[key] }
 
 // Keys lists the table's keys in reading order.
 func (t *Table) Keys() []string {
-	keys := make([]string, 0, len(t.m))
-	for k := range t.m {
-		keys = append(keys, k)
+	type kp struct {
+		k string
+		p Pos
 	}
-	sort.Slice(keys, func(i, j int) bool {
-		pi, pj := t.KeyPos(keys[i]), t.KeyPos(keys[j])
-		if pi != pj {
-			return pi.Less(pj)
+	all := make([]kp, 0, len(t.m))
+	for k := range t.m {
+		all = append(all, kp{k, t.KeyPos(k)})
+	}
+	sort.Slice(all, func(i, j int) bool {
+		if all[i].p != all[j].p {
+			return all[i].p.Less(all[j].p)
 		}
-		return keys[i] < keys[j]
+		return all[i].k < all[j].k
 	})
+	keys := make([]string, len(all))
+	for i, x := range all {
+		keys[i] = x.k
+	}
 	return keys
 }
 
