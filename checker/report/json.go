@@ -43,7 +43,6 @@ type jsonDoc struct {
 	Version     int                       `json:"version"`
 	Circuit     string                    `json:"circuit"`
 	Temperature float64                   `json:"temperature"`
-	Corners     string                    `json:"corners"`
 	Error       string                    `json:"error,omitempty"`
 	Nets        map[string]float64        `json:"nets"`
 	Parts       map[string]map[string]any `json:"parts"`
@@ -53,11 +52,8 @@ type jsonDoc struct {
 // JSON writes the report as FORMAT.md §5's document.
 func (r *Report) JSON(w io.Writer) error {
 	c, cs := r.Circuit, r.Case
-	doc := jsonDoc{Version: 1, Circuit: c.Name, Temperature: c.Ambient.Nominal, Corners: "nominal",
+	doc := jsonDoc{Version: 1, Circuit: c.Name, Temperature: c.Ambient.Nominal,
 		Nets: map[string]float64{}, Parts: map[string]map[string]any{}, Band: []jsonBand{}}
-	if r.Ranges != nil {
-		doc.Corners = "worst"
-	}
 	if cs.OPErr != nil {
 		doc.Error = "no DC operating point: " + cs.OPErr.Error()
 	} else if cs.ACErr != nil {
