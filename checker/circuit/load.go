@@ -655,7 +655,11 @@ func (ld *loader) transistor(t *tomlfile.Table, p *Part) {
 		case t.Has("hfe"):
 			at = t.ValPos("hfe")
 		}
-		t.Errorf(at, "%s hfe_typ: %g lies outside hfe [%g, %g]", t.What, tr.HFETyp, tr.HFEMin, tr.HFEMax)
+		note := ""
+		if !t.Has("hfe_typ") {
+			note = fmt.Sprintf(" (hfe_typ from device %s: give hfe_typ inline too)", p.Device)
+		}
+		t.Errorf(at, "%s hfe_typ: %g lies outside hfe [%g, %g]%s", t.What, tr.HFETyp, tr.HFEMin, tr.HFEMax, note)
 	}
 	p.BJT = &BJTParams{FT: tr.FT, HFEMin: tr.HFEMin, HFEMax: tr.HFEMax, HFETyp: tr.HFETyp, VBE: tr.VBE,
 		ICRef: tr.ICRef, PD: tr.PD, TjMax: tr.TjMax, ICMax: tr.ICMax, VCEO: tr.VCEO, Cob: tr.Cob}

@@ -489,3 +489,34 @@ func BenchmarkLoad(b *testing.B) {
 		}
 	}
 }
+
+// hfe_typ from the library must still lie inside an hfe given inline; the
+// error points at the inline hfe (a club library with hfe_typ 150 here).
+func TestInlineHFEAgainstLibraryTyp(t *testing.T) {
+	files := map[string]string{"board/lib.toml": `[transistors.T1]
+polarity = "npn"
+ft = "300MHz"
+hfe = [100, 300]
+hfe_typ = 150
+vbe = "0.7V"
+ic_ref = "10mA"
+pd = "625mW"
+tj_max = "150C"
+ic_max = "200mA"
+vceo = "40V"
+`}
+	_, err := loadErr(`[circuit]
+name = "typ"
+band = ["7MHz", "7.2MHz"]
+library = ["lib.toml"]
+[parts.Q1]
+kind = "npn"
+device = "T1"
+hfe = [50, 100]
+nets = { collector = "c", base = "b", emitter = "e" }
+`, files, Options{})
+	var ie *InputError
+	if !errors.As(err, &ie) || ie.Pos.Line != 8 || ie.Pos.Col != 7 || !strings.Contains(ie.Msg, "hfe_typ from device T1") {
+		t.Errorf("got %v, want board/c.toml:8:7 naming the device", err)
+	}
+}
