@@ -93,60 +93,68 @@ func emitterFix(p *engine.Pass, tb *topology.BJT, lo, hi float64) (string, []eng
 	if len(ers) == 1 && otherNet(ers[0], tb.Emitter) == tb.ReturnRail {
 		re := ers[0]
 		nom := p.NominalCircuit.Part(re.Ref).Value
-		// The fraction rises with the emitter resistor: bisect two decades
-		// either side of the present value for the step that crosses a tenth.
+		// The fraction rises with the emitter resistor, at this case and at
+		// its opposite vertex (the one worst for the other bound); a fix must
+		// hold at both. The best value puts their mean at a tenth: bisect two
+		// decades either side of the present value for that crossing.
 		vals := append(reverse(e24Walk(nom, false, 49)), e24Walk(nom*1.0001, true, 48)...)
-		at := func(i int) (float64, bool) {
-			op2, ok := solveWith(p, map[string]float64{re.Ref: vals[i]})
-			if !ok {
-				return 0, false
+		type both struct{ c, o float64 }
+		memo := map[int]*both{}
+		at := func(i int) *both {
+			if r, ok := memo[i]; ok {
+				return r
 			}
-			return emitterFraction(op2, tb)
+			var r *both
+			values := map[string]float64{re.Ref: vals[i]}
+			if op2, ok := solveWith(p, values); ok {
+				if fc, ok := emitterFraction(op2, tb); ok {
+					if op3, ok := opposite(p, values); ok {
+						if fo, ok := emitterFraction(op3, tb); ok {
+							r = &both{fc, fo}
+						}
+					}
+				}
+			}
+			memo[i] = r
+			return r
 		}
+		mean := func(r *both) float64 { return (r.c + r.o) / 2 }
 		a, b := 0, len(vals)-1
-		fa, okA := at(a)
-		fb, okB := at(b)
-		if okA && okB && fa < emitterTarget && fb >= emitterTarget {
+		ra, rb := at(a), at(b)
+		if ra != nil && rb != nil && mean(ra) < emitterTarget && mean(rb) >= emitterTarget {
 			for b-a > 1 {
 				m := (a + b) / 2
-				fm, ok := at(m)
-				if !ok {
+				rm := at(m)
+				if rm == nil {
 					break
 				}
-				if fm >= emitterTarget {
-					b, fb = m, fm
+				if mean(rm) >= emitterTarget {
+					b = m
 				} else {
-					a, fa = m, fm
+					a = m
 				}
 			}
-			// The values either side of the crossing and their neighbours,
-			// each judged at this case and at its opposite vertex (the one
-			// worst for the other bound): the fix must hold at both.
-			best, bestErr, bestF := -1, math.Inf(1), 0.0
-			for i := a - 2; i <= b+2; i++ {
+			best, bestErr := -1, math.Inf(1)
+			for i := a - 1; i <= b+1; i++ {
 				if i < 0 || i >= len(vals) || vals[i] == nom {
 					continue
 				}
-				fc, ok := at(i)
-				if !ok || fc < lo || fc > hi {
+				r := at(i)
+				if r == nil || r.c < lo || r.c > hi || r.o < lo || r.o > hi {
 					continue
 				}
-				op2, ok := opposite(p, map[string]float64{re.Ref: vals[i]})
-				if !ok {
-					continue
-				}
-				fo, ok := emitterFraction(op2, tb)
-				if !ok || fo < lo || fo > hi {
-					continue
-				}
-				if e := max(math.Abs(fc-emitterTarget), math.Abs(fo-emitterTarget)); e < bestErr {
-					best, bestErr, bestF = i, e, fc
+				if e := max(math.Abs(r.c-emitterTarget), math.Abs(r.o-emitterTarget)); e < bestErr {
+					best, bestErr = i, e
 				}
 			}
 			if best >= 0 {
-				return fmt.Sprintf("%s = %s (E24) puts %s of the feed across the emitter", re.Ref,
-						quantity.Approx(vals[best], quantity.Ohm), quantity.Approx(bestF, quantity.Fraction)),
-					[]engine.Change{{Part: re.Ref, Key: "value", To: quantity.Code(vals[best], quantity.Ohm)}}
+				r := at(best)
+				text := fmt.Sprintf("%s = %s (E24) puts %s of the feed across the emitter", re.Ref,
+					quantity.Approx(vals[best], quantity.Ohm), quantity.Approx(r.c, quantity.Fraction))
+				if r.o != r.c {
+					text += fmt.Sprintf(" at this corner and %s at the opposite one", quantity.Approx(r.o, quantity.Fraction))
+				}
+				return text, []engine.Change{{Part: re.Ref, Key: "value", To: quantity.Code(vals[best], quantity.Ohm)}}
 			}
 		}
 	}
