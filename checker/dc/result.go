@@ -1,5 +1,3 @@
-// Package dc finds the DC operating point of a circuit by modified nodal
-// analysis with Newton iteration, exactly as FORMAT.md §6 defines the model.
 package dc
 
 // Result is the operating point at one case (nominal or a corner). All values

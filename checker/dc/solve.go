@@ -94,7 +94,8 @@ func (s *solver) singularFailure() *Failure {
 	if net, ok := strings.CutPrefix(owner, "supply "); ok {
 		f.Net = net
 	} else {
-		f.Part, f.Parts = owner, []string{owner}
+		ref, _, _ := strings.Cut(owner, ":") // a potentiometer section is REF:a or REF:b
+		f.Part, f.Parts = ref, []string{ref}
 	}
 	return f
 }
