@@ -40,6 +40,14 @@ var BiasDrift = &engine.Rule{
 	HoldSupplies: true,
 }
 
+// driftFloor is the relative change of IC below which a case counts as
+// nominal. The metric is zero at nominal, so the worst-case search would
+// otherwise take the last digits of the DC solution (a parameter with no
+// effect on IC, such as a collector resistor in a model without Early effect)
+// as a move. One part in 10⁶ of IC is FORMAT.md §6's own threshold for a
+// parameter that moves a metric, and ten times the DC solver's step tolerance.
+const driftFloor = 1e-6
+
 func runBiasDrift(p *engine.Pass) error {
 	op, nomOP := p.A.OP, p.Nominal.OP
 	if op == nil || nomOP == nil {
@@ -52,6 +60,9 @@ func runBiasDrift(p *engine.Pass) error {
 			continue
 		}
 		r := q.IC / qn.IC
+		if math.Abs(r-1) < driftFloor {
+			r = 1 // solver noise: a parameter that does not move IC must not enter the corner
+		}
 		way := "above"
 		if r < 1 {
 			way = "below"
