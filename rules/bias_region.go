@@ -34,6 +34,9 @@ func runBiasRegion(p *engine.Pass) error {
 	if cs.OPErr != nil {
 		part := ""
 		if f, ok := cs.OPErr.(*dc.Failure); ok {
+			if f.Cause == dc.Connectivity && len(p.A.Topo.Problems) > 0 {
+				return nil // a wiring fault: net.connectivity reports it (FORMAT.md §6)
+			}
 			part = f.Part
 		}
 		p.Report(engine.Finding{Part: part,
@@ -47,15 +50,17 @@ func runBiasRegion(p *engine.Pass) error {
 		if q == nil {
 			continue
 		}
+		// The forward-sense figures keep a reverse-conducting transistor
+		// counted as cut off, as its Region says.
 		p.Report(engine.Finding{Part: part.Ref, Bound: "cutoff",
-			HasMetric: true, Measured: q.IC, Limit: minIC, Comparison: ">=", Unit: "A",
+			HasMetric: true, Measured: q.ICf, Limit: minIC, Comparison: ">=", Unit: "A",
 			Message: fmt.Sprintf("%s is cut off: IC %s, needs at least %s", part.Ref,
-				quantity.Approx(q.IC, quantity.Ampere), quantity.Approx(minIC, quantity.Ampere)),
+				quantity.Approx(q.ICf, quantity.Ampere), quantity.Approx(minIC, quantity.Ampere)),
 			Fix: "raise the base voltage (a smaller upper divider leg or a larger lower leg) or lower the emitter resistance until the collector current flows"})
 		p.Report(engine.Finding{Part: part.Ref, Bound: "saturated",
-			HasMetric: true, Measured: q.VCE, Limit: minVCE, Comparison: ">=", Unit: "V",
+			HasMetric: true, Measured: q.VCEf, Limit: minVCE, Comparison: ">=", Unit: "V",
 			Message: fmt.Sprintf("%s is saturated: VCE %s, needs at least %s", part.Ref,
-				quantity.Approx(q.VCE, quantity.Volt), quantity.Approx(minVCE, quantity.Volt)),
+				quantity.Approx(q.VCEf, quantity.Volt), quantity.Approx(minVCE, quantity.Volt)),
 			Fix: "lower the collector-feed resistance or the base voltage, or raise the emitter resistance, so that VCE sits near half the supply"})
 	}
 	return nil
