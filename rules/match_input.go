@@ -100,9 +100,11 @@ func matchAdvice(p *engine.Pass, port *circuit.Port, b ac.BandPoint) string {
 	fmt.Fprintf(&out, "Zin is %s at %s against the %s source", complexOhms(zin),
 		quantity.Approx(f, quantity.Hertz), quantity.Approx(rs, quantity.Ohm))
 	if real(zin) < 0 {
-		out.WriteString(" — a negative input resistance: the stage may oscillate; look for feedback through " +
-			"the collector–base capacitance into an inductive collector load, and damp it (a resistor across " +
-			"the collector load, or a lower-gain stage) before matching")
+		out.WriteString(" — a negative input resistance: the stage may oscillate. The usual causes are a " +
+			"capacitive load on an emitter (well above the beta cut-off, beta times a capacitive emitter " +
+			"impedance is a negative resistance) and an inductive collector load fed back through the " +
+			"collector–base capacitance; damp it (a small resistor in series with the base or the emitter " +
+			"load, a resistor across the collector load) before matching")
 	}
 	if zin == 0 {
 		return out.String()
@@ -168,7 +170,7 @@ func matchAdvice(p *engine.Pass, port *circuit.Port, b ac.BandPoint) string {
 			if yq := 1/zall - 1/zbias; yq != 0 {
 				fmt.Fprintf(&out, " and %s's own input (β·re with Cπ, its emitter circuit reflected) %s", tp.Ref, complexOhms(1/yq))
 				if real(1/yq) < 0 {
-					out.WriteString(", a negative resistance (feedback through the collector–base capacitance)")
+					out.WriteString(", a negative resistance")
 				}
 			}
 		}
