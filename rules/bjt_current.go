@@ -47,7 +47,7 @@ func runBJTCurrent(p *engine.Pass) error {
 				quantity.Approx(q.IC, quantity.Ampere), pct(load), quantity.Approx(b.ICMax, quantity.Ampere),
 				pct(maxLoad), runsHot(load))}
 		if engine.Fails(load, maxLoad, "<=") {
-			f.Fix, f.Changes = currentFix(p, part, q, maxLoad)
+			f.FixLater = func() (string, []engine.Change) { return currentFix(p, part, q, maxLoad) }
 		}
 		p.Report(f)
 	}

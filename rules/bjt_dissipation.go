@@ -64,7 +64,7 @@ func runBJTDissipation(p *engine.Pass) error {
 		f := engine.Finding{Part: part.Ref, HasMetric: true, Measured: load, Limit: maxLoad,
 			Comparison: "<=", Unit: "fraction", Absolute: load, Message: msg}
 		if engine.Fails(load, maxLoad, "<=") {
-			f.Fix, f.Changes = dissipationFix(p, part, q, der, maxLoad)
+			f.FixLater = func() (string, []engine.Change) { return dissipationFix(p, part, q, der, maxLoad) }
 		}
 		p.Report(f)
 	}

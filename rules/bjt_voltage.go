@@ -20,8 +20,9 @@ var BJTVoltage = &engine.Rule{
 		Formula: "peak ÷ vceo <= max_load (unit fraction); peak = |EMF(feed rail) − EMF(return rail)|, × inductive_swing when a " +
 			"DC path from the collector to a rail, not passing through the transistor's own base or emitter nets, contains " +
 			"an inductor or winding. The DC span alone ÷ vceo above 1 (past the absolute rating) is always an error.",
-		Source: "the swing of an inductively fed collector to about twice the supply is the textbook result for a choke or " +
-			"transformer load (the inductor's mean voltage is zero); the 75 % load is common practice, as strict as or " +
+		Source: "the swing of an inductively fed collector to about twice the supply is the standard result for a choke or " +
+			"transformer load (an inductor holds no DC voltage on average; from memory, no page cited); the 75 % load is " +
+			"common practice, as strict as or " +
 			"stricter than published reliability derating guidance (e.g. NASA EEE-INST-002, values from memory, not confirmed)",
 		Fix: "change device to the library transistor of the same polarity that meets the rule with the least change in its " +
 			"other figures; where none does, the minimum VCEO (or a lower supply)",
@@ -58,7 +59,7 @@ func runBJTVoltage(p *engine.Pass) error {
 		f := engine.Finding{Part: part.Ref, HasMetric: true, Measured: load, Limit: maxLoad,
 			Comparison: "<=", Unit: "fraction", Absolute: absolute, Message: msg}
 		if engine.Fails(load, maxLoad, "<=") {
-			f.Fix, f.Changes = voltageFix(p, part, peak, maxLoad)
+			f.FixLater = func() (string, []engine.Change) { return voltageFix(p, part, peak, maxLoad) }
 		}
 		p.Report(f)
 	}
