@@ -134,3 +134,12 @@ nets = ["vcc", "emit"]
 		t.Errorf("PNP: %q %+v", f.Fix, f.Changes)
 	}
 }
+
+// The device swap solves the circuit again for every candidate and hFE: this
+// measures one worst-case judgement of a failing stage with its fix.
+func BenchmarkBJTDissipationWorstWithFix(b *testing.B) {
+	src := followerSrc("20 m buffer, hot 2N5179", "2N5179", "2V", "56", "25C", "")
+	for i := 0; i < b.N; i++ {
+		marginJudge(b, rules.BJTDissipation, src, nil, true)
+	}
+}

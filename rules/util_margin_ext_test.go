@@ -19,7 +19,7 @@ import (
 // the rule judged, passing or failing.
 
 // marginParams returns a shipped rule set's parameters for rule id.
-func marginParams(t *testing.T, set, id string) map[string]float64 {
+func marginParams(t testing.TB, set, id string) map[string]float64 {
 	t.Helper()
 	s, err := (&ruleset.Loader{Rules: rules.All()}).Load(set)
 	if err != nil {
@@ -34,7 +34,7 @@ func marginParams(t *testing.T, set, id string) map[string]float64 {
 
 // marginJudge runs rule over the circuit src (TOML) with the default rule
 // set's parameters, overridden by over; worst selects the worst-case search.
-func marginJudge(t *testing.T, rule *engine.Rule, src string, over map[string]float64, worst bool) []engine.Finding {
+func marginJudge(t testing.TB, rule *engine.Rule, src string, over map[string]float64, worst bool) []engine.Finding {
 	t.Helper()
 	c, err := circuit.LoadBytes("test.toml", []byte(src), circuit.Options{})
 	if err != nil {
@@ -72,7 +72,7 @@ func marginJudge(t *testing.T, rule *engine.Rule, src string, over map[string]fl
 
 // marginFinding returns the one finding about part, failing the test when
 // there is none or more than one.
-func marginFinding(t *testing.T, fs []engine.Finding, part string) engine.Finding {
+func marginFinding(t testing.TB, fs []engine.Finding, part string) engine.Finding {
 	t.Helper()
 	var got []engine.Finding
 	for _, f := range fs {
