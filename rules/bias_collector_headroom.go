@@ -53,7 +53,7 @@ func runCollectorHeadroom(p *engine.Pass) error {
 			HasMetric: true, Measured: q.VCEf, Limit: minV, Comparison: ">=", Unit: "V",
 			Message: fmt.Sprintf("%s has %s from collector to emitter, needs at least %s", part.Ref, m, l)}
 		if engine.Fails(q.VCEf, minV, ">=") {
-			f.Fix, f.Changes = headroomFix(p, tb, minV)
+			f.FixLater = func() (string, []engine.Change) { return headroomFix(p, tb, minV) }
 		}
 		p.Report(f)
 	}

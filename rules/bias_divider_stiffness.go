@@ -82,7 +82,7 @@ func runDividerStiffness(p *engine.Pass) error {
 			Message: fmt.Sprintf("%s carries %sx the base current of %s, needs at least %sx", who,
 				quantity.Approx(ratio, quantity.Ratio), part.Ref, quantity.Approx(minRatio, quantity.Ratio))}
 		if engine.Fails(ratio, minRatio, ">=") {
-			f.Fix, f.Changes = dividerFix(p, tb, minRatio)
+			f.FixLater = func() (string, []engine.Change) { return dividerFix(p, tb, minRatio) }
 		}
 		p.Report(f)
 	}

@@ -79,7 +79,8 @@ func runBiasDrift(p *engine.Pass) error {
 				HasMetric: true, Measured: b.measured, Limit: limit, Comparison: "<=", Unit: "fraction",
 				Message: msg}
 			if engine.Fails(b.measured, limit, "<=") {
-				f.Fix = driftFix(p, part.Ref, qn.IC, b.bound == "up")
+				ref, ic, up := part.Ref, qn.IC, b.bound == "up"
+				f.FixLater = func() (string, []engine.Change) { return driftFix(p, ref, ic, up), nil }
 			}
 			p.Report(f)
 		}

@@ -77,7 +77,7 @@ func runEmitterFraction(p *engine.Pass) error {
 					quantity.Approx(ve, quantity.Volt), quantity.Approx(fr, quantity.Fraction),
 					quantity.Approx(vf, quantity.Volt), b.word, quantity.Approx(b.limit, quantity.Fraction))}
 			if engine.Fails(fr, b.limit, b.cmp) {
-				f.Fix, f.Changes = emitterFix(p, tb, lo, hi)
+				f.FixLater = func() (string, []engine.Change) { return emitterFix(p, tb, lo, hi) }
 			}
 			p.Report(f)
 		}

@@ -62,7 +62,7 @@ func runMatchInput(p *engine.Pass) error {
 		HasMetric: true, Measured: b.ReturnLossDB, Limit: minDB, Comparison: ">=", Unit: "dB",
 		Message: msg}
 	if engine.Fails(b.ReturnLossDB, minDB, ">=") {
-		f.Fix = matchAdvice(p, port, b)
+		f.FixLater = func() (string, []engine.Change) { return matchAdvice(p, port, b), nil }
 	}
 	p.Report(f)
 	return nil
