@@ -20,8 +20,9 @@ var BypassReactance = &engine.Rule{
 		Formula: "X = 1/(2π·f_low·C) (C as for coupling.reactance: nominal, or value × (1 − tolerance) in the worst case); " +
 			"X <= max_fraction × circuit_impedance, circuit_impedance = |Z| from the bypassed net to ground at f_low with the bypass removed. " +
 			"Bypass capacitors that share both nets are one group.",
-		Source: "common practice, no published source for the fraction (the textbook form is a tenth of the emitter resistor; " +
-			"this rule judges against the impedance looking into the emitter, (R_th + rπ)/(1 + β), REFERENCES.md §10)",
+		Source: "common practice, no published source for the fraction; the impedance looking into the emitter, " +
+			"(R_th + rπ)/(1 + β), is the hybrid-π result (the textbook bypass rule, a tenth of the resistance the capacitor " +
+			"sees, is in e.g. Malvino and Bates, Electronic Principles; cited from memory)",
 		Fix: "The minimum capacitance, rounded up to E12, as a nominal value that meets the limit at the case judged; " +
 			"for a group the first part takes the change and the others stay.",
 		Params: []engine.Param{

@@ -23,7 +23,8 @@ var ChokeReactance = &engine.Rule{
 		Formula: "ωL ÷ circuit_impedance >= min_ratio, at f_low, DC resistance ignored; L at the case judged (value × (1 − tolerance), " +
 			"or AL at its minimum × N² for an inductor wound on a core, in the worst case); circuit_impedance = |Z| across the " +
 			"choke at f_low with it removed",
-		Source: "common practice, no published source (REFERENCES.md §11: X = 10·Z lowers the node impedance by 0.5 %)",
+		Source: "common practice, no published source (the arithmetic: a shunt reactance of ten times a node's impedance " +
+			"lowers it by 0.5 %)",
 		Fix: "The minimum inductance, rounded up to E12, as a nominal value that meets the ratio at the case judged; " +
 			"for an inductor given by turns, the minimum whole number of turns at the case's AL.",
 		Params: []engine.Param{

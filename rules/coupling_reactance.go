@@ -21,8 +21,9 @@ var CouplingReactance = &engine.Rule{
 		Formula: "X = 1/(2π·f_low·C) with C the capacitance at the case judged (nominal value; value × (1 − tolerance) in the worst case); " +
 			"X <= min(max_ohms, max_fraction × circuit_impedance), circuit_impedance = |Z| across the capacitor at f_low with it removed. " +
 			"Capacitors of this role that share both nets are one group: C is their sum and they are all removed.",
-		Source: "common practice, no published source for the exact figures: reactance at most a tenth of the resistance in series " +
-			"at the lowest frequency is the usual textbook statement (REFERENCES.md §10); the 100 ohm ceiling is a habit of HF design",
+		Source: "common practice: a reactance of at most a tenth of the total resistance in series at the lowest frequency is the " +
+			"usual textbook statement (e.g. A. Malvino and D. Bates, Electronic Principles, \"good coupling\"; cited from memory); " +
+			"the fixed ceiling is common practice, no published source",
 		Fix: "The minimum capacitance, rounded up to E12, as a nominal value that still meets the limit at the case judged " +
 			"(its −tolerance corner in the worst case). For a group the first part in file order takes the change and the others stay.",
 		Params: []engine.Param{

@@ -24,7 +24,8 @@ var WindingReactance = &engine.Rule{
 			"ω·AL·N² ÷ termination >= min_ratio at f_low, leakage and resistance ignored, AL at its minimum in the worst case; " +
 			"termination = |Z| between the winding's nets at f_low with the whole transformer removed",
 		Source: "D. G. Fern, \"The Four Times the Impedance Rule for Broadband RF Transformer Windings: Where Does it Originate?\" " +
-			"(GoldSpire Design): reactance at least four times the impedance the winding connects to (REFERENCES.md §11)",
+			"(GoldSpire Design): reactance at least four times the impedance the winding connects to; such a transformer " +
+			"works within 3 % of an ideal one",
 		Fix: "The minimum turns on the loaded winding at the case's AL, and the other windings in the same ratio: all windings " +
 			"become the smallest whole multiple of their whole-number turns ratio that is enough.",
 		Params: []engine.Param{
