@@ -92,7 +92,7 @@ func chokeFix(p *engine.Pass, part *circuit.Part, need, z float64) (string, []en
 	if nom := p.NominalCircuit.Part(part.Ref); nom != nil && nom.Value > 0 {
 		ratio = part.Value / nom.Value
 	}
-	v := roundUpE12(need / ratio * safetyMargin)
+	v := roundUpE12(need / ratio * reactanceMargin)
 	if v == 0 {
 		return fmt.Sprintf("%s needs %s; no E12 value fits", part.Ref, quantity.Approx(need/ratio, quantity.Henry)), nil
 	}

@@ -16,14 +16,14 @@ import (
 // what is here: the lowest band frequency, capacitor groups, and fixes
 // rounded up to E12.
 
-// fixSeries is the series a reactance fix rounds to (RULES.md: "rounded up to
+// reactanceFixSeries is the series a reactance fix rounds to (RULES.md: "rounded up to
 // E12").
-const fixSeries = eseries.E12
+const reactanceFixSeries = eseries.E12
 
-// safetyMargin lifts a computed requirement by a few ulps' worth before it is
+// reactanceMargin lifts a computed requirement by a few ulps' worth before it is
 // rounded up, so that a requirement that lands on a series value within
 // floating-point error still passes when the engine recomputes the metric.
-const safetyMargin = 1 + 1e-9
+const reactanceMargin = 1 + 1e-9
 
 // omegaLow is the angular frequency of the lowest band frequency, where
 // every reactance rule judges: a series capacitor or a shunt inductance does
@@ -33,7 +33,7 @@ func omegaLow(c *circuit.Circuit) float64 { return 2 * math.Pi * c.Band[0] }
 // roundUpE12 is the smallest E12 value at or above v, or 0 when there is
 // none (v not positive and finite, or beyond the largest float).
 func roundUpE12(v float64) float64 {
-	r := eseries.RoundUp(v, fixSeries)
+	r := eseries.RoundUp(v, reactanceFixSeries)
 	if math.IsNaN(r) || math.IsInf(r, 0) {
 		return 0
 	}
@@ -136,7 +136,7 @@ func capacitorFix(p *engine.Pass, g *capGroup, maxX float64) (string, []engine.C
 	if nom := p.NominalCircuit.Part(first.Ref); nom != nil && nom.Value > 0 {
 		ratio = first.Value / nom.Value
 	}
-	exact := (need - others) / ratio * safetyMargin
+	exact := (need - others) / ratio * reactanceMargin
 	v := roundUpE12(exact)
 	if v == 0 {
 		return fmt.Sprintf("%s needs %s in all; no E12 value fits, so use %s",
@@ -210,7 +210,7 @@ func roundTurnsUp(turns []float64, i int, need float64) (out []int, exact bool) 
 		}
 		g := ints[0]
 		for _, n := range ints[1:] {
-			g = gcd(g, n)
+			g = turnsGCD(g, n)
 		}
 		k := int(math.Ceil(need / float64(ints[i]/g)))
 		if k < 1 {
@@ -233,7 +233,7 @@ func roundTurnsUp(turns []float64, i int, need float64) (out []int, exact bool) 
 	return out, false
 }
 
-func gcd(a, b int) int {
+func turnsGCD(a, b int) int {
 	for b != 0 {
 		a, b = b, a%b
 	}
