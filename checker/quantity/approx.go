@@ -4,7 +4,11 @@ import "strconv"
 
 // Approx writes v like Format but rounded to three significant figures, for
 // messages a person reads ("64.4 mV", "4.7 kohm"); JSON carries the exact value.
+// Frequencies keep six: a band edge of 10.15 MHz must not read as 10.2 MHz.
 func Approx(v float64, u Unit) string {
+	if u == Hertz {
+		return Format(Round(v, 6), u)
+	}
 	return Format(Round(v, 3), u)
 }
 
