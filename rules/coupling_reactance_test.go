@@ -147,10 +147,8 @@ C2 = { kind = "capacitor", value = "4n7", nets = ["rf_out", "rf_in"] }`)
 	}
 }
 
-// The 160 m common-base preamp of the goldens, its circuit impedance by
-// closed form: 50 ohm source + (the impedance looking into the emitter ∥ R3).
-func TestCouplingCommonBaseClosedForm(t *testing.T) {
-	src := `
+// rxCommonBase is the 160 m common-base preamp of the goldens.
+const rxCommonBase = `
 [circuit]
 name = "160 m common-base preamp"
 band = ["1.8MHz", "2MHz"]
@@ -172,6 +170,11 @@ R3 = { kind = "resistor", value = "1k5", nets = ["emit", "gnd"] }
 R4 = { kind = "resistor", value = "2k2", nets = ["vcc", "coll"] }
 C4 = { kind = "capacitor", value = "100n", nets = ["coll", "rf_out"] }
 `
+
+// The 160 m common-base preamp, its circuit impedance by closed form: the
+// 50 ohm source + (the impedance looking into the emitter ∥ R3).
+func TestCouplingCommonBaseClosedForm(t *testing.T) {
+	src := rxCommonBase
 	f := rxOne(t, rxRun(t, src, "default", "coupling.reactance", false, nil), "C1")
 	// 2N3904 as shipped: vbe 0.70 V at 10 mA, hFE sqrt(100·300), ft 300 MHz, cob 4 pF.
 	beta := math.Sqrt(100 * 300)
@@ -181,4 +184,15 @@ C4 = { kind = "capacitor", value = "100n", nets = ["coll", "rf_out"] }
 	z := rxAbs(50 + rxPar(ze, 1500))
 	rxNear(t, "circuit impedance (limit/0.1)", f.Limit/0.1, z, 0.005) // about 64.2 ohm
 	rxNear(t, "X", f.Measured, 1/(2*math.Pi*1.8e6*10e-9), 1e-12)
+}
+
+// BenchmarkReactanceRulesWorstCase runs the five reactance rules through the
+// worst-case search over the 160 m common-base preamp (a box of eight
+// parameters), each run loading and analysing the circuit afresh.
+func BenchmarkReactanceRulesWorstCase(b *testing.B) {
+	for b.Loop() {
+		for _, id := range []string{"coupling.reactance", "bypass.reactance", "decoupling.reactance", "choke.reactance", "winding.reactance"} {
+			rxRun(b, rxCommonBase, "default", id, true, nil)
+		}
+	}
 }

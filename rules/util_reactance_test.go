@@ -20,7 +20,7 @@ import (
 // rxRun loads src, runs one rule over it (nominal, or the worst-case search)
 // under the shipped set (default or strict) with params overridden, and
 // returns everything the rule judged, passing or failing.
-func rxRun(t *testing.T, src, set, ruleID string, worst bool, params map[string]float64) []engine.Finding {
+func rxRun(t testing.TB, src, set, ruleID string, worst bool, params map[string]float64) []engine.Finding {
 	t.Helper()
 	c, err := circuit.LoadBytes("test.toml", []byte(src), circuit.Options{})
 	if err != nil {
