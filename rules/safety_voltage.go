@@ -21,7 +21,7 @@ var SafetyVoltage = &engine.Rule{
 			"those, so it says when they start to matter.",
 		Formula: "the largest span between the EMFs of any two rails (gnd at 0 V included; each supply at the " +
 			"case judged, so within its range in the worst case), <= max_volts; unit V. The finding names the " +
-			"supply with the largest |EMF|.",
+			"supply with the largest nominal |EMF|.",
 		Source: "IEC 60950-1 (withdrawn, replaced by IEC 62368-1), SELV circuit: at most 60 V DC in normal " +
 			"operation (REFERENCES.md §8, seen in a public summary); the same 60 V DC is the limit of the lowest " +
 			"energy class, ES1, of IEC 62368-1:2018 (from memory, not checked against the standard)",
@@ -43,19 +43,24 @@ func runSafetyVoltage(p *engine.Pass) error {
 		return nil
 	}
 	lo, hi := 0.0, 0.0 // gnd
-	var top *circuit.Supply
 	for _, s := range c.Supplies {
 		lo, hi = math.Min(lo, s.Volts), math.Max(hi, s.Volts)
+	}
+	// The supply named is chosen at nominal, so that every corner judges the
+	// same item.
+	var top *circuit.Supply
+	for _, s := range p.NominalCircuit.Supplies {
 		if top == nil || math.Abs(s.Volts) > math.Abs(top.Volts) {
 			top = s
 		}
 	}
+	volts := c.Supply(top.Net).Volts
 	span := hi - lo
 	limit := p.Param("max_volts")
 	f := engine.Finding{Part: top.Net,
 		HasMetric: true, Measured: span, Limit: limit, Comparison: "<=", Unit: "V",
 		Message: fmt.Sprintf("the rails span %s (%s at %s), the limit for safety extra-low voltage is %s",
-			quantity.Approx(span, quantity.Volt), top.Net, quantity.Approx(top.Volts, quantity.Volt),
+			quantity.Approx(span, quantity.Volt), top.Net, quantity.Approx(volts, quantity.Volt),
 			quantity.Approx(limit, quantity.Volt))}
 	if engine.Fails(span, limit, "<=") {
 		f.Message += ": " + safetyCaution
