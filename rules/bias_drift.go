@@ -67,10 +67,9 @@ func runBiasDrift(p *engine.Pass) error {
 		if r < 1 {
 			way = "below"
 		}
+		m, l := approx2(math.Abs(r-1), limit, quantity.Fraction)
 		msg := fmt.Sprintf("%s's collector current is %s %s nominal (%s against %s) with the supplies held, allows %s",
-			part.Ref, quantity.Approx(math.Abs(r-1), quantity.Fraction), way,
-			quantity.Approx(q.IC, quantity.Ampere), quantity.Approx(qn.IC, quantity.Ampere),
-			quantity.Approx(limit, quantity.Fraction))
+			part.Ref, m, way, quantity.Approx(q.IC, quantity.Ampere), quantity.Approx(qn.IC, quantity.Ampere), l)
 		for _, b := range []struct {
 			bound    string
 			measured float64

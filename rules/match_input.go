@@ -51,9 +51,10 @@ func runMatchInput(p *engine.Pass) error {
 		}
 	}
 	b := res.Band[worst]
-	msg := fmt.Sprintf("input %s has %s of return loss at %s (Zin %s against %s), needs at least %s",
-		port.Name, dB(b.ReturnLossDB), quantity.Approx(b.Frequency, quantity.Hertz),
-		complexOhms(b.InputImpedance), quantity.Approx(port.Impedance, quantity.Ohm), dB(minDB))
+	m, l := approx2(b.ReturnLossDB, minDB, quantity.Ratio)
+	msg := fmt.Sprintf("input %s has %s dB of return loss at %s (Zin %s against %s), needs at least %s dB",
+		port.Name, m, quantity.Approx(b.Frequency, quantity.Hertz),
+		complexOhms(b.InputImpedance), quantity.Approx(port.Impedance, quantity.Ohm), l)
 	if real(b.InputImpedance) < 0 {
 		msg += fmt.Sprintf("; the input resistance is negative (%s): the stage may oscillate",
 			quantity.Approx(real(b.InputImpedance), quantity.Ohm))
@@ -67,9 +68,6 @@ func runMatchInput(p *engine.Pass) error {
 	p.Report(f)
 	return nil
 }
-
-// dB writes a level in decibels to three significant figures.
-func dB(v float64) string { return quantity.Approx(v, quantity.Ratio) + " dB" }
 
 // complexOhms writes an impedance as "480 ohm − j1.62 kohm", three
 // significant figures each; a part below a thousandth of the magnitude is
