@@ -99,10 +99,14 @@ func dividerFix(p *engine.Pass, tb *topology.BJT, minRatio float64) (string, []e
 	ib := q.IB
 	i2 := minRatio * dividerMargin * ib
 
-	// The upper leg: resistors from the base net to a rail other than the return rail.
+	// The upper leg: resistors from the base net towards the feed — to a
+	// supply, a decoupled rail behind its resistor, or the collector — that
+	// is, anywhere but the return rail and the emitter. The feed voltage is
+	// that net's; the candidates are solved again, so a feed that moves with
+	// the design (a collector) is judged as it really moves.
 	var upper []*circuit.Part
 	for _, r := range resistorsOn(p.Circuit, tb.Base) {
-		if o := otherNet(r, tb.Base); o != tb.ReturnRail && p.A.Topo.Rails[o] {
+		if o := otherNet(r, tb.Base); o != tb.ReturnRail && o != tb.Emitter {
 			upper = append(upper, r)
 		}
 	}

@@ -185,3 +185,59 @@ nets = ["base", "gnd"]
 		t.Errorf("want advice naming both resistors: %q / %q %+v", f.Message, f.Fix, f.Changes)
 	}
 }
+
+// A divider fed from an RC-decoupled rail (R5 from the supply, C5 to gnd)
+// has its upper leg on that rail, not on a supply: the fix still changes both
+// legs, and applying it removes the finding.
+func TestDividerStiffnessDecoupledRail(t *testing.T) {
+	src := `[circuit]
+name = "40 m preamp on a decoupled rail"
+band = ["7MHz", "7.2MHz"]
+
+[supplies.vcc]
+volts = "12V"
+
+[parts.R5]
+kind = "resistor"
+value = "220"
+nets = ["vcc", "rail"]
+
+[parts.C5]
+kind = "capacitor"
+value = "100n"
+nets = ["rail", "gnd"]
+
+[parts.R1]
+kind = "resistor"
+value = "100k"
+nets = ["rail", "base"]
+
+[parts.R2]
+kind = "resistor"
+value = "22k"
+nets = ["base", "gnd"]
+
+[parts.Q1]
+kind = "npn"
+device = "2N3904"
+nets = { collector = "coll", base = "base", emitter = "emit" }
+
+[parts.R3]
+kind = "resistor"
+value = "470"
+nets = ["emit", "gnd"]
+
+[parts.R4]
+kind = "resistor"
+value = "1k"
+nets = ["rail", "coll"]
+`
+	f := biasItem(t, biasJudge(t, rules.BiasDividerStiffness, src, nil, false), "R2", "")
+	if len(f.Changes) != 2 || f.Changes[0].Part != "R1" || f.Changes[1].Part != "R2" {
+		t.Fatalf("want R1 and R2 changed: %q %+v", f.Fix, f.Changes)
+	}
+	again := biasItem(t, biasJudge(t, rules.BiasDividerStiffness, biasApply(t, src, f), nil, false), "R2", "")
+	if again.Failing() {
+		t.Errorf("the fix leaves %s", again.Message)
+	}
+}

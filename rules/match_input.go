@@ -104,7 +104,7 @@ func matchAdvice(p *engine.Pass, port *circuit.Port, b ac.BandPoint) string {
 			"collector–base capacitance; damp it (a small resistor in series with the base or the emitter " +
 			"load, a resistor across the collector load) before matching")
 	}
-	if zin == 0 {
+	if zin == 0 || cmplx.IsNaN(zin) || cmplx.IsInf(zin) {
 		return out.String()
 	}
 
@@ -128,7 +128,11 @@ func matchAdvice(p *engine.Pass, port *circuit.Port, b ac.BandPoint) string {
 		if err != nil || z == 0 {
 			continue
 		}
-		bs = append(bs, branch{part, yin - (1/z - complex(1/rs, 0))})
+		y := yin - (1/z - complex(1/rs, 0))
+		if y == 0 || cmplx.IsNaN(y) || cmplx.IsInf(y) {
+			continue
+		}
+		bs = append(bs, branch{part, y})
 	}
 	sort.SliceStable(bs, func(i, j int) bool { return cmplx.Abs(bs[i].y) > cmplx.Abs(bs[j].y) })
 	total := 0.0
@@ -165,7 +169,7 @@ func matchAdvice(p *engine.Pass, port *circuit.Port, b ac.BandPoint) string {
 			}
 			described = true
 			fmt.Fprintf(&out, "; behind %s, at %s's base, the bias network is %s", x.part.Ref, tp.Ref, complexOhms(zbias))
-			if yq := 1/zall - 1/zbias; yq != 0 {
+			if yq := 1/zall - 1/zbias; yq != 0 && !cmplx.IsNaN(yq) && !cmplx.IsInf(yq) {
 				fmt.Fprintf(&out, " and %s's own input (β·re with Cπ, its emitter circuit reflected) %s", tp.Ref, complexOhms(1/yq))
 				if real(1/yq) < 0 {
 					out.WriteString(", a negative resistance")
