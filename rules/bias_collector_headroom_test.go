@@ -1,6 +1,7 @@
 package rules_test
 
 import (
+	"strings"
 	"testing"
 
 	"headroom/checker/quantity"
@@ -93,5 +94,35 @@ nets = ["vcc", "coll"]
 	}
 	if len(f.Changes) != 0 || !contains(f.Fix, "short", "base voltage") {
 		t.Errorf("want advice: %q %+v", f.Fix, f.Changes)
+	}
+}
+
+// A collector fed through a small resistor from a rail behind a heavy
+// decoupling resistor: no value of the collector resistor restores 1 V, so
+// the fix raises the emitter resistor. By the closed form
+// VCE = 12 − IC·(R5 + R4) − IE·R3, R3 = 240 leaves 1.19 V where 220 leaves 0.40 V.
+func TestCollectorHeadroomEmitterFix(t *testing.T) {
+	src := strings.Replace(ceStage("20 m stage behind a heavy rail resistor", "12V", "2N3904", "10k", "2k2", "220", "100", `
+[parts.R5]
+kind = "resistor"
+value = "1k5"
+nets = ["vcc", "rail"]
+
+[parts.C5]
+kind = "capacitor"
+value = "100n"
+nets = ["rail", "gnd"]
+`), `nets = ["vcc", "coll"]`, `nets = ["rail", "coll"]`, 1)
+	f := biasItem(t, biasJudge(t, rules.BiasCollectorHeadroom, src, nil, false), "Q1", "")
+	s := divider(12, 10e3, 2.2e3, 220, nominalHFE, 0.70, 0.010, 25)
+	if want := 12 - s.IC*1600 - s.VE; !within(f.Measured, want, 0.005) {
+		t.Errorf("VCE %g, closed form %g", f.Measured, want)
+	}
+	if len(f.Changes) != 1 || f.Changes[0].Part != "R3" || f.Changes[0].To != "240" {
+		t.Fatalf("want R3 = 240: %q %+v", f.Fix, f.Changes)
+	}
+	s2 := divider(12, 10e3, 2.2e3, 240, nominalHFE, 0.70, 0.010, 25)
+	if vce := 12 - s2.IC*1600 - s2.VE; vce < 1 {
+		t.Errorf("R3 = 240 leaves %g V by the closed form", vce)
 	}
 }
