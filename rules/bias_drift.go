@@ -25,7 +25,8 @@ var BiasDrift = &engine.Rule{
 			"by design, and the other rules judge what that does.",
 		Formula: "over the worst-case box with every supply at nominal: IC(corner) ÷ IC(nominal) − 1 (bound " +
 			"\"up\") and 1 − IC(corner) ÷ IC(nominal) (bound \"down\"), each <= max_fraction; unit fraction. " +
-			"Judged only with worst-case corners; the finding reports the worse direction.",
+			"Judged only with worst-case corners; the finding reports the worse direction. A change below " +
+			"one part in 10⁶ of IC counts as none (the DC solution's last digits).",
 		Source: "common practice, no published source (the figure a designer accepts for a small-signal " +
 			"stage's current spread)",
 		Fix: "Advice: the parameter of the corner that alone moves IC the most, by name, and what reduces its " +

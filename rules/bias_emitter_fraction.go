@@ -26,8 +26,9 @@ var BiasEmitterFraction = &engine.Rule{
 		Source: "common practice, no published source (about a tenth of the supply across the emitter resistor)",
 		Fix: "When one resistor returns the emitter to its rail and changing it moves the emitter voltage (a " +
 			"base fed by current rather than held by a divider), the E24 value of it nearest one tenth, checked by " +
-			"solving the operating point again. Otherwise the emitter resistance for one tenth at the present " +
-			"current, and the base voltage that goes with it.",
+			"solving the operating point again at the case judged and at its opposite vertex (the one worst for " +
+			"the other bound), so that it holds at both. Otherwise the emitter resistance for one tenth at the " +
+			"present current, and the base voltage that goes with it.",
 		Params: []engine.Param{
 			{Name: "min_fraction", Unit: quantity.Ratio, Help: "smallest emitter voltage ÷ feed-rail voltage"},
 			{Name: "max_fraction", Unit: quantity.Ratio, Help: "largest emitter voltage ÷ feed-rail voltage"},
