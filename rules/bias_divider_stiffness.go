@@ -27,12 +27,12 @@ var BiasDividerStiffness = &engine.Rule{
 			"A base with no lower leg (collector feedback, a base fed through a winding) is not judged; " +
 			"the finding names the first lower-leg resistor in file order.",
 		Source: "common practice, no published source (a stiff divider carries at least ten times the base " +
-			"current; the figure circulates in tutorials and forums, and textbook forms such as R1‖R2 ≤ β·RE/10 " +
-			"say the same thing)",
+			"current; the figure circulates in tutorials and forums; textbook forms such as R1‖R2 ≤ β·RE/10, " +
+			"quoted from memory, aim at the same)",
 		Fix: "Lower-leg and upper-leg values (E24) that carry min_ratio × IB and keep the base voltage within 2 %: " +
-			"R2 = VB/I2 with I2 = min_ratio × IB, R1 = (Vfeed − VB)/(I2 + IB), rounded so the ratio still holds, " +
-			"each pair checked by solving the operating point again. With more than one resistor in a leg, the " +
-			"exact values needed.",
+			"R2 = VB/I2 with I2 a little above min_ratio × IB, R1 = (Vfeed − VB)/(I2 + IB), rounded to E24 pairs " +
+			"that still meet the ratio, each pair checked by solving the operating point again at the case judged. " +
+			"With more than one resistor in a leg, the exact values needed.",
 		Params: []engine.Param{
 			{Name: "min_ratio", Unit: quantity.Ratio, Help: "lower-leg current ÷ base current, at least"},
 		},

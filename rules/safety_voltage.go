@@ -15,10 +15,9 @@ var SafetyVoltage = &engine.Rule{
 	ID: "safety.voltage",
 	Doc: engine.Doc{
 		Title: "rails spanning more than the safety extra-low voltage call for hazardous-voltage practice",
-		Why: "Up to 60 V DC, the safety extra-low voltage ceiling, a circuit may be handled without further " +
-			"protection; above it, insulation, " +
-			"enclosure, creepage and the rules of the place it is built and used apply. This checker cannot judge " +
-			"those, so it says when they start to matter.",
+		Why: "60 V DC is where equipment safety standards stop treating a DC circuit as safety extra-low " +
+			"voltage; above it, insulation, enclosure, creepage and the rules of the place it is built and used " +
+			"apply. This checker cannot judge those, so it says when they start to matter.",
 		Formula: "the largest span between the EMFs of any two rails (gnd at 0 V included; each supply at the " +
 			"case judged, so within its range in the worst case), <= max_volts; unit V. The finding names the " +
 			"supply with the largest nominal |EMF|.",
