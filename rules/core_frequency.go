@@ -14,7 +14,8 @@ import (
 // CoreFrequency checks that a wound part's core material is meant for the
 // band it works in.
 var CoreFrequency = &engine.Rule{
-	ID: "core.frequency",
+	Static: true, // judges the file as written: the same at every corner
+	ID:     "core.frequency",
 	Doc: engine.Doc{
 		Title: "a core must be used within its material's frequency range",
 		Why: "A ferrite's permeability holds only up to a frequency that falls as its permeability rises, and " +

@@ -13,7 +13,8 @@ import (
 // ValuesPreferred flags resistor and capacitor values that cannot be bought
 // in the series their tolerance is sold in.
 var ValuesPreferred = &engine.Rule{
-	ID: "values.preferred",
+	Static: true, // judges the file as written: the same at every corner
+	ID:     "values.preferred",
 	Doc: engine.Doc{
 		Title: "resistor and capacitor values must be preferred values",
 		Why: "Parts are made in the IEC 60063 series that go with their tolerance. A value outside them is a " +

@@ -139,9 +139,12 @@ func Worst(c *circuit.Circuit, topo *topology.Topology, nominal *analysis.Case, 
 	return out, nil
 }
 
-// moved reports whether a metric moved by more than one part in 10⁶.
+// moved reports whether a metric moved by more than one part in 10⁶. The
+// scale is the larger of the figure and its limit, so that a metric that is
+// zero at nominal (bias.drift) is not moved by solver noise.
 func moved(a, b *engine.Finding) bool {
-	return rel(a.Measured, b.Measured) > moveTol || rel(a.Limit, b.Limit) > moveTol
+	scale := math.Max(math.Max(math.Abs(a.Measured), math.Abs(b.Measured)), math.Max(math.Abs(a.Limit), math.Abs(b.Limit)))
+	return math.Abs(a.Measured-b.Measured) > moveTol*scale || rel(a.Limit, b.Limit) > moveTol
 }
 
 func rel(a, b float64) float64 {
