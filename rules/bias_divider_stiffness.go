@@ -158,9 +158,13 @@ func dividerFix(p *engine.Pass, tb *topology.BJT, minRatio float64) (string, []e
 		if ratio2 < minRatio || math.Abs(vb2/vb-1) > dividerVBTol {
 			continue
 		}
-		return fmt.Sprintf("%s = %s and %s = %s (E24) keep the base near %s and carry %sx the base current",
+		where := ""
+		if p.A != p.Nominal {
+			where = " at the worst case"
+		}
+		return fmt.Sprintf("%s = %s and %s = %s (E24) keep the base near %s and carry %sx the base current%s",
 				r1.Ref, quantity.Approx(t.r1, quantity.Ohm), r2.Ref, quantity.Approx(t.r2, quantity.Ohm),
-				quantity.Approx(netV(op2, tb.Base), quantity.Volt), quantity.Approx(ratio2, quantity.Ratio)),
+				quantity.Approx(netV(op2, tb.Base), quantity.Volt), quantity.Approx(ratio2, quantity.Ratio), where),
 			[]engine.Change{
 				{Part: r1.Ref, Key: "value", To: quantity.Code(t.r1, quantity.Ohm)},
 				{Part: r2.Ref, Key: "value", To: quantity.Code(t.r2, quantity.Ohm)},
