@@ -177,14 +177,26 @@ func matchAdvice(p *engine.Pass, port *circuit.Port, b ac.BandPoint) string {
 			}
 		}
 	}
-	if real(zin) > 0 {
-		n := math.Sqrt(real(zin) / rs)
+	if r := real(zin); r > 0 && math.Abs(r/rs-1) > 0.1 {
+		n := math.Sqrt(r / rs)
 		ratio := "1:" + quantity.Approx(n, quantity.Ratio)
 		if n < 1 {
 			ratio = quantity.Approx(1/n, quantity.Ratio) + ":1"
 		}
 		fmt.Fprintf(&out, ". To match, bring the resistive part to %s: change the part that dominates, "+
 			"or add a transformer of turns ratio about %s (source side first)", quantity.Approx(rs, quantity.Ohm), ratio)
+	}
+	// A reactive part comparable to the source impedance spoils the match
+	// even when the resistive part is right: say how to cancel it.
+	if x := imag(zin); real(zin) > 0 && math.Abs(x) > 0.2*rs {
+		w := 2 * math.Pi * f
+		if x < 0 {
+			fmt.Fprintf(&out, ". The input is capacitive (%s): cancel it with about %s in series, or a larger series capacitor",
+				quantity.Approx(x, quantity.Ohm), quantity.Approx(-x/w, quantity.Henry))
+		} else {
+			fmt.Fprintf(&out, ". The input is inductive (+%s): cancel it with about %s in series",
+				quantity.Approx(x, quantity.Ohm), quantity.Approx(1/(w*x), quantity.Farad))
+		}
 	}
 	return out.String()
 }
