@@ -43,7 +43,7 @@ func (q *bjt) eval(vbe, vbc, vt float64) (p emPoint) {
 	return p
 }
 
-// limitJunction is the junction-voltage limiting that SPICE-family solvers
+// limitJunction is the junction-voltage limiting that classic circuit-simulation programs
 // apply to a pn junction between Newton iterations: above the critical
 // voltage a step is shortened to follow the logarithm of the current, and a
 // step far into reverse bias is shortened too. It returns the voltage to

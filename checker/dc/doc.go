@@ -17,7 +17,7 @@
 //     such edges alone is reported as Overdriven: its model current has no
 //     bound.
 //   - Newton–Raphson linearises each transistor at junction voltages limited
-//     the way SPICE-family solvers limit a pn junction, and starts every
+//     the way classic circuit-simulation programs limit a pn junction, and starts every
 //     base-emitter junction at its critical voltage. An iteration has
 //     converged when no junction was limited and every unknown moved less than
 //     1e-7 relative (1 nV, 1 pA absolute), with every junction within 0.1 µV

@@ -36,7 +36,7 @@ func compileSchema(t *testing.T, name string) *jsonschema.Schema {
 	return s
 }
 
-// corpus writes every circuit of the golden archives (with the library files
+// corpus writes the circuit of each golden archive (with the library files
 // beside them) into one folder per archive, for a whole-folder check.
 func corpus(t *testing.T) string {
 	t.Helper()
