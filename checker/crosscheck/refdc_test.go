@@ -267,19 +267,34 @@ func (n *dcNet) volts(x []float64) map[string]float64 {
 // system fills the KCL residual f (current leaving each free group) and its
 // Jacobian at x.
 func (n *dcNet) system(x []float64, f []float64, jac *mat.Dense) {
+	n.kcl(x, f, nil, jac)
+}
+
+// kcl fills f with the current leaving each free group at x, mag (when not
+// nil) with the sum of the magnitudes of those currents, and jac (when not
+// nil) with ∂f/∂x.
+func (n *dcNet) kcl(x []float64, f, mag []float64, jac *mat.Dense) {
 	for i := range f {
 		f[i] = 0
+		if mag != nil {
+			mag[i] = 0
+		}
 	}
-	jac.Zero()
+	if jac != nil {
+		jac.Zero()
+	}
 	v := n.volts(x)
 	addI := func(net string, i float64) { // current leaving net
 		if g := n.group[net]; g >= 0 {
 			f[g] += i
+			if mag != nil {
+				mag[g] += math.Abs(i)
+			}
 		}
 	}
 	addJ := func(net, wrt string, d float64) {
 		gi, gj := n.group[net], n.group[wrt]
-		if gi >= 0 && gj >= 0 {
+		if jac != nil && gi >= 0 && gj >= 0 {
 			jac.Set(gi, gj, jac.At(gi, gj)+d)
 		}
 	}
@@ -301,7 +316,9 @@ func (n *dcNet) system(x []float64, f []float64, jac *mat.Dense) {
 	}
 	for g := 0; g < n.nFree; g++ {
 		f[g] += n.gshunt * x[g]
-		jac.Set(g, g, jac.At(g, g)+n.gshunt)
+		if jac != nil {
+			jac.Set(g, g, jac.At(g, g)+n.gshunt)
+		}
 	}
 	for _, q := range n.bjts {
 		s := q.sign
@@ -458,6 +475,15 @@ func refSolveDC(c *circuit.Circuit) (*refOP, error) {
 	if !ok {
 		return nil, &refFailure{"no convergence"}
 	}
+	// A junction beyond the range where the exponential is evaluated exactly
+	// is the linear continuation's answer, not the model's: the model's
+	// current there is astronomically large (e^80·IS), so there is no
+	// operating point in the model's sense.
+	for i, vj := range n.junctions(x) {
+		if vj > expLinAt*n.vt {
+			return nil, &refFailure{fmt.Sprintf("%s junction forced forward to %.3g V", n.bjts[i/2].ref, vj)}
+		}
+	}
 	return n.result(c, x, method, iters), nil
 }
 
@@ -601,4 +627,36 @@ func (n *dcNet) result(c *circuit.Circuit, x []float64, method string, iters int
 		}
 	}
 	return op
+}
+
+// kclError checks that the net voltages v (another program's answer) solve
+// the reference's equations: it returns the largest KCL imbalance of a free
+// group relative to the currents through it (absolute below 1 pA), and the
+// largest voltage difference between nets merged into one group.
+func kclError(c *circuit.Circuit, v map[string]float64) (imbalance, spread float64, err error) {
+	n, err := compileDC(c)
+	if err != nil {
+		return 0, 0, err
+	}
+	n.srcFrac = 1
+	x := make([]float64, n.nFree)
+	set := make([]bool, n.nFree)
+	for _, net := range n.nets {
+		g := n.group[net]
+		if g < 0 {
+			spread = math.Max(spread, math.Abs(v[net]-n.fixed[n.find(net)]))
+			continue
+		}
+		if !set[g] {
+			x[g], set[g] = v[net], true
+		}
+		spread = math.Max(spread, math.Abs(v[net]-x[g]))
+	}
+	f := make([]float64, n.nFree)
+	mag := make([]float64, n.nFree)
+	n.kcl(x, f, mag, nil)
+	for g := range f {
+		imbalance = math.Max(imbalance, math.Abs(f[g])/math.Max(mag[g], 1e-12))
+	}
+	return imbalance, spread, nil
 }
