@@ -14,9 +14,9 @@ import (
 // a small-signal transistor's VCE(sat) (0.2–0.3 V for the 2N3904 at 10 mA,
 // from memory), so the headroom floor must sit well above it.
 func TestCollectorHeadroomThresholds(t *testing.T) {
-	def := biasParams(t, "default", "bias.collector-headroom")["min_volts"]
-	strict := biasParams(t, "strict", "bias.collector-headroom")["min_volts"]
-	sat := biasParams(t, "default", "bias.region")["min_vce"]
+	def := shippedParams(t, "default", "bias.collector-headroom")["min_volts"]
+	strict := shippedParams(t, "strict", "bias.collector-headroom")["min_volts"]
+	sat := shippedParams(t, "default", "bias.region")["min_vce"]
 	if def != 1 || strict != 2 {
 		t.Errorf("min_volts %g [%g], want 1 [2]", def, strict)
 	}
@@ -31,7 +31,7 @@ func TestCollectorHeadroomThresholds(t *testing.T) {
 // active, so lowering R4 by ΔV/IC restores the headroom.
 func TestCollectorHeadroomClosedFormAndFix(t *testing.T) {
 	src := ceStage("20 m buffer", "9V", "2N3904", "22k", "10k", "330", "1k1", "")
-	f := biasItem(t, biasJudge(t, rules.BiasCollectorHeadroom, src, nil, false), "Q1", "")
+	f := biasItem(t, judgeRule(t, rules.BiasCollectorHeadroom, src, nil, false), "Q1", "")
 	s := divider(9, 22e3, 10e3, 330, nominalHFE, 0.70, 0.010, 25)
 	want := 9 - s.IC*1100 - s.VE
 	if !within(f.Measured, want, 0.005) || f.Measured >= 1 || f.Unit != "V" || f.Comparison != ">=" {
@@ -87,7 +87,7 @@ kind = "inductor"
 value = "22u"
 nets = ["vcc", "coll"]
 `
-	f := biasItem(t, biasJudge(t, rules.BiasCollectorHeadroom, src, nil, false), "Q1", "")
+	f := biasItem(t, judgeRule(t, rules.BiasCollectorHeadroom, src, nil, false), "Q1", "")
 	s := divider(5, 330, 10e3, 1000, nominalHFE, 0.70, 0.010, 25)
 	if want := 5 - s.VE; !within(f.Measured, want, 0.005) {
 		t.Errorf("VCE %g, closed form %g", f.Measured, want)
@@ -113,7 +113,7 @@ kind = "capacitor"
 value = "100n"
 nets = ["rail", "gnd"]
 `), `nets = ["vcc", "coll"]`, `nets = ["rail", "coll"]`, 1)
-	f := biasItem(t, biasJudge(t, rules.BiasCollectorHeadroom, src, nil, false), "Q1", "")
+	f := biasItem(t, judgeRule(t, rules.BiasCollectorHeadroom, src, nil, false), "Q1", "")
 	s := divider(12, 10e3, 2.2e3, 220, nominalHFE, 0.70, 0.010, 25)
 	if want := 12 - s.IC*1600 - s.VE; !within(f.Measured, want, 0.005) {
 		t.Errorf("VCE %g, closed form %g", f.Measured, want)

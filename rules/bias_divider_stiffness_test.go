@@ -29,10 +29,10 @@ func isE24(v float64) bool {
 // "10 times the base current" only in forums (weak) and Bowick's worked RF
 // divider at 7.5x.
 func TestDividerStiffnessThresholds(t *testing.T) {
-	if v := biasParams(t, "default", "bias.divider-stiffness")["min_ratio"]; v != 10 {
+	if v := shippedParams(t, "default", "bias.divider-stiffness")["min_ratio"]; v != 10 {
 		t.Errorf("default min_ratio %g, want 10", v)
 	}
-	if v := biasParams(t, "strict", "bias.divider-stiffness")["min_ratio"]; v != 20 {
+	if v := shippedParams(t, "strict", "bias.divider-stiffness")["min_ratio"]; v != 20 {
 		t.Errorf("strict min_ratio %g, want 20", v)
 	}
 	if !strings.Contains(rules.BiasDividerStiffness.Doc.Source, "common practice") {
@@ -44,7 +44,7 @@ func TestDividerStiffnessThresholds(t *testing.T) {
 // (2N3904: vbe 0.70 V at 10 mA, hFE 100..300, REFERENCES.md §6).
 func TestDividerStiffnessClosedForm(t *testing.T) {
 	src := ceStage("40 m preamp", "12V", "2N3904", "100k", "22k", "470", "1k", "")
-	f := biasItem(t, biasJudge(t, rules.BiasDividerStiffness, src, nil, false), "R2", "")
+	f := biasItem(t, judgeRule(t, rules.BiasDividerStiffness, src, nil, false), "R2", "")
 	s := divider(12, 100e3, 22e3, 470, nominalHFE, 0.70, 0.010, 25)
 	want := s.VB / 22e3 / s.IB
 	if !within(f.Measured, want, 0.005) {
@@ -62,7 +62,7 @@ func TestDividerStiffnessClosedForm(t *testing.T) {
 // min_ratio × IB: checked by the closed form, not by the rule's own solver.
 func TestDividerStiffnessFixHolds(t *testing.T) {
 	src := ceStage("40 m preamp", "12V", "2N3904", "100k", "22k", "470", "1k", "")
-	f := biasItem(t, biasJudge(t, rules.BiasDividerStiffness, src, nil, false), "R2", "")
+	f := biasItem(t, judgeRule(t, rules.BiasDividerStiffness, src, nil, false), "R2", "")
 	if len(f.Changes) != 2 {
 		t.Fatalf("want changes to R1 and R2: %q %+v", f.Fix, f.Changes)
 	}
@@ -82,7 +82,7 @@ func TestDividerStiffnessFixHolds(t *testing.T) {
 	if d := math.Abs(after.VB/before.VB - 1); d > 0.02 {
 		t.Errorf("base moves by %.2f %%, RULES.md allows 2 %%", d*100)
 	}
-	again := biasItem(t, biasJudge(t, rules.BiasDividerStiffness, biasApply(t, src, f), nil, false), "R2", "")
+	again := biasItem(t, judgeRule(t, rules.BiasDividerStiffness, biasApply(t, src, f), nil, false), "R2", "")
 	if again.Measured < 10 {
 		t.Errorf("the fixed circuit still fails: %s", again.Message)
 	}
@@ -126,12 +126,12 @@ kind = "resistor"
 value = "1k5"
 nets = ["vneg", "coll"]
 `
-	nom := biasItem(t, biasJudge(t, rules.BiasDividerStiffness, src, nil, false), "R2", "")
+	nom := biasItem(t, judgeRule(t, rules.BiasDividerStiffness, src, nil, false), "R2", "")
 	s := divider(12, 47e3, 10e3, 470, nominalHFE, 0.70, 0.010, 25)
 	if want := s.VB / 10e3 / s.IB; !within(nom.Measured, want, 0.005) {
 		t.Errorf("nominal ratio %g, mirrored closed form %g", nom.Measured, want)
 	}
-	worst := biasItem(t, biasJudge(t, rules.BiasDividerStiffness, src, nil, true), "R2", "")
+	worst := biasItem(t, judgeRule(t, rules.BiasDividerStiffness, src, nil, true), "R2", "")
 	w := divider(13.2, 47e3*0.95, 10e3*1.05, 470*0.95, 100, 0.70, 0.010, 25)
 	if want := w.VB / (10e3 * 1.05) / w.IB; !within(worst.Measured, want, 0.005) {
 		t.Errorf("worst ratio %g at %v, closed form %g", worst.Measured, worst.Corner, want)
@@ -166,7 +166,7 @@ kind = "resistor"
 value = "2k2"
 nets = ["vcc", "coll"]
 `
-	if fs := biasJudge(t, rules.BiasDividerStiffness, feedback, nil, false); len(fs) != 0 {
+	if fs := judgeRule(t, rules.BiasDividerStiffness, feedback, nil, false); len(fs) != 0 {
 		t.Errorf("a base with no lower leg must not be judged: %+v", fs)
 	}
 	twin := ceStage("40 m preamp, split lower leg", "12V", "2N3904", "100k", "47k", "470", "1k", `
@@ -175,7 +175,7 @@ kind = "resistor"
 value = "47k"
 nets = ["base", "gnd"]
 `)
-	f := biasItem(t, biasJudge(t, rules.BiasDividerStiffness, twin, nil, false), "R2", "")
+	f := biasItem(t, judgeRule(t, rules.BiasDividerStiffness, twin, nil, false), "R2", "")
 	// 47k || 47k = 23.5k: the current through both is VB/23.5k.
 	s := divider(12, 100e3, 23.5e3, 470, nominalHFE, 0.70, 0.010, 25)
 	if want := s.VB / 23.5e3 / s.IB; !within(f.Measured, want, 0.005) {
@@ -232,11 +232,11 @@ kind = "resistor"
 value = "1k"
 nets = ["rail", "coll"]
 `
-	f := biasItem(t, biasJudge(t, rules.BiasDividerStiffness, src, nil, false), "R2", "")
+	f := biasItem(t, judgeRule(t, rules.BiasDividerStiffness, src, nil, false), "R2", "")
 	if len(f.Changes) != 2 || f.Changes[0].Part != "R1" || f.Changes[1].Part != "R2" {
 		t.Fatalf("want R1 and R2 changed: %q %+v", f.Fix, f.Changes)
 	}
-	again := biasItem(t, biasJudge(t, rules.BiasDividerStiffness, biasApply(t, src, f), nil, false), "R2", "")
+	again := biasItem(t, judgeRule(t, rules.BiasDividerStiffness, biasApply(t, src, f), nil, false), "R2", "")
 	if again.Failing() {
 		t.Errorf("the fix leaves %s", again.Message)
 	}

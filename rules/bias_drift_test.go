@@ -12,13 +12,13 @@ import (
 // source; the rule runs only in a worst-case search and holds the supplies
 // (RULES.md: a supply's own range moves IC by design).
 func TestDriftThresholdsAndFlags(t *testing.T) {
-	if d, s := biasParams(t, "default", "bias.drift")["max_fraction"], biasParams(t, "strict", "bias.drift")["max_fraction"]; d != 0.25 || s != 0.15 {
+	if d, s := shippedParams(t, "default", "bias.drift")["max_fraction"], shippedParams(t, "strict", "bias.drift")["max_fraction"]; d != 0.25 || s != 0.15 {
 		t.Errorf("max_fraction %g [%g], want 0.25 [0.15]", d, s)
 	}
 	if !rules.BiasDrift.NeedsCorners || !rules.BiasDrift.HoldSupplies {
 		t.Error("bias.drift must need corners and hold the supplies")
 	}
-	if fs := biasJudge(t, rules.BiasDrift, fedStage("270k", "180"), nil, false); len(fs) != 0 {
+	if fs := judgeRule(t, rules.BiasDrift, fedStage("270k", "180"), nil, false); len(fs) != 0 {
 		t.Errorf("judged without corners: %+v", fs)
 	}
 }
@@ -38,7 +38,7 @@ func cornerKeys(c map[string]float64) string {
 // Early effect, so it must not appear in the corner; hFE is the dominant
 // parameter.
 func TestDriftClosedForm(t *testing.T) {
-	fs := biasJudge(t, rules.BiasDrift, fedStage("270k", "180"), nil, true)
+	fs := judgeRule(t, rules.BiasDrift, fedStage("270k", "180"), nil, true)
 	up, down := biasItem(t, fs, "Q1", "up"), biasItem(t, fs, "Q1", "down")
 	nom := dividerStage(12, 270e3, 180, nominalHFE, 0.70, 0.010, 25).IC
 	hiIC := dividerStage(12, 270e3*0.95, 180*0.95, 300, 0.70, 0.010, 25).IC
@@ -94,7 +94,7 @@ kind = "resistor"
 value = "470"
 nets = ["vcc", "coll"]
 `
-	up := biasItem(t, biasJudge(t, rules.BiasDrift, src, nil, true), "Q1", "up")
+	up := biasItem(t, judgeRule(t, rules.BiasDrift, src, nil, true), "Q1", "up")
 	nom := divider(12, 10e3, 2.2e3, 120, nominalHFE, 0.70, 0.010, 25).IC
 	hi := divider(12, 9.5e3, 2.31e3, 118.8, 300, 0.70, 0.010, 25).IC
 	if want := hi/nom - 1; !within(up.Measured, want, 0.005) || up.Measured > 0.25 {
@@ -110,7 +110,7 @@ nets = ["vcc", "coll"]
 func TestDriftAmbientDominates(t *testing.T) {
 	src := ceStage("10 m mast-head preamp", "12V", "2N3904", "10k", "1k", "33", "330", "")
 	src = strings.Replace(src, `band = ["7MHz", "7.2MHz"]`, `band = ["28MHz", "29.7MHz"]`+"\n"+`ambient = ["-20C", "60C"]`, 1)
-	down := biasItem(t, biasJudge(t, rules.BiasDrift, src, nil, true), "Q1", "down")
+	down := biasItem(t, judgeRule(t, rules.BiasDrift, src, nil, true), "Q1", "down")
 	nom := divider(12, 10e3, 1e3, 33, nominalHFE, 0.70, 0.010, 25).IC
 	cold := divider(12, 10e3*1.05, 1e3*0.95, 33*1.05, 100, 0.70, 0.010, -20).IC
 	if want := 1 - cold/nom; !within(down.Measured, want, 0.005) {

@@ -46,7 +46,7 @@ nets = ["vcc", "coll"]
 // source), in both shipped sets.
 func TestEmitterFractionThresholds(t *testing.T) {
 	for _, set := range []string{"default", "strict"} {
-		p := biasParams(t, set, "bias.emitter-fraction")
+		p := shippedParams(t, set, "bias.emitter-fraction")
 		if p["min_fraction"] != 0.05 || p["max_fraction"] != 0.25 {
 			t.Errorf("%s: window %g .. %g, want 0.05 .. 0.25", set, p["min_fraction"], p["max_fraction"])
 		}
@@ -60,7 +60,7 @@ func TestEmitterFractionThresholds(t *testing.T) {
 // = vcc behind R1), both bounds reported, and a fix whose value, by the
 // closed form, puts the emitter near a tenth.
 func TestEmitterFractionClosedFormAndFix(t *testing.T) {
-	fs := biasJudge(t, rules.BiasEmitterFraction, fedStage("270k", "22"), nil, false)
+	fs := judgeRule(t, rules.BiasEmitterFraction, fedStage("270k", "22"), nil, false)
 	lo, hi := biasItem(t, fs, "Q1", "min"), biasItem(t, fs, "Q1", "max")
 	s := dividerStage(12, 270e3, 22, nominalHFE, 0.70, 0.010, 25)
 	want := s.VE / 12
@@ -114,11 +114,11 @@ kind = "resistor"
 value = "1k"
 nets = ["emit", "gnd"]
 `
-	if fs := biasJudge(t, rules.BiasEmitterFraction, follower, nil, false); len(fs) != 0 {
+	if fs := judgeRule(t, rules.BiasEmitterFraction, follower, nil, false); len(fs) != 0 {
 		t.Errorf("a follower must not be judged: %+v", fs)
 	}
 	held := ceStage("20 m preamp, base low", "12V", "2N3904", "100k", "10k", "100", "1k", "")
-	f := biasItem(t, biasJudge(t, rules.BiasEmitterFraction, held, nil, false), "Q1", "min")
+	f := biasItem(t, judgeRule(t, rules.BiasEmitterFraction, held, nil, false), "Q1", "min")
 	s := divider(12, 100e3, 10e3, 100, nominalHFE, 0.70, 0.010, 25)
 	if !within(f.Measured, s.VE/12, 0.005) {
 		t.Errorf("fraction %g, closed form %g", f.Measured, s.VE/12)
@@ -164,7 +164,7 @@ kind = "resistor"
 value = "1k5"
 nets = ["vneg", "coll"]
 `
-	f := biasItem(t, biasJudge(t, rules.BiasEmitterFraction, src, nil, false), "Q1", "min")
+	f := biasItem(t, judgeRule(t, rules.BiasEmitterFraction, src, nil, false), "Q1", "min")
 	s := divider(12, 47e3, 10e3, 470, nominalHFE, 0.70, 0.010, 25)
 	if !within(f.Measured, s.VE/12, 0.005) || f.Measured <= 0 {
 		t.Errorf("fraction %g, mirrored closed form %g", f.Measured, s.VE/12)

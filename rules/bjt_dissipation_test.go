@@ -14,10 +14,10 @@ import (
 // EEE-INST-002's small-signal transistor figure, values from memory, not
 // confirmed; REFERENCES.md §5.3) and 40 % strict.
 func TestBJTDissipationThresholdsMatchSources(t *testing.T) {
-	if v := marginParams(t, "default", "bjt.dissipation")["max_load"]; v != 0.5 {
+	if v := shippedParams(t, "default", "bjt.dissipation")["max_load"]; v != 0.5 {
 		t.Errorf("default max_load %g, want 0.5", v)
 	}
-	if v := marginParams(t, "strict", "bjt.dissipation")["max_load"]; v != 0.4 {
+	if v := shippedParams(t, "strict", "bjt.dissipation")["max_load"]; v != 0.4 {
 		t.Errorf("strict max_load %g, want 0.4", v)
 	}
 }
@@ -50,12 +50,12 @@ nets = ["emit", "gnd"]
 // 450.0 mW (REFERENCES.md §6.4).
 func TestBJTDissipationClosedForm(t *testing.T) {
 	src := followerSrc("20 m buffer at 60 C", "2N3904", "2V", "68", "60C", "")
-	f := marginFinding(t, marginJudge(t, rules.BJTDissipation, src, nil, false), "Q1")
+	f := marginFinding(t, judgeRule(t, rules.BJTDissipation, src, nil, false), "Q1")
 	// 2N3904 (shipped library): vbe 0.70 V at 10 mA, hFE √(100·300).
 	ic, ib, vbe := followerPoint(2, 68, 0.70, 0.010, math.Sqrt(100*300), 60)
 	vce := 12 - (ic+ib)*68
 	want := (vce*ic + vbe*ib) / 0.450
-	if !near(f.Measured, want, 0.005) || f.Absolute != f.Measured {
+	if !within(f.Measured, want, 0.005) || f.Absolute != f.Measured {
 		t.Errorf("load %g, independent %g", f.Measured, want)
 	}
 	if !strings.Contains(f.Message, "450 mW at 60 °C") {
@@ -65,7 +65,7 @@ func TestBJTDissipationClosedForm(t *testing.T) {
 
 // At tj_max the pd derates to zero: no metric, always an error.
 func TestBJTDissipationZeroPoint(t *testing.T) {
-	f := marginFinding(t, marginJudge(t, rules.BJTDissipation,
+	f := marginFinding(t, judgeRule(t, rules.BJTDissipation,
 		followerSrc("40 m buffer in the oven", "2N3904", "2V", "680", "150C", ""), nil, false), "Q1")
 	if f.HasMetric || f.Absolute != 2 || !strings.Contains(f.Message, "rating is zero at 150 °C") {
 		t.Errorf("%+v", f)
@@ -79,7 +79,7 @@ func TestBJTDissipationFixes(t *testing.T) {
 	// 2N5179 (200 mW) follower: IE ≈ (2 − 0.78)/56 ≈ 22 mA, VCE ≈ 10.8 V:
 	// about 240 mW, past its pd.
 	src := followerSrc("20 m buffer, hot 2N5179", "2N5179", "2V", "56", "25C", "")
-	f := marginFinding(t, marginJudge(t, rules.BJTDissipation, src, nil, false), "Q1")
+	f := marginFinding(t, judgeRule(t, rules.BJTDissipation, src, nil, false), "Q1")
 	if f.Measured <= 1 || f.Absolute <= 1 || !strings.Contains(f.Message, "may run hot") {
 		t.Fatalf("want an overload past the absolute rating: %+v", f)
 	}
@@ -91,7 +91,7 @@ func TestBJTDissipationFixes(t *testing.T) {
 	if tr == nil || tr.Polarity != "npn" {
 		t.Fatalf("proposed %q is not a shipped NPN", dev)
 	}
-	g := marginFinding(t, marginJudge(t, rules.BJTDissipation,
+	g := marginFinding(t, judgeRule(t, rules.BJTDissipation,
 		followerSrc("20 m buffer, fixed", dev, "2V", "56", "25C", ""), nil, false), "Q1")
 	if g.Measured > 0.5 {
 		t.Errorf("with %s the load is still %g", dev, g.Measured)
@@ -99,9 +99,9 @@ func TestBJTDissipationFixes(t *testing.T) {
 
 	// The same overload with the pd written inline (180 mW): no device can
 	// help. (An inline figure equal to the library's reads as the library's.)
-	f = marginFinding(t, marginJudge(t, rules.BJTDissipation,
+	f = marginFinding(t, judgeRule(t, rules.BJTDissipation,
 		followerSrc("20 m buffer, inline pd", "2N5179", "2V", "56", "25C", "\npd = \"180mW\""), nil, false), "Q1")
-	if len(f.Changes) != 0 || !hasAll(f.Fix, "pd is written inline", "collector current", "pd of at least") {
+	if len(f.Changes) != 0 || !contains(f.Fix, "pd is written inline", "collector current", "pd of at least") {
 		t.Errorf("inline pd: %q %+v", f.Fix, f.Changes)
 	}
 
@@ -124,12 +124,12 @@ kind = "resistor"
 value = "100"
 nets = ["vcc", "emit"]
 `
-	f = marginFinding(t, marginJudge(t, rules.BJTDissipation, pnp, nil, false), "Q1")
+	f = marginFinding(t, judgeRule(t, rules.BJTDissipation, pnp, nil, false), "Q1")
 	// IE ≈ (12 − 10.64)/100 ≈ 13.6 mA at VCE ≈ 10.6 V: about 145 mW of 325 mW.
 	if f.Measured < 0.4 || f.Measured > 0.5 {
 		t.Fatalf("PNP load %g, want about 0.45", f.Measured)
 	}
-	f = marginFinding(t, marginJudge(t, rules.BJTDissipation, pnp, map[string]float64{"max_load": 0.3}, false), "Q1")
+	f = marginFinding(t, judgeRule(t, rules.BJTDissipation, pnp, map[string]float64{"max_load": 0.3}, false), "Q1")
 	if len(f.Changes) != 0 || !strings.Contains(f.Fix, "no library pnp transistor") {
 		t.Errorf("PNP: %q %+v", f.Fix, f.Changes)
 	}
@@ -140,6 +140,6 @@ nets = ["vcc", "emit"]
 func BenchmarkBJTDissipationWorstWithFix(b *testing.B) {
 	src := followerSrc("20 m buffer, hot 2N5179", "2N5179", "2V", "56", "25C", "")
 	for i := 0; i < b.N; i++ {
-		marginJudge(b, rules.BJTDissipation, src, nil, true)
+		judgeRule(b, rules.BJTDissipation, src, nil, true)
 	}
 }

@@ -11,10 +11,10 @@ import (
 // "operate a transistor at 1/5 of its ft", weak) and 10× strict ("comfortable
 // for HF gain stages"); REFERENCES.md §9. β(f) ≈ ft/f is the hybrid-π result.
 func TestBJTFtHeadroomThresholdsMatchSources(t *testing.T) {
-	if v := marginParams(t, "default", "bjt.ft-headroom")["min_ratio"]; v != 5 {
+	if v := shippedParams(t, "default", "bjt.ft-headroom")["min_ratio"]; v != 5 {
 		t.Errorf("default min_ratio %g, want 5", v)
 	}
-	if v := marginParams(t, "strict", "bjt.ft-headroom")["min_ratio"]; v != 10 {
+	if v := shippedParams(t, "strict", "bjt.ft-headroom")["min_ratio"]; v != 10 {
 		t.Errorf("strict min_ratio %g, want 10", v)
 	}
 }
@@ -44,8 +44,8 @@ kind = "resistor"
 value = "1k"
 nets = ["emit", "gnd"]
 `, c.top, c.device)
-		f := marginFinding(t, marginJudge(t, rules.BJTFtHeadroom, src, nil, false), "Q1")
-		if !near(f.Measured, c.want, 1e-9) || f.Limit != 5 || f.Comparison != ">=" || f.Unit != "ratio" {
+		f := marginFinding(t, judgeRule(t, rules.BJTFtHeadroom, src, nil, false), "Q1")
+		if !within(f.Measured, c.want, 1e-9) || f.Limit != 5 || f.Comparison != ">=" || f.Unit != "ratio" {
 			t.Errorf("%s at %s: %+v, want %g", c.device, c.top, f, c.want)
 		}
 	}
@@ -71,18 +71,18 @@ kind = "resistor"
 value = "1k"
 nets = ["emit", "gnd"]
 `
-	f := marginFinding(t, marginJudge(t, rules.BJTFtHeadroom, src, nil, false), "Q1")
-	if !near(f.Measured, 100.0/29.7, 1e-9) || len(f.Changes) != 1 || f.Changes[0].To != "2N3904" {
+	f := marginFinding(t, judgeRule(t, rules.BJTFtHeadroom, src, nil, false), "Q1")
+	if !within(f.Measured, 100.0/29.7, 1e-9) || len(f.Changes) != 1 || f.Changes[0].To != "2N3904" {
 		t.Errorf("%+v", f)
 	}
 	// With the strict set's 10×, 297 MHz is needed: the 2N3904's 300 MHz
 	// still meets it (the 2N2222A too; the 2N3904 is closer to the BC547B).
-	f = marginFinding(t, marginJudge(t, rules.BJTFtHeadroom, src, map[string]float64{"min_ratio": 10}, false), "Q1")
+	f = marginFinding(t, judgeRule(t, rules.BJTFtHeadroom, src, map[string]float64{"min_ratio": 10}, false), "Q1")
 	if len(f.Changes) != 1 || f.Changes[0].To != "2N3904" {
 		t.Errorf("strict: %q %+v", f.Fix, f.Changes)
 	}
 	// 12×: 356 MHz; only the 2N5179 (900 MHz) has it.
-	f = marginFinding(t, marginJudge(t, rules.BJTFtHeadroom, src, map[string]float64{"min_ratio": 12}, false), "Q1")
+	f = marginFinding(t, judgeRule(t, rules.BJTFtHeadroom, src, map[string]float64{"min_ratio": 12}, false), "Q1")
 	if len(f.Changes) != 1 || f.Changes[0].To != "2N5179" {
 		t.Errorf("12x: %q %+v", f.Fix, f.Changes)
 	}

@@ -16,11 +16,11 @@ import (
 // up to about 2 × VCC at full swing (the textbook choke-fed amplifier; from
 // memory, no page cited).
 func TestBJTVoltageThresholdsMatchSources(t *testing.T) {
-	def := marginParams(t, "default", "bjt.voltage")
+	def := shippedParams(t, "default", "bjt.voltage")
 	if def["max_load"] != 0.75 || def["inductive_swing"] != 2 {
 		t.Errorf("default %v, want max_load 0.75, inductive_swing 2", def)
 	}
-	if v := marginParams(t, "strict", "bjt.voltage")["max_load"]; v != 0.6 {
+	if v := shippedParams(t, "strict", "bjt.voltage")["max_load"]; v != 0.6 {
 		t.Errorf("strict max_load %g, want 0.6", v)
 	}
 }
@@ -87,8 +87,8 @@ func TestBJTVoltageClosedForm(t *testing.T) {
 		{"transformer-fed 2N3904", "12V", "2N3904", windingFeed, 24.0 / 40, 12.0 / 40},
 		{"choke-fed 2N5179", "13.8V", "2N5179", chokeFeed, 27.6 / 12, 13.8 / 12},
 	} {
-		f := marginFinding(t, marginJudge(t, rules.BJTVoltage, stageSrc(c.name, c.vcc, c.device, c.feed), nil, false), "Q1")
-		if !near(f.Measured, c.load, 1e-9) || !near(f.Absolute, c.absolute, 1e-9) {
+		f := marginFinding(t, judgeRule(t, rules.BJTVoltage, stageSrc(c.name, c.vcc, c.device, c.feed), nil, false), "Q1")
+		if !within(f.Measured, c.load, 1e-9) || !within(f.Absolute, c.absolute, 1e-9) {
 			t.Errorf("%s: load %g (abs %g), want %g (abs %g)", c.name, f.Measured, f.Absolute, c.load, c.absolute)
 		}
 		if (c.absolute > 1) != strings.Contains(f.Message, "may break down") {
@@ -127,8 +127,8 @@ kind = "inductor"
 value = "100u"
 nets = ["c1", "gnd"]
 `
-	f := marginFinding(t, marginJudge(t, rules.BJTVoltage, src, nil, false), "Q1")
-	if !near(f.Measured, 24.0/40, 1e-9) || !strings.Contains(f.Message, "from gnd to vcc") {
+	f := marginFinding(t, judgeRule(t, rules.BJTVoltage, src, nil, false), "Q1")
+	if !within(f.Measured, 24.0/40, 1e-9) || !strings.Contains(f.Message, "from gnd to vcc") {
 		t.Errorf("PNP choke to gnd: %g, %q", f.Measured, f.Message)
 	}
 }
@@ -138,8 +138,8 @@ nets = ["c1", "gnd"]
 func TestBJTVoltageWorstCaseSupply(t *testing.T) {
 	src := strings.Replace(stageSrc("80 m preamp on a station supply", "13.8V", "2N3904", chokeFeed),
 		`volts = "13.8V"`, `volts = "13.8V"`+"\n"+`range = ["12V", "16V"]`, 1)
-	f := marginFinding(t, marginJudge(t, rules.BJTVoltage, src, nil, true), "Q1")
-	if !near(f.Measured, 32.0/40, 1e-9) || f.Corner["vcc"] != 16 || len(f.Corner) != 1 {
+	f := marginFinding(t, judgeRule(t, rules.BJTVoltage, src, nil, true), "Q1")
+	if !within(f.Measured, 32.0/40, 1e-9) || f.Corner["vcc"] != 16 || len(f.Corner) != 1 {
 		t.Errorf("worst %g at %v, want 0.8 at vcc 16 V alone", f.Measured, f.Corner)
 	}
 	if len(f.Changes) != 0 {

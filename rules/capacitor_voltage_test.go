@@ -12,10 +12,10 @@ import (
 // confirmed; REFERENCES.md §5.3).
 func TestCapacitorVoltageThresholdsMatchSources(t *testing.T) {
 	const eee = 0.6
-	if v := marginParams(t, "default", "capacitor.voltage")["max_load"]; v != 0.5 || v > eee {
+	if v := shippedParams(t, "default", "capacitor.voltage")["max_load"]; v != 0.5 || v > eee {
 		t.Errorf("default max_load %g, want 0.5", v)
 	}
-	if v := marginParams(t, "strict", "capacitor.voltage")["max_load"]; v != 0.4 {
+	if v := shippedParams(t, "strict", "capacitor.voltage")["max_load"]; v != 0.4 {
 		t.Errorf("strict max_load %g, want 0.4", v)
 	}
 }
@@ -47,10 +47,10 @@ kind = "capacitor"
 value = "100n"
 nets = ["vcc", "gnd"]
 `
-	fs := marginJudge(t, rules.CapacitorVoltage, src, nil, false)
+	fs := judgeRule(t, rules.CapacitorVoltage, src, nil, false)
 	f := marginFinding(t, fs, "C1")
 	want := 12 * 10000.0 / 12200 / 16 // 9.836 V on 16 V: 61.5 %
-	if !near(f.Measured, want, 0.005) || f.Absolute != f.Measured {
+	if !within(f.Measured, want, 0.005) || f.Absolute != f.Measured {
 		t.Errorf("load %g, closed form %g", f.Measured, want)
 	}
 	// 9.836/0.5 = 19.7 V: the next standard rating is 25 V.

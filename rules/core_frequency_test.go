@@ -45,7 +45,7 @@ func TestCoreFrequencyEdges(t *testing.T) {
 		{`["500kHz", "2MHz"]`, false, true},
 		{`["500kHz", "60MHz"]`, false, false},
 	} {
-		fs := biasJudge(t, rules.CoreFrequency, xfmr(c.band, core), nil, false)
+		fs := judgeRule(t, rules.CoreFrequency, xfmr(c.band, core), nil, false)
 		lo, hi := biasItem(t, fs, "T1", "low"), biasItem(t, fs, "T1", "high")
 		if lo.Failing() == c.lowOK || hi.Failing() == c.highOK {
 			t.Errorf("band %s: low failing %v, high failing %v", c.band, lo.Failing(), hi.Failing())
@@ -59,10 +59,10 @@ func TestCoreFrequencyEdges(t *testing.T) {
 // A core given by al alone has no f_range: not judged. The advice for a 6 m
 // band on a HF ferrite names the same-size mu 125 core (1 to 200 MHz) first.
 func TestCoreFrequencyScopeAndAdvice(t *testing.T) {
-	if fs := biasJudge(t, rules.CoreFrequency, xfmr(`["50MHz", "54MHz"]`, `al = "360nH"`), nil, false); len(fs) != 0 {
+	if fs := judgeRule(t, rules.CoreFrequency, xfmr(`["50MHz", "54MHz"]`, `al = "360nH"`), nil, false); len(fs) != 0 {
 		t.Errorf("a core without f_range was judged: %+v", fs)
 	}
-	fs := biasJudge(t, rules.CoreFrequency, xfmr(`["50MHz", "54MHz"]`, `core = "toroid-12.7x7.15x4.9-mu800"`), nil, false)
+	fs := judgeRule(t, rules.CoreFrequency, xfmr(`["50MHz", "54MHz"]`, `core = "toroid-12.7x7.15x4.9-mu800"`), nil, false)
 	hi := biasItem(t, fs, "T1", "high")
 	if !contains(hi.Fix, ": toroid-12.7x7.15x4.9-mu125") || len(hi.Changes) != 0 {
 		t.Errorf("advice %q", hi.Fix)

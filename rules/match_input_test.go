@@ -40,7 +40,7 @@ func TestMatchInputReturnLossVectors(t *testing.T) {
 		r        string
 		db, vswr float64
 	}{{"75", 13.979, 1.5}, {"100", 9.542, 2}, {"25", 9.542, 2}} {
-		f := biasItem(t, biasJudge(t, rules.MatchInput, loadFixture(c.r, ""), nil, false), "in", "")
+		f := biasItem(t, judgeRule(t, rules.MatchInput, loadFixture(c.r, ""), nil, false), "in", "")
 		if math.Abs(f.Measured-c.db) > 0.0005 || math.Abs(vswr(f.Measured)-c.vswr) > 0.0005 {
 			t.Errorf("%s ohm: %g dB (VSWR %g), REFERENCES.md §12 gives %g dB, VSWR %g", c.r, f.Measured, vswr(f.Measured), c.db, c.vswr)
 		}
@@ -53,7 +53,7 @@ func TestMatchInputReturnLossVectors(t *testing.T) {
 // 10 dB (14 dB strict) is a VSWR of 1.92 (1.50): the common-practice
 // thresholds, no published source, stated in the doc as a VSWR.
 func TestMatchInputThresholds(t *testing.T) {
-	d, s := biasParams(t, "default", "match.input")["min_db"], biasParams(t, "strict", "match.input")["min_db"]
+	d, s := shippedParams(t, "default", "match.input")["min_db"], shippedParams(t, "strict", "match.input")["min_db"]
 	if d != 10 || s != 14 {
 		t.Errorf("min_db %g [%g], want 10 [14]", d, s)
 	}
@@ -65,7 +65,7 @@ func TestMatchInputThresholds(t *testing.T) {
 // The in port is judged only when it is meant to match, and only when there
 // is one.
 func TestMatchInputScope(t *testing.T) {
-	if fs := biasJudge(t, rules.MatchInput, loadFixture("1k", "matched = false\n"), nil, false); len(fs) != 0 {
+	if fs := judgeRule(t, rules.MatchInput, loadFixture("1k", "matched = false\n"), nil, false); len(fs) != 0 {
 		t.Errorf("a bridging input was judged: %+v", fs)
 	}
 	noPort := `[circuit]
@@ -80,7 +80,7 @@ kind = "resistor"
 value = "1k"
 nets = ["vcc", "gnd"]
 `
-	if fs := biasJudge(t, rules.MatchInput, noPort, nil, false); len(fs) != 0 {
+	if fs := judgeRule(t, rules.MatchInput, noPort, nil, false); len(fs) != 0 {
 		t.Errorf("judged without an in port: %+v", fs)
 	}
 }
@@ -131,9 +131,9 @@ kind = "capacitor"
 value = "100p"
 nets = ["emit", "gnd"]
 `
-	f := biasItem(t, biasJudge(t, rules.MatchInput, src, nil, false), "in", "")
+	f := biasItem(t, judgeRule(t, rules.MatchInput, src, nil, false), "in", "")
 	s := divider(12, 10e3, 10e3, 1e3, nominalHFE, 0.70, 0.010, 25)
-	gm := s.IC / vtAt(25)
+	gm := s.IC / thermalVoltage(25)
 	rpi, cmu := nominalHFE/gm, 4e-12
 	cpi := gm/(2*math.Pi*300e6) - cmu
 	worst := math.Inf(1)
@@ -160,8 +160,8 @@ nets = ["emit", "gnd"]
 func TestMatchInputWorstCase(t *testing.T) {
 	src := loadFixture("91", "")
 	src += "tolerance = \"10%\"\n"
-	nom := biasItem(t, biasJudge(t, rules.MatchInput, src, nil, false), "in", "")
-	worst := biasItem(t, biasJudge(t, rules.MatchInput, src, nil, true), "in", "")
+	nom := biasItem(t, judgeRule(t, rules.MatchInput, src, nil, false), "in", "")
+	worst := biasItem(t, judgeRule(t, rules.MatchInput, src, nil, true), "in", "")
 	if want := -20 * math.Log10(41.0/141); math.Abs(nom.Measured-want) > 1e-6 {
 		t.Errorf("nominal %g dB, want %g", nom.Measured, want)
 	}

@@ -15,8 +15,8 @@ import (
 // reliability derating guidance (NASA EEE-INST-002 film resistors 60 %,
 // values from memory, not confirmed; REFERENCES.md §5.3).
 func TestResistorPowerThresholdsMatchSources(t *testing.T) {
-	def := marginParams(t, "default", "resistor.power")
-	strict := marginParams(t, "strict", "resistor.power")
+	def := shippedParams(t, "default", "resistor.power")
+	strict := shippedParams(t, "strict", "resistor.power")
 	if def["knee"] != 70 || def["zero"] != 155 {
 		t.Errorf("curve %g → %g °C, want IEC 60115-1's 70 → 155 °C", def["knee"], def["zero"])
 	}
@@ -57,9 +57,9 @@ value = "1k5"
 nets = ["vcc", "gnd"]
 rating = "0.25W"
 `, c.ambient, c.ambient)
-		f := marginFinding(t, marginJudge(t, rules.ResistorPower, src, nil, false), "R9")
+		f := marginFinding(t, judgeRule(t, rules.ResistorPower, src, nil, false), "R9")
 		want := 12.0 * 12 / 1500 / c.derated
-		if !f.HasMetric || !near(f.Measured, want, 0.005) {
+		if !f.HasMetric || !within(f.Measured, want, 0.005) {
 			t.Errorf("%g °C: load %g, closed form %g", c.ambient, f.Measured, want)
 		}
 		if f.Absolute != f.Measured || f.Limit != 0.5 || f.Comparison != "<=" || f.Unit != "fraction" {
@@ -87,21 +87,21 @@ rating = "` + rating + `"
 `
 	}
 	// 12²/100 = 1.44 W on 1 W: 144 %; needs 2.88 W → 3 W (48 %).
-	f := marginFinding(t, marginJudge(t, rules.ResistorPower, src("100", "1W"), nil, false), "R9")
-	if !near(f.Absolute, 1.44, 0.005) || !strings.Contains(f.Message, "may run hot") {
+	f := marginFinding(t, judgeRule(t, rules.ResistorPower, src("100", "1W"), nil, false), "R9")
+	if !within(f.Absolute, 1.44, 0.005) || !strings.Contains(f.Message, "may run hot") {
 		t.Errorf("overload: %+v", f)
 	}
 	if len(f.Changes) != 1 || f.Changes[0].Key != "rating" || f.Changes[0].To != "3W" {
 		t.Errorf("fix %q %+v, want rating 3W", f.Fix, f.Changes)
 	}
 	// 12²/10 = 14.4 W: 28.8 W needed, beyond the standard ratings.
-	f = marginFinding(t, marginJudge(t, rules.ResistorPower, src("10", "5W"), nil, false), "R9")
-	if len(f.Changes) != 0 || !hasAll(f.Fix, "no standard rating", "28.8 W") {
+	f = marginFinding(t, judgeRule(t, rules.ResistorPower, src("10", "5W"), nil, false), "R9")
+	if len(f.Changes) != 0 || !contains(f.Fix, "no standard rating", "28.8 W") {
 		t.Errorf("beyond 10 W: fix %q %+v", f.Fix, f.Changes)
 	}
 	// 12²/4700 = 30.6 mW on 0.25 W: 12 %, passes, and no fix is computed.
-	f = marginFinding(t, marginJudge(t, rules.ResistorPower, src("4k7", "0.25W"), nil, false), "R9")
-	if !near(f.Measured, 144.0/4700/0.25, 0.005) || f.Fix != "" || f.Absolute > 1 {
+	f = marginFinding(t, judgeRule(t, rules.ResistorPower, src("4k7", "0.25W"), nil, false), "R9")
+	if !within(f.Measured, 144.0/4700/0.25, 0.005) || f.Fix != "" || f.Absolute > 1 {
 		t.Errorf("passing: %+v", f)
 	}
 }
@@ -120,13 +120,13 @@ kind = "resistor"
 value = "680"
 nets = ["vcc", "gnd"]
 `
-	f := marginFinding(t, marginJudge(t, rules.ResistorPower, src, nil, false), "R1")
+	f := marginFinding(t, judgeRule(t, rules.ResistorPower, src, nil, false), "R1")
 	// 144/680 = 0.2118 W on the default 0.25 W: 84.7 %.
-	if !near(f.Measured, 144.0/680/0.25, 0.005) || !strings.Contains(f.Message, "default_rating") {
+	if !within(f.Measured, 144.0/680/0.25, 0.005) || !strings.Contains(f.Message, "default_rating") {
 		t.Errorf("%+v", f)
 	}
-	f = marginFinding(t, marginJudge(t, rules.ResistorPower, src, map[string]float64{"default_rating": 1}, false), "R1")
-	if !near(f.Measured, 144.0/680/1, 0.005) {
+	f = marginFinding(t, judgeRule(t, rules.ResistorPower, src, map[string]float64{"default_rating": 1}, false), "R1")
+	if !within(f.Measured, 144.0/680/1, 0.005) {
 		t.Errorf("default_rating 1 W: load %g", f.Measured)
 	}
 }
@@ -153,10 +153,10 @@ value = "470"
 nets = ["vstage", "gnd"]
 rating = "2W"
 `
-	f := marginFinding(t, marginJudge(t, rules.ResistorPower, src, nil, false), "RV1")
+	f := marginFinding(t, judgeRule(t, rules.ResistorPower, src, nil, false), "RV1")
 	i := 12.0 / 570
 	want := i * i * 100 / (0.25 * 0.1)
-	if !near(f.Measured, want, 0.005) || !strings.Contains(f.Message, "a–wiper") {
+	if !within(f.Measured, want, 0.005) || !strings.Contains(f.Message, "a–wiper") {
 		t.Errorf("load %g, closed form %g: %s", f.Measured, want, f.Message)
 	}
 	// The whole-part view would see 44 mW of 250 mW (18 %) and pass: the
@@ -183,7 +183,7 @@ value = "2k2"
 nets = ["vcc", "gnd"]
 rating = "0.25W"
 `
-		f := marginFinding(t, marginJudge(t, rules.ResistorPower, src, nil, false), "R1")
+		f := marginFinding(t, judgeRule(t, rules.ResistorPower, src, nil, false), "R1")
 		if f.HasMetric || f.Absolute != 2 || !strings.Contains(f.Message, "rating is zero") {
 			t.Errorf("%s: %+v", amb, f)
 		}
@@ -207,13 +207,13 @@ value = "1k5"
 nets = ["vcc", "gnd"]
 rating = "0.25W"
 `
-	nom := marginFinding(t, marginJudge(t, rules.ResistorPower, src, nil, false), "R5")
-	if !near(nom.Measured, 144.0/1500/0.25, 0.005) {
+	nom := marginFinding(t, judgeRule(t, rules.ResistorPower, src, nil, false), "R5")
+	if !within(nom.Measured, 144.0/1500/0.25, 0.005) {
 		t.Errorf("nominal %g", nom.Measured)
 	}
-	w := marginFinding(t, marginJudge(t, rules.ResistorPower, src, nil, true), "R5")
+	w := marginFinding(t, judgeRule(t, rules.ResistorPower, src, nil, true), "R5")
 	want := 13.8 * 13.8 / 1425 / (0.25 * 70 / 85)
-	if !near(w.Measured, want, 0.005) || w.Corner["ambient"] != 85 || w.Corner["vcc"] != 13.8 {
+	if !within(w.Measured, want, 0.005) || w.Corner["ambient"] != 85 || w.Corner["vcc"] != 13.8 {
 		t.Errorf("worst %g at %v, want %g at 85 °C, 13.8 V", w.Measured, w.Corner, want)
 	}
 }

@@ -27,7 +27,7 @@ func rails(supplies ...string) string {
 // seen in a public summary) and, from memory, the DC limit of IEC 62368-1's
 // lowest energy class ES1.
 func TestSafetyVoltageSELV(t *testing.T) {
-	if v := biasParams(t, "default", "safety.voltage")["max_volts"]; v != 60 {
+	if v := shippedParams(t, "default", "safety.voltage")["max_volts"]; v != 60 {
 		t.Errorf("max_volts %g, want 60", v)
 	}
 	if !contains(rules.SafetyVoltage.Doc.Source, "IEC 60950-1", "60 V DC", "IEC 62368-1", "from memory") {
@@ -50,7 +50,7 @@ func TestSafetyVoltageSpan(t *testing.T) {
 		{[]string{"vlo 5V", "vhi 48V"}, 48, "vhi"},
 		{[]string{"hv 60V"}, 60, "hv"},
 	} {
-		f := biasItem(t, biasJudge(t, rules.SafetyVoltage, rails(c.supplies...), nil, false), c.part, "")
+		f := biasItem(t, judgeRule(t, rules.SafetyVoltage, rails(c.supplies...), nil, false), c.part, "")
 		if f.Measured != c.span || f.Unit != "V" || f.Comparison != "<=" {
 			t.Errorf("%v: span %g, want %g (%+v)", c.supplies, f.Measured, c.span, f)
 		}
@@ -65,7 +65,7 @@ func TestSafetyVoltageSpan(t *testing.T) {
 // that may reach ±31 V span 62 V.
 func TestSafetyVoltageWorstCase(t *testing.T) {
 	src := rails("vpos 28V 25V 31V", "vneg -28V -31V -25V")
-	f := biasItem(t, biasJudge(t, rules.SafetyVoltage, src, nil, true), "vpos", "")
+	f := biasItem(t, judgeRule(t, rules.SafetyVoltage, src, nil, true), "vpos", "")
 	if f.Measured != 62 || f.Corner["vpos"] != 31 || f.Corner["vneg"] != -31 {
 		t.Errorf("worst %g at %v, want 62 V at ±31 V", f.Measured, f.Corner)
 	}
@@ -75,7 +75,7 @@ func TestSafetyVoltageWorstCase(t *testing.T) {
 // corner, so the worst-case search judges one item: +40 V and -38 V that may
 // reach +44 V and -42 V give one finding on vpos, spanning 86 V.
 func TestSafetyVoltageOneItem(t *testing.T) {
-	fs := biasJudge(t, rules.SafetyVoltage, rails("vpos 40V 30V 44V", "vneg -38V -42V -30V"), nil, true)
+	fs := judgeRule(t, rules.SafetyVoltage, rails("vpos 40V 30V 44V", "vneg -38V -42V -30V"), nil, true)
 	if len(fs) != 1 || fs[0].Part != "vpos" || fs[0].Measured != 86 {
 		t.Errorf("want one item on vpos spanning 86 V: %+v", fs)
 	}

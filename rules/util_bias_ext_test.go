@@ -2,73 +2,16 @@ package rules_test
 
 import (
 	"math"
-	"strings"
 	"testing"
 
-	"headroom/checker/analysis"
-	"headroom/checker/circuit"
-	"headroom/checker/corners"
 	"headroom/checker/edit"
 	"headroom/checker/engine"
-	"headroom/checker/ruleset"
-	"headroom/rules"
 )
 
 // Helpers for the unit tests of bias.*, match.input, values.preferred,
 // core.frequency and safety.voltage: run one rule over a circuit written
 // inline, and independent closed forms of FORMAT.md §6's DC model that share
 // nothing with the code under test.
-
-// biasParams returns a shipped rule set's parameters for rule id.
-func biasParams(t testing.TB, set, id string) map[string]float64 {
-	t.Helper()
-	s, err := (&ruleset.Loader{Rules: rules.All()}).Load(set)
-	if err != nil {
-		t.Fatalf("rule set %s: %v", set, err)
-	}
-	out := map[string]float64{}
-	for k, v := range s.Params[id] {
-		out[k] = v
-	}
-	return out
-}
-
-// biasJudge runs rule over the circuit src with the default rule set's
-// parameters, overridden by over; worst selects the worst-case search. It
-// returns every item judged, failing or not, with fixes resolved.
-func biasJudge(t testing.TB, rule *engine.Rule, src string, over map[string]float64, worst bool) []engine.Finding {
-	t.Helper()
-	c, err := circuit.LoadBytes("test.toml", []byte(src), circuit.Options{})
-	if err != nil {
-		t.Fatalf("circuit: %v", err)
-	}
-	params := biasParams(t, "default", rule.ID)
-	for k, v := range over {
-		params[k] = v
-	}
-	cfg := &engine.Config{Rules: []*engine.Rule{rule}, Severity: map[string]engine.Severity{rule.ID: engine.Warning},
-		Params: map[string]map[string]float64{rule.ID: params}, Corners: "nominal"}
-	cs := analysis.Run(c, nil)
-	var fs []engine.Finding
-	if worst {
-		cfg.Corners = "worst"
-		fs, err = corners.Worst(c, cs.Topo, cs, cfg)
-	} else {
-		fs, err = engine.Evaluate(cs, nil, cfg)
-	}
-	if err != nil {
-		t.Fatalf("%s: %v", rule.ID, err)
-	}
-	for i := range fs {
-		fs[i].ResolveFix()
-		for _, v := range []float64{fs[i].Measured, fs[i].Limit} {
-			if math.IsNaN(v) || math.IsInf(v, 0) {
-				t.Errorf("%s %s: a non-finite number in %+v", rule.ID, fs[i].Part, fs[i])
-			}
-		}
-	}
-	return fs
-}
 
 // biasItem returns the one item about part with the given bound ("" for a
 // one-bound rule), failing the test when there is none or more than one.
@@ -96,24 +39,6 @@ func biasApply(t testing.TB, src string, f engine.Finding) string {
 	return string(out)
 }
 
-// within reports whether got lies within rel (a fraction) of want.
-func within(got, want, rel float64) bool {
-	return math.Abs(got-want) <= rel*math.Abs(want)
-}
-
-// contains reports whether s holds every one of subs.
-func contains(s string, subs ...string) bool {
-	for _, x := range subs {
-		if !strings.Contains(s, x) {
-			return false
-		}
-	}
-	return true
-}
-
-// vtAt is k·T/q with the exact SI 2019 constants (REFERENCES.md §3).
-func vtAt(tempC float64) float64 { return 1.380649e-23 * (tempC + 273.15) / 1.602176634e-19 }
-
 // stage is the DC state of one transistor found by closed form.
 type stage struct {
 	IC, IB, VBE, VB, VE float64 // magnitudes, V from the return rail
@@ -126,7 +51,7 @@ type stage struct {
 // IS = icRef/e^(VBEref/VT), VBEref = vbe − 2 mV/°C·(T − 25), IB = IC/β,
 // vth = rth·IB + VBE + (IC + IB)·re. Bisection on IC.
 func dividerStage(vth, rth, re, beta, vbe, icRef, tempC float64) stage {
-	vt := vtAt(tempC)
+	vt := thermalVoltage(tempC)
 	is := icRef / math.Exp((vbe-0.002*(tempC-25))/vt)
 	lo, hi := 0.0, vth/re
 	var ic float64

@@ -5,11 +5,7 @@ import (
 	"strings"
 	"testing"
 
-	"headroom/checker/analysis"
-	"headroom/checker/circuit"
-	"headroom/checker/corners"
 	"headroom/checker/engine"
-	"headroom/checker/ruleset"
 	"headroom/rules"
 )
 
@@ -17,58 +13,6 @@ import (
 // capacitor.voltage): load a circuit written inline, run one rule over it
 // with a shipped rule set's parameters (some overridden), and return what
 // the rule judged, passing or failing.
-
-// marginParams returns a shipped rule set's parameters for rule id.
-func marginParams(t testing.TB, set, id string) map[string]float64 {
-	t.Helper()
-	s, err := (&ruleset.Loader{Rules: rules.All()}).Load(set)
-	if err != nil {
-		t.Fatalf("rule set %s: %v", set, err)
-	}
-	out := map[string]float64{}
-	for k, v := range s.Params[id] {
-		out[k] = v
-	}
-	return out
-}
-
-// marginJudge runs rule over the circuit src (TOML) with the default rule
-// set's parameters, overridden by over; worst selects the worst-case search.
-func marginJudge(t testing.TB, rule *engine.Rule, src string, over map[string]float64, worst bool) []engine.Finding {
-	t.Helper()
-	c, err := circuit.LoadBytes("test.toml", []byte(src), circuit.Options{})
-	if err != nil {
-		t.Fatalf("circuit: %v", err)
-	}
-	params := marginParams(t, "default", rule.ID)
-	for k, v := range over {
-		params[k] = v
-	}
-	cfg := &engine.Config{Rules: []*engine.Rule{rule}, Severity: map[string]engine.Severity{rule.ID: engine.Warning},
-		Params: map[string]map[string]float64{rule.ID: params}, Corners: "nominal"}
-	cs := analysis.Run(c, nil)
-	var fs []engine.Finding
-	if worst {
-		cfg.Corners = "worst"
-		fs, err = corners.Worst(c, cs.Topo, cs, cfg)
-	} else {
-		fs, err = engine.Evaluate(cs, nil, cfg)
-	}
-	if err != nil {
-		t.Fatalf("%s: %v", rule.ID, err)
-	}
-	for i := range fs {
-		fs[i].ResolveFix()
-	}
-	for _, f := range fs {
-		for _, v := range []float64{f.Measured, f.Limit, f.Absolute} {
-			if math.IsNaN(v) || math.IsInf(v, 0) {
-				t.Errorf("%s %s: a non-finite number in %+v", rule.ID, f.Part, f)
-			}
-		}
-	}
-	return fs
-}
 
 // marginFinding returns the one finding about part, failing the test when
 // there is none or more than one.
@@ -84,18 +28,6 @@ func marginFinding(t testing.TB, fs []engine.Finding, part string) engine.Findin
 		t.Fatalf("want one finding about %s, got %d: %+v", part, len(got), fs)
 	}
 	return got[0]
-}
-
-// near reports whether got lies within rel (a fraction) of want.
-func near(got, want, rel float64) bool {
-	return math.Abs(got-want) <= rel*math.Abs(want)
-}
-
-// thermalVoltage is k·T/q with the exact SI constants (REFERENCES.md §3),
-// written here again so that the hand models below share nothing with the
-// code under test.
-func thermalVoltage(tempC float64) float64 {
-	return 1.380649e-23 * (tempC + 273.15) / 1.602176634e-19
 }
 
 // followerPoint is an independent solution of FORMAT.md §6's model for one
@@ -118,15 +50,6 @@ func followerPoint(vb, re, vbe, icRef, beta, tempC float64) (ic, ib, vbeOut floa
 		}
 	}
 	return ic, ic / beta, vt * math.Log(ic/is+1)
-}
-
-func hasAll(s string, subs ...string) bool {
-	for _, x := range subs {
-		if !strings.Contains(s, x) {
-			return false
-		}
-	}
-	return true
 }
 
 // Every rule of the group documents itself fully (explain prints these): a

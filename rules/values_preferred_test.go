@@ -47,7 +47,7 @@ func TestValuesPreferredE24Irregulars(t *testing.T) {
 	for i := range std {
 		parts = append(parts, fmt.Sprintf("S%d resistor %s 5%%", i, std[i]), fmt.Sprintf("G%d resistor %s 5%%", i, geo[i]))
 	}
-	bad := failing(biasJudge(t, rules.ValuesPreferred, board(parts...), nil, false))
+	bad := failing(judgeRule(t, rules.ValuesPreferred, board(parts...), nil, false))
 	for i := range std {
 		if _, ok := bad[fmt.Sprintf("S%d", i)]; ok {
 			t.Errorf("%s (E24) was flagged", std[i])
@@ -73,7 +73,7 @@ func TestValuesPreferredE24Irregulars(t *testing.T) {
 // E12, else E6) and a close-tolerance part may take any coarser series
 // (RULES.md; REFERENCES.md §1). Deviations are |v − n|/n by hand.
 func TestValuesPreferredSeriesForTolerance(t *testing.T) {
-	fs := biasJudge(t, rules.ValuesPreferred, board(
+	fs := judgeRule(t, rules.ValuesPreferred, board(
 		"A resistor 4k7 1%",   // E24 value at 1 %: fine
 		"B resistor 4k75 1%",  // E96 4.75: fine
 		"C resistor 4k75 5%",  // not E24: 4.7 is 1.064 % away
@@ -117,10 +117,10 @@ func TestValuesPreferredSeriesForTolerance(t *testing.T) {
 // (0.213 %) fails. Potentiometers are not judged (their tracks come in their
 // own steps, 5k and 50k among them).
 func TestValuesPreferredThresholdAndScope(t *testing.T) {
-	if d := biasParams(t, "default", "values.preferred")["max_deviation"]; d != 0.002 {
+	if d := shippedParams(t, "default", "values.preferred")["max_deviation"]; d != 0.002 {
 		t.Errorf("max_deviation %g", d)
 	}
-	bad := failing(biasJudge(t, rules.ValuesPreferred, board("A resistor 4709.4", "B resistor 4710"), nil, false))
+	bad := failing(judgeRule(t, rules.ValuesPreferred, board("A resistor 4709.4", "B resistor 4710"), nil, false))
 	if _, ok := bad["A"]; ok {
 		t.Error("4709.4 ohm, 0.2 % from 4k7, must pass")
 	}
@@ -138,7 +138,7 @@ kind = "resistor"
 value = "10k"
 nets = ["w", "gnd"]
 `
-	for _, f := range biasJudge(t, rules.ValuesPreferred, pot, nil, false) {
+	for _, f := range judgeRule(t, rules.ValuesPreferred, pot, nil, false) {
 		if f.Part == "RV1" {
 			t.Errorf("a potentiometer was judged: %+v", f)
 		}
