@@ -24,7 +24,7 @@ const maxAmplification = 1e4
 // and the solutions already found.
 type freq struct {
 	w     float64
-	y0    []complex128   // the assembled base matrix, kept for fresh factorisations
+	y0    *sparse        // the assembled base matrix, kept for fresh factorisations
 	f0    *lu            // its factors
 	d     [][]complex128 // each element's D at w
 	sol   map[branch][]complex128
@@ -40,23 +40,29 @@ func (r *Result) at(f float64) (*freq, error) {
 	nw := r.net
 	fr := &freq{w: 2 * math.Pi * f, sol: map[branch][]complex128{}, fresh: map[string]*lu{}}
 	n := nw.n
-	fr.y0 = make([]complex128, n*n)
-	for i := 0; i < n; i++ {
-		fr.y0[i*n+i] = Gmin
-	}
 	fr.d = make([][]complex128, len(nw.elems))
+	lo, hi := make([]int, n), make([]int, n)
+	for i := range n {
+		lo[i], hi[i] = i, i
+	}
 	for i, e := range nw.elems {
 		d, err := e.adm(fr.w)
 		if err != nil {
 			return nil, fmt.Errorf("%s at %g Hz: %w", name(e), f, err)
 		}
 		fr.d[i] = d
+		span(lo, hi, e.branches, d) // the source too: a removal query stamps it
+	}
+	fr.y0 = newSparse(n, lo, hi)
+	for i := 0; i < n; i++ {
+		fr.y0.add(i, i, Gmin)
+	}
+	for i, e := range nw.elems {
 		if i != nw.source {
-			stamp(fr.y0, n, e.branches, d, 1)
+			stamp(fr.y0, e.branches, fr.d[i], 1)
 		}
 	}
-	a := append([]complex128(nil), fr.y0...)
-	f0, err := factor(a, n)
+	f0, err := fr.y0.clone().factor()
 	if err != nil {
 		return nil, fmt.Errorf("small-signal network at %g Hz: %w", f, err)
 	}
@@ -193,13 +199,12 @@ func (r *Result) impedance(fr *freq, u branch, mods []mod, key string) (complex1
 func (r *Result) freshImpedance(fr *freq, u branch, mods []mod, key string) (complex128, error) {
 	f, ok := fr.fresh[key]
 	if !ok {
-		n := r.net.n
-		y := append([]complex128(nil), fr.y0...)
+		y := fr.y0.clone()
 		for _, m := range mods {
-			stamp(y, n, r.net.elems[m.elem].branches, fr.d[m.elem], m.sign)
+			stamp(y, r.net.elems[m.elem].branches, fr.d[m.elem], m.sign)
 		}
 		var err error
-		if f, err = factor(y, n); err != nil {
+		if f, err = y.factor(); err != nil {
 			return 0, err
 		}
 		fr.fresh[key] = f

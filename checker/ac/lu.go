@@ -10,82 +10,205 @@ import (
 // that frequency.
 var errSingular = errors.New("singular network")
 
-// lu is the LU factorisation with partial pivoting of a dense complex n×n
-// matrix, stored row-major in one slice.
+// lu is the LU factorisation with partial pivoting of a complex n×n matrix,
+// keeping only the factors' non-zero entries off the diagonal, row by row
+// (row i's are col[start[i]:start[i+1]] with values val[...]), so that solves
+// skip the zeros.
 //
 // Why not gonum: gonum/mat factorises only real matrices, and the stacked real
 // form [[G, −B], [B, G]] of the nodal system is twice the size, so its
 // factorisation costs about twice the floating-point work of this one and
-// allocates through the mat API on every call. The networks here have tens of
-// nets, for which a plain complex elimination is the fastest and simplest.
+// allocates through the mat API on every call. The networks here have tens to
+// hundreds of nets in a chain, for which a plain complex elimination over the
+// rows' occupied spans is the fastest and simplest.
 type lu struct {
-	n   int
-	a   []complex128 // L below the diagonal (unit diagonal implied), U on and above
-	piv []int        // row i of the factors is row piv[i] of the original
-	// The factors' non-zero entries off the diagonal, row by row (row i's
-	// are col[start[i]:start[i+1]]), so that solves skip the zeros.
-	lcol, lstart []int
-	ucol, ustart []int
+	n            int
+	piv          []int        // row i of the factors is row piv[i] of the original
+	diag         []complex128 // U's diagonal
+	lcol, lstart []int        // L below the diagonal (unit diagonal implied)
+	lval         []complex128
+	ucol, ustart []int // U above the diagonal
+	uval         []complex128
 }
 
-// factor overwrites a (row-major, n×n) with its LU factors. It fails only on an
-// exactly zero or non-finite pivot.
+// row is one row of a matrix being factorised: the entries of columns
+// lo … lo+len(v)−1; every entry outside that span is exactly +0.
+type row struct {
+	lo int
+	v  []complex128
+}
+
+// at is the entry in column j.
+func (r *row) at(j int) complex128 {
+	if j < r.lo || j >= r.lo+len(r.v) {
+		return 0
+	}
+	return r.v[j-r.lo]
+}
+
+// hi is the last column the row spans (lo−1 for an empty row).
+func (r *row) hi() int { return r.lo + len(r.v) - 1 }
+
+// sparse is an n×n matrix held as row spans, with the last row in which each
+// column is spanned (before any row exchange), which bounds the rows that
+// elimination can reach.
+type sparse struct {
+	n       int
+	rows    []row
+	colLast []int
+}
+
+// newSparse allocates rows spanning lo[i] … hi[i] (every entry +0).
+func newSparse(n int, lo, hi []int) *sparse {
+	total := 0
+	for i := range n {
+		total += hi[i] - lo[i] + 1
+	}
+	buf := make([]complex128, total)
+	m := &sparse{n: n, rows: make([]row, n), colLast: make([]int, n)}
+	for i := range m.colLast {
+		m.colLast[i] = -1
+	}
+	for i := range n {
+		w := hi[i] - lo[i] + 1
+		m.rows[i] = row{lo: lo[i], v: buf[:w:w]}
+		buf = buf[w:]
+		for j := lo[i]; j <= hi[i]; j++ {
+			m.colLast[j] = i
+		}
+	}
+	return m
+}
+
+// clone copies m; the copy's rows may grow without touching m.
+func (m *sparse) clone() *sparse {
+	total := 0
+	for i := range m.rows {
+		total += len(m.rows[i].v)
+	}
+	buf := make([]complex128, total)
+	c := &sparse{n: m.n, rows: make([]row, m.n), colLast: m.colLast}
+	for i, r := range m.rows {
+		w := len(r.v)
+		copy(buf, r.v)
+		c.rows[i] = row{lo: r.lo, v: buf[:w:w]}
+		buf = buf[w:]
+	}
+	return c
+}
+
+// add adds v to entry (i, j), which must lie in row i's span.
+func (m *sparse) add(i, j int, v complex128) {
+	r := &m.rows[i]
+	r.v[j-r.lo] += v
+}
+
+// sub subtracts v from entry (i, j), which must lie in row i's span.
+func (m *sparse) sub(i, j int, v complex128) {
+	r := &m.rows[i]
+	r.v[j-r.lo] -= v
+}
+
+// factor overwrites a (row-major, n×n) with nothing useful and returns its
+// LU factors. It fails only on an exactly zero or non-finite pivot.
 func factor(a []complex128, n int) (*lu, error) {
+	lo, hi := make([]int, n), make([]int, n)
+	for i := range n {
+		lo[i], hi[i] = i, i
+		for j := range n {
+			// A −0 is kept in the span so that it is copied as it is.
+			if v := a[i*n+j]; v != 0 || math.Signbit(real(v)) || math.Signbit(imag(v)) {
+				lo[i], hi[i] = min(lo[i], j), max(hi[i], j)
+			}
+		}
+	}
+	m := newSparse(n, lo, hi)
+	for i := range n {
+		copy(m.rows[i].v, a[i*n+lo[i]:i*n+hi[i]+1])
+	}
+	return m.factor()
+}
+
+// factor eliminates m in place (its rows are consumed) and returns the
+// factors. It performs exactly the arithmetic of dense Gaussian elimination
+// with partial pivoting (the first largest |re|+|im| of the column wins, a
+// pivot row's zero entries and a row's zero multiplier are skipped), in the
+// same order, so its factors are bit for bit those of the dense algorithm;
+// it only leaves out the entries that are zero and stay zero. At step k no row
+// below R(k), the last row spanning any of columns 0…k, can hold a non-zero
+// in column k: exchanges and eliminations happen only at or above R(k).
+func (m *sparse) factor() (*lu, error) {
+	n := m.n
+	rows := m.rows
 	piv := make([]int, n)
-	nz := make([]int, 0, n)
 	for i := range piv {
 		piv[i] = i
 	}
+	nz := make([]int, 0, n)
+	reach := 0 // R(k)
 	for k := 0; k < n; k++ {
+		reach = max(reach, k, m.colLast[k])
 		p, best := k, -1.0
-		for i := k; i < n; i++ {
-			if m := abs1(a[i*n+k]); m > best {
-				p, best = i, m
+		for i := k; i <= reach; i++ {
+			if v := abs1(rows[i].at(k)); v > best {
+				p, best = i, v
 			}
+		}
+		if best < 0 && reach < n-1 {
+			best = 0 // every candidate NaN: the zeros below would win
 		}
 		if best == 0 || math.IsNaN(best) || math.IsInf(best, 0) {
 			return nil, errSingular
 		}
 		if p != k {
-			rk, rp := a[k*n:k*n+n], a[p*n:p*n+n]
-			for j := range rk {
-				rk[j], rp[j] = rp[j], rk[j]
-			}
+			rows[k], rows[p] = rows[p], rows[k]
 			piv[k], piv[p] = piv[p], piv[k]
 		}
-		inv := 1 / a[k*n+k]
-		// Nodal matrices are sparse: update only the pivot row's non-zero columns.
+		rk := &rows[k]
+		inv := 1 / rk.at(k)
 		nz = nz[:0]
-		for j := k + 1; j < n; j++ {
-			if a[k*n+j] != 0 {
+		for j := k + 1; j <= rk.hi(); j++ {
+			if rk.v[j-rk.lo] != 0 {
 				nz = append(nz, j)
 			}
 		}
-		rk := a[k*n : k*n+n]
-		for i := k + 1; i < n; i++ {
-			m := a[i*n+k]
-			if m == 0 {
+		for i := k + 1; i <= reach; i++ {
+			ri := &rows[i]
+			if k < ri.lo || k > ri.hi() {
 				continue
 			}
-			m *= inv
-			a[i*n+k] = m
-			ri := a[i*n : i*n+n]
+			mult := ri.v[k-ri.lo]
+			if mult == 0 {
+				continue
+			}
+			mult *= inv
+			ri.v[k-ri.lo] = mult
+			if len(nz) == 0 {
+				continue
+			}
+			if last := nz[len(nz)-1]; last > ri.hi() {
+				ri.v = append(ri.v, make([]complex128, last-ri.hi())...)
+			}
 			for _, j := range nz {
-				ri[j] -= m * rk[j]
+				ri.v[j-ri.lo] -= mult * rk.v[j-rk.lo]
 			}
 		}
 	}
-	f := &lu{n: n, a: a, piv: piv, lstart: make([]int, n+1), ustart: make([]int, n+1)}
-	for i := 0; i < n; i++ {
-		for j := 0; j < i; j++ {
-			if a[i*n+j] != 0 {
+	f := &lu{n: n, piv: piv, diag: make([]complex128, n), lstart: make([]int, n+1), ustart: make([]int, n+1)}
+	for i := range n {
+		r := &rows[i]
+		for j := r.lo; j < i; j++ {
+			if v := r.v[j-r.lo]; v != 0 {
 				f.lcol = append(f.lcol, j)
+				f.lval = append(f.lval, v)
 			}
 		}
 		f.lstart[i+1] = len(f.lcol)
-		for j := i + 1; j < n; j++ {
-			if a[i*n+j] != 0 {
+		f.diag[i] = r.at(i)
+		for j := i + 1; j <= r.hi(); j++ {
+			if v := r.v[j-r.lo]; v != 0 {
 				f.ucol = append(f.ucol, j)
+				f.uval = append(f.uval, v)
 			}
 		}
 		f.ustart[i+1] = len(f.ucol)
@@ -102,19 +225,17 @@ func (f *lu) solve(b []complex128) []complex128 {
 	}
 	for i := 1; i < n; i++ {
 		s := x[i]
-		row := f.a[i*n : i*n+n]
-		for _, j := range f.lcol[f.lstart[i]:f.lstart[i+1]] {
-			s -= row[j] * x[j]
+		for k := f.lstart[i]; k < f.lstart[i+1]; k++ {
+			s -= f.lval[k] * x[f.lcol[k]]
 		}
 		x[i] = s
 	}
 	for i := n - 1; i >= 0; i-- {
 		s := x[i]
-		row := f.a[i*n : i*n+n]
-		for _, j := range f.ucol[f.ustart[i]:f.ustart[i+1]] {
-			s -= row[j] * x[j]
+		for k := f.ustart[i]; k < f.ustart[i+1]; k++ {
+			s -= f.uval[k] * x[f.ucol[k]]
 		}
-		x[i] = s / row[i]
+		x[i] = s / f.diag[i]
 	}
 	return x
 }

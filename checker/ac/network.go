@@ -285,8 +285,8 @@ func conductance(g float64) func(float64) ([]complex128, error) {
 // positive reports a finite value above zero.
 func positive(x float64) bool { return x > 0 && !math.IsInf(x, 0) }
 
-// stamp adds D (r×r, times sign) over the branches into the row-major n×n matrix y.
-func stamp(y []complex128, n int, br []branch, d []complex128, sign complex128) {
+// stamp adds D (r×r, times sign) over the branches into y.
+func stamp(y *sparse, br []branch, d []complex128, sign complex128) {
 	r := len(br)
 	for i, bi := range br {
 		for j, bj := range br {
@@ -296,20 +296,42 @@ func stamp(y []complex128, n int, br []branch, d []complex128, sign complex128) 
 			}
 			if bi.from != ground {
 				if bj.from != ground {
-					y[bi.from*n+bj.from] += v
+					y.add(bi.from, bj.from, v)
 				}
 				if bj.to != ground {
-					y[bi.from*n+bj.to] -= v
+					y.sub(bi.from, bj.to, v)
 				}
 			}
 			if bi.to != ground {
 				if bj.from != ground {
-					y[bi.to*n+bj.from] -= v
+					y.sub(bi.to, bj.from, v)
 				}
 				if bj.to != ground {
-					y[bi.to*n+bj.to] += v
+					y.add(bi.to, bj.to, v)
 				}
 			}
+		}
+	}
+}
+
+// span widens each row's span lo[i] … hi[i] to the entries stamp would touch
+// for D over the branches.
+func span(lo, hi []int, br []branch, d []complex128) {
+	r := len(br)
+	widen := func(i, j int) {
+		if i != ground && j != ground {
+			lo[i], hi[i] = min(lo[i], j), max(hi[i], j)
+		}
+	}
+	for i, bi := range br {
+		for j, bj := range br {
+			if d[i*r+j] == 0 {
+				continue
+			}
+			widen(bi.from, bj.from)
+			widen(bi.from, bj.to)
+			widen(bi.to, bj.from)
+			widen(bi.to, bj.to)
 		}
 	}
 }
