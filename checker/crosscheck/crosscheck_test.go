@@ -1,6 +1,7 @@
 package crosscheck
 
 import (
+	"flag"
 	"fmt"
 	"math"
 	"math/cmplx"
@@ -73,6 +74,8 @@ type tally struct {
 	// caller can first decide whether the comparison applies (see merge).
 	quiet bool
 	msgs  []string
+	// prefix is put before every quantity name, to tally a run apart.
+	prefix string
 }
 
 const maxReported = 40
@@ -94,6 +97,7 @@ func (ty *tally) fail(format string, args ...any) {
 // cmp records ref (the reference) against got (the implementation under test).
 func (ty *tally) cmp(q string, floor float64, where string, ref, got float64) {
 	ty.t.Helper()
+	q = ty.prefix + q
 	s := ty.stats[q]
 	if s == nil {
 		s = &stat{floor: floor}
@@ -129,6 +133,7 @@ func (ty *tally) cmp(q string, floor float64, where string, ref, got float64) {
 // cmpC compares complex values by their distance, relative to the larger magnitude.
 func (ty *tally) cmpC(q string, floor float64, where string, ref, got complex128) {
 	ty.t.Helper()
+	q = ty.prefix + q
 	s := ty.stats[q]
 	if s == nil {
 		s = &stat{floor: floor}
@@ -204,12 +209,19 @@ func (ty *tally) log() {
 	ty.t.Log("\n" + b.String())
 }
 
-// circuitCount is how many random circuits the comparison draws.
-func circuitCount() int {
-	if testing.Short() {
-		return 200
+// circuitsFlag overrides how many random circuits each comparison draws, for
+// a long hunt: go test ./checker/crosscheck -circuits 50000.
+var circuitsFlag = flag.Int("circuits", 0, "random circuits per comparison (0: the default)")
+
+// circuitCount is how many random circuits a comparison draws.
+func circuitCount(normal, short int) int {
+	switch {
+	case *circuitsFlag > 0:
+		return *circuitsFlag
+	case testing.Short():
+		return short
 	}
-	return 3000
+	return normal
 }
 
 // TestAgainstReference compares checker/dc and checker/ac with the reference
@@ -217,7 +229,7 @@ func circuitCount() int {
 // model of §6 defines.
 func TestAgainstReference(t *testing.T) {
 	ty := newTally(t)
-	n := circuitCount()
+	n := circuitCount(3000, 400)
 	skipped, compared, nonNewton := 0, 0, 0
 	seen := map[string]int{} // features the comparison must have covered
 	for seed := uint64(1); seed <= uint64(n); seed++ {

@@ -154,7 +154,13 @@ func (a *admittance) solve() (map[string]complex128, error) {
 }
 
 // newACModel takes the hybrid-π figures from the reference operating point.
-func newACModel(c *circuit.Circuit, op *refOP) *acModel {
+func newACModel(c *circuit.Circuit, op *refOP) *acModel { return newACModelGm(c, op, false) }
+
+// newACModelGm is newACModel; with gmOfMagnitude, a transistor conducting in
+// reverse gets gm = |IC|/VT instead of FORMAT.md §6's 0 — ac's present
+// convention (TestBugGmOfReverseConductingTransistor), used only to keep
+// checking the rest of ac on such circuits until that is settled.
+func newACModelGm(c *circuit.Circuit, op *refOP, gmOfMagnitude bool) *acModel {
 	m := &acModel{c: c, index: map[string]int{}, gm: map[string]float64{}, cpi: map[string]float64{}}
 	ground := map[string]bool{circuit.Gnd: true}
 	for _, s := range c.Supplies {
@@ -178,6 +184,8 @@ func newACModel(c *circuit.Circuit, op *refOP) *acModel {
 		gm := 0.0
 		if b := op.BJT[p.Ref]; b != nil && b.ICf > 0 {
 			gm = b.ICf / op.VT
+		} else if b != nil && gmOfMagnitude {
+			gm = math.Abs(b.ICf) / op.VT
 		}
 		m.gm[p.Ref] = gm
 		m.cpi[p.Ref] = math.Max(gm/(2*math.Pi*p.BJT.FT)-p.BJT.Cob, 0)
@@ -332,7 +340,12 @@ const maxRL = 99 // dB, FORMAT.md §5: return loss capped at 99 dB
 
 // refAnalyze runs the reference small-signal analysis at op.
 func refAnalyze(c *circuit.Circuit, op *refOP) (*refAC, error) {
-	m := newACModel(c, op)
+	return refAnalyzeGm(c, op, false)
+}
+
+// refAnalyzeGm is refAnalyze with the gm convention of newACModelGm.
+func refAnalyzeGm(c *circuit.Circuit, op *refOP, gmOfMagnitude bool) (*refAC, error) {
+	m := newACModelGm(c, op, gmOfMagnitude)
 	lo, hi := c.Band[0], c.Band[1]
 	r := &refAC{
 		Freq:  [3]float64{lo, math.Sqrt(lo * hi), hi},
