@@ -396,22 +396,158 @@ func unitMismatch(w string, u Unit) string {
 // The digits are the shortest that read back as v, and Parse(Format(v, u), u)
 // == v for every finite v (for temperatures, every v at or above absolute zero).
 func Format(v float64, u Unit) string {
+	var buf [64]byte
+	return string(appendFormat(buf[:0], v, u, -1))
+}
+
+// appendFormat appends Format(v, u) to dst when prec < 0; with prec ≥ 0 it
+// appends Format of v rounded to prec+1 significant figures (see Approx, which
+// makes sure that the rounded value's shortest digits are the rounded digits).
+func appendFormat(dst []byte, v float64, u Unit, prec int) []byte {
+	if v == 0 || math.IsInf(v, 0) || math.IsNaN(v) {
+		return appendSpecial(dst, v, u)
+	}
+	var dbuf [32]byte
+	d := digitsOf(dbuf[:0], v, prec)
 	switch u {
 	case Celsius:
-		return trimNum(v) + " °C"
+		return append(appendG(dst, d), " °C"...)
 	case Fraction:
-		return percent(v) + " %"
+		return append(appendPercent(dst, d), " %"...)
 	case Ratio:
-		return trimNum(v)
+		return appendG(dst, d)
 	}
-	if u == Ohm && math.Abs(v) < 1 && v != 0 {
-		return subOhm(v) + " " + u.String()
+	if u == Ohm && d.exp < 0 { // |v| < 1
+		return append(append(appendSubOhm(dst, d), ' '), u.String()...)
 	}
-	m, p, ok := engineering(v)
+	dst, ok := appendEngineering(dst, d, u)
 	if !ok {
-		return trimNum(v) + " " + u.String()
+		dst = append(appendG(dst, d), ' ')
 	}
-	return m + " " + p + u.String()
+	return append(dst, u.String()...)
+}
+
+// appendSpecial is Format for 0, ±Inf and NaN, which have no digits to place.
+func appendSpecial(dst []byte, v float64, u Unit) []byte {
+	dst = strconv.AppendFloat(dst, v, 'g', -1, 64)
+	switch u {
+	case Celsius:
+		return append(dst, " °C"...)
+	case Fraction:
+		return append(dst, " %"...)
+	case Ratio:
+		return dst
+	}
+	dst = append(dst, ' ')
+	return append(dst, u.String()...)
+}
+
+// dec is a finite non-zero value as decimal digits: ±0.d1d2… × 10^(exp+1),
+// i.e. exp is the exponent of the first digit; digits has no trailing zero.
+type dec struct {
+	neg    bool
+	digits []byte
+	exp    int
+}
+
+// digitsOf gives v's shortest decimal digits that read back as v (prec < 0)
+// or v's digits rounded to prec+1 significant figures, trailing zeros
+// dropped; v is finite and not zero. The digits are appended to buf.
+func digitsOf(buf []byte, v float64, prec int) dec {
+	var sbuf [32]byte
+	s := strconv.AppendFloat(sbuf[:0], math.Abs(v), 'e', prec, 64) // d.ddde±xx
+	d := dec{neg: math.Signbit(v)}
+	i := 0
+	for ; s[i] != 'e'; i++ {
+		if s[i] != '.' {
+			buf = append(buf, s[i])
+		}
+	}
+	for len(buf) > 1 && buf[len(buf)-1] == '0' {
+		buf = buf[:len(buf)-1]
+	}
+	d.digits = buf
+	neg := s[i+1] == '-'
+	for _, c := range s[i+2:] {
+		d.exp = d.exp*10 + int(c-'0')
+	}
+	if neg {
+		d.exp = -d.exp
+	}
+	return d
+}
+
+func appendSign(dst []byte, d dec) []byte {
+	if d.neg {
+		return append(dst, '-')
+	}
+	return dst
+}
+
+// appendG writes d as strconv's shortest 'g' format does: plain below an
+// exponent of 6 and from −4, else d.ddde±xx.
+func appendG(dst []byte, d dec) []byte {
+	dst = appendSign(dst, d)
+	if d.exp < -4 || d.exp >= 6 {
+		dst = append(dst, d.digits[0])
+		if len(d.digits) > 1 {
+			dst = append(append(dst, '.'), d.digits[1:]...)
+		}
+		dst = append(dst, 'e')
+		e := d.exp
+		if e < 0 {
+			dst, e = append(dst, '-'), -e
+		} else {
+			dst = append(dst, '+')
+		}
+		if e < 10 {
+			dst = append(dst, '0')
+		}
+		return strconv.AppendInt(dst, int64(e), 10)
+	}
+	return appendPoint(dst, d.digits, d.exp+1)
+}
+
+// appendSubOhm writes a resistance below one ohm as a plain decimal ("0.47"),
+// or with an exponent below a milliohm, where a decimal would be mostly zeros.
+func appendSubOhm(dst []byte, d dec) []byte {
+	if d.exp < -3 { // |v| < 1e-3
+		return appendG(dst, d)
+	}
+	return appendPoint(appendSign(dst, d), d.digits, d.exp+1)
+}
+
+// subOhm is appendSubOhm for v (0 < |v| < 1) as a string.
+func subOhm(v float64) string {
+	var buf, dbuf [32]byte
+	return string(appendSubOhm(buf[:0], digitsOf(dbuf[:0], v, -1)))
+}
+
+// prefixNames are the SI prefixes by (exponent + 12) / 3.
+var prefixNames = [...]string{"p", "n", "\u00b5", "m", "", "k", "M", "G"}
+
+// appendEngineering appends d's mantissa in [1, 1000), a space and the
+// prefix, shifting the decimal point in the digit string so that no rounding
+// happens. ok is false for magnitudes outside [0.001 p, 1000 G), and then
+// nothing is appended.
+func appendEngineering(dst []byte, d dec, u Unit) ([]byte, bool) {
+	e3, ok := prefixExp(d.exp)
+	if !ok {
+		return dst, false
+	}
+	dst = appendPoint(appendSign(dst, d), d.digits, d.exp-e3+1)
+	dst = append(dst, ' ')
+	return append(dst, prefixNames[(e3+12)/3]...), true
+}
+
+// prefixExp is the prefix exponent (a multiple of 3) for a first digit at
+// 10^exp.
+func prefixExp(exp int) (int, bool) {
+	e3 := int(math.Floor(float64(exp)/3)) * 3
+	if e3 < -12 && exp >= -15 {
+		e3 = -12 // 0.68 pF, p68: the smallest prefix takes mantissas down to 0.001
+	}
+	return e3, e3 >= -12 && e3 <= 9
 }
 
 // Code writes v as it would be typed into a circuit file for a field of unit
@@ -471,15 +607,6 @@ func Code(v float64, u Unit) string {
 	return whole + letter + frac
 }
 
-// subOhm writes a resistance below one ohm as a plain decimal ("0.47"), or
-// with an exponent below a milliohm, where a decimal would be mostly zeros.
-func subOhm(v float64) string {
-	if math.Abs(v) < 1e-3 {
-		return trimNum(v)
-	}
-	return strconv.FormatFloat(v, 'f', -1, 64)
-}
-
 // engineering splits v into a mantissa string in [1, 1000) and a prefix,
 // shifting the decimal point in the digit string so that no rounding happens.
 // ok is false for NaN, Inf and magnitudes outside [0.001 p, 1000 G).
@@ -487,28 +614,13 @@ func engineering(v float64) (mant, prefix string, ok bool) {
 	if v == 0 || math.IsInf(v, 0) || math.IsNaN(v) {
 		return trimNum(v), "", v == 0
 	}
-	sign, digits, exp := decimal(v)
-	e3 := int(math.Floor(float64(exp)/3)) * 3
-	if e3 < -12 && exp >= -15 {
-		e3 = -12 // 0.68 pF, p68: the smallest prefix takes mantissas down to 0.001
-	}
-	if e3 < -12 || e3 > 9 {
+	var dbuf, buf [32]byte
+	d := digitsOf(dbuf[:0], v, -1)
+	e3, ok := prefixExp(d.exp)
+	if !ok {
 		return "", "", false
 	}
-	prefix = map[int]string{-12: "p", -9: "n", -6: "\u00b5", -3: "m", 0: "", 3: "k", 6: "M", 9: "G"}[e3]
-	return sign + placePoint(digits, exp-e3+1), prefix, true
-}
-
-// decimal gives the shortest decimal digits of v that read back as v, with
-// v = sign 0.d1d2d3… × 10^(exp+1), i.e. exp is the exponent of the first digit.
-func decimal(v float64) (sign, digits string, exp int) {
-	s := strconv.FormatFloat(math.Abs(v), 'e', -1, 64) // d.ddde±x
-	if math.Signbit(v) {
-		sign = "-"
-	}
-	mant, expStr, _ := strings.Cut(s, "e")
-	exp, _ = strconv.Atoi(expStr)
-	return sign, strings.Replace(mant, ".", "", 1), exp
+	return string(appendPoint(appendSign(buf[:0], d), d.digits, d.exp-e3+1)), prefixNames[(e3+12)/3], true
 }
 
 // percent writes the fraction v in percent by moving the decimal point two
@@ -517,27 +629,43 @@ func percent(v float64) string {
 	if v == 0 || math.IsInf(v, 0) || math.IsNaN(v) {
 		return trimNum(v)
 	}
-	sign, digits, exp := decimal(v)
-	exp += 2
-	if exp < -4 || exp >= 21 {
-		m := digits[:1]
-		if len(digits) > 1 {
-			m += "." + digits[1:]
-		}
-		return sign + m + "e" + strconv.Itoa(exp)
-	}
-	return sign + placePoint(digits, exp+1)
+	var dbuf, buf [32]byte
+	return string(appendPercent(buf[:0], digitsOf(dbuf[:0], v, -1)))
 }
 
-// placePoint puts the decimal point after the first n digits, padding with zeros.
-func placePoint(digits string, n int) string {
+func appendPercent(dst []byte, d dec) []byte {
+	dst = appendSign(dst, d)
+	exp := d.exp + 2
+	if exp < -4 || exp >= 21 {
+		dst = append(dst, d.digits[0])
+		if len(d.digits) > 1 {
+			dst = append(append(dst, '.'), d.digits[1:]...)
+		}
+		dst = append(dst, 'e')
+		return strconv.AppendInt(dst, int64(exp), 10)
+	}
+	return appendPoint(dst, d.digits, exp+1)
+}
+
+// appendPoint puts the decimal point after the first n digits, padding with zeros.
+func appendPoint(dst, digits []byte, n int) []byte {
 	switch {
 	case n <= 0:
-		return "0." + strings.Repeat("0", -n) + digits
+		dst = append(dst, "0."...)
+		for ; n < 0; n++ {
+			dst = append(dst, '0')
+		}
+		return append(dst, digits...)
 	case n >= len(digits):
-		return digits + strings.Repeat("0", n-len(digits))
+		dst = append(dst, digits...)
+		for n -= len(digits); n > 0; n-- {
+			dst = append(dst, '0')
+		}
+		return dst
 	}
-	return digits[:n] + "." + digits[n:]
+	dst = append(dst, digits[:n]...)
+	dst = append(dst, '.')
+	return append(dst, digits[n:]...)
 }
 
 func trimNum(v float64) string { return strconv.FormatFloat(v, 'g', -1, 64) }
