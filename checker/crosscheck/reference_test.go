@@ -40,8 +40,8 @@ func TestReferenceDiodeConnected(t *testing.T) {
 	// Exact SI constants (SI Brochure, 9th edition, 2019).
 	vt := 1.380649e-23 * (40 + 273.15) / 1.602176634e-19
 	is := 5e-3 / math.Exp((0.68-0.002*(40-25))/vt) // FORMAT.md §6
-	bf := math.Sqrt(60 * 240)                     // FORMAT.md §3: no hfe_typ
-	f := func(v float64) float64 { // current surplus at the node, A
+	bf := math.Sqrt(60 * 240)                      // FORMAT.md §3: no hfe_typ
+	f := func(v float64) float64 {                 // current surplus at the node, A
 		return (9-v)/4700 - is*(math.Exp(v/vt)-1)*(1+1/bf) - 1e-12*v
 	}
 	lo, hi := 0.0, 9.0
