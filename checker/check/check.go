@@ -149,7 +149,7 @@ func (r *Runner) judge(c *circuit.Circuit, cfg *engine.Config) ([]engine.Finding
 		}
 		fs, err = r.opt.Worst(c, topo, nominal, cfg)
 	} else {
-		fs, err = engine.Evaluate(nominal, nil, cfg)
+		fs, err = engine.Measure(nominal, nil, cfg) // messages are written below, for failing items only
 	}
 	if err != nil {
 		return nil, err
@@ -160,6 +160,7 @@ func (r *Runner) judge(c *circuit.Circuit, cfg *engine.Config) ([]engine.Finding
 		if !f.Failing() {
 			continue
 		}
+		f.ResolveMessage()
 		f.ResolveFix()
 		f.Severity = cfg.Severity[f.Rule]
 		if f.Absolute > 1 {

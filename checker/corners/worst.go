@@ -26,10 +26,11 @@ type item struct {
 }
 
 // Worst judges every item at the most adverse case of the box and returns
-// one finding per item (failing or not, as engine.Evaluate does).
+// one finding per item (failing or not, as engine.Evaluate does). Messages
+// are written only for the cases reported.
 func Worst(c *circuit.Circuit, topo *topology.Topology, nominal *analysis.Case, cfg *engine.Config) ([]engine.Finding, error) {
 	box := Box(c)
-	fs, err := engine.Evaluate(nominal, nominal, cfg)
+	fs, err := engine.Measure(nominal, nominal, cfg)
 	if err != nil {
 		return nil, err
 	}
@@ -59,7 +60,7 @@ func Worst(c *circuit.Circuit, topo *topology.Topology, nominal *analysis.Case, 
 	for i, p := range box {
 		cc := c.Clone()
 		p.set(cc, p.Hi)
-		hi, err := engine.Evaluate(analysis.Run(cc, topo), nominal, cfg)
+		hi, err := engine.Measure(analysis.Run(cc, topo), nominal, cfg)
 		if err != nil {
 			return nil, err
 		}
@@ -112,7 +113,7 @@ func Worst(c *circuit.Circuit, topo *topology.Topology, nominal *analysis.Case, 
 				corner[p.Key] = p.Lo
 			}
 		}
-		vf, err := engine.Evaluate(analysis.Run(cc, topo), nominal, cfg)
+		vf, err := engine.Measure(analysis.Run(cc, topo), nominal, cfg)
 		if err != nil {
 			return nil, err
 		}
@@ -132,6 +133,7 @@ func Worst(c *circuit.Circuit, topo *topology.Topology, nominal *analysis.Case, 
 	for _, k := range order {
 		it := items[k]
 		f := it.best
+		f.ResolveMessage()
 		f.Corner = it.corner
 		f.CornerText = Describe(box, it.corner)
 		out = append(out, f)

@@ -5,6 +5,7 @@ import (
 	"sort"
 
 	"headroom/checker/analysis"
+	"headroom/checker/circuit"
 )
 
 // Config is the effective rule set for one circuit file.
@@ -25,23 +26,57 @@ func (cfg *Config) Enabled(r *Rule) bool { return cfg.Severity[r.ID] != Off }
 // the nominal case of a worst-case search, nil for a nominal run (rules that
 // need corners run only in a search).
 func Evaluate(cs *analysis.Case, nominal *analysis.Case, cfg *Config) ([]Finding, error) {
+	fs, err := Measure(cs, nominal, cfg)
+	for i := range fs {
+		fs[i].ResolveMessage()
+	}
+	return fs, err
+}
+
+// Measure is Evaluate without writing the messages a rule left for later
+// (MessageLater): the worst-case search judges every item at many cases and
+// writes each message once, at the case it reports.
+func Measure(cs *analysis.Case, nominal *analysis.Case, cfg *Config) ([]Finding, error) {
 	worst := nominal != nil
 	if nominal == nil {
 		nominal = cs
 	}
+	pos := positions(cs.Circuit)
 	var all []Finding
 	for _, r := range cfg.Rules {
 		if r.Run == nil || !cfg.Enabled(r) || r.NeedsCorners && !worst || r.Static && cs != nominal {
 			continue
 		}
 		p := &Pass{Circuit: cs.Circuit, A: cs, Params: cfg.Params[r.ID], Corners: worst,
-			Nominal: nominal, NominalCircuit: nominal.Circuit, rule: r}
+			Nominal: nominal, NominalCircuit: nominal.Circuit, rule: r, pos: pos}
 		if err := r.Run(p); err != nil {
 			return nil, fmt.Errorf("rule %s: %w", r.ID, err)
 		}
 		all = append(all, p.findings...)
 	}
 	return all, nil
+}
+
+// positions indexes where findings about each part, port and supply point,
+// with PosOf's precedence: a part first, then a port, then a supply.
+func positions(c *circuit.Circuit) map[string]circuit.Pos {
+	pos := make(map[string]circuit.Pos, len(c.Parts)+len(c.Ports)+len(c.Supplies))
+	for _, part := range c.Parts {
+		if _, ok := pos[part.Ref]; !ok {
+			pos[part.Ref] = part.Pos
+		}
+	}
+	for _, port := range c.Ports {
+		if _, ok := pos[port.Name]; !ok {
+			pos[port.Name] = port.Pos
+		}
+	}
+	for _, s := range c.Supplies {
+		if _, ok := pos[s.Net]; !ok {
+			pos[s.Net] = s.Pos
+		}
+	}
+	return pos
 }
 
 // Key identifies one judged item across cases: the rule, the part and, for a

@@ -34,6 +34,11 @@ type Finding struct {
 	Part    string      // part, port or supply name; "" for the whole circuit
 	Pos     circuit.Pos // where the finding points
 	Message string      // states the fact, in the case judged
+	// MessageLater writes Message when formatting it costs more than judging
+	// the item: Evaluate calls it at once, the worst-case search only for the
+	// case it finally reports instead of at every corner. It must capture
+	// only what the message needs, not the whole case.
+	MessageLater func() string
 
 	// The metric, in SI base units. Comparison reads "Measured must be
 	// Comparison Limit".
@@ -69,6 +74,16 @@ type Change struct {
 	Part string `json:"part"`
 	Key  string `json:"key"`
 	To   string `json:"to"`
+}
+
+// ResolveMessage fills Message from MessageLater, once.
+func (f *Finding) ResolveMessage() {
+	if f.MessageLater != nil {
+		if f.Message == "" {
+			f.Message = f.MessageLater()
+		}
+		f.MessageLater = nil
+	}
 }
 
 // ResolveFix fills Fix and Changes from FixLater, once.

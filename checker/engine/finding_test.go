@@ -63,3 +63,16 @@ func TestResolveFixOnce(t *testing.T) {
 		t.Fatalf("ResolveFix: calls %d, fix %q, changes %v", calls, f.Fix, f.Changes)
 	}
 }
+
+func TestResolveMessageOnce(t *testing.T) {
+	calls := 0
+	f := &Finding{MessageLater: func() string {
+		calls++
+		return "R1 dissipates 120 mW"
+	}}
+	f.ResolveMessage()
+	f.ResolveMessage()
+	if calls != 1 || f.Message != "R1 dissipates 120 mW" || f.MessageLater != nil {
+		t.Fatalf("ResolveMessage: calls %d, message %q", calls, f.Message)
+	}
+}

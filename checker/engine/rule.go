@@ -63,6 +63,7 @@ type Pass struct {
 	NominalCircuit *circuit.Circuit
 	rule           *Rule
 	findings       []Finding
+	pos            map[string]circuit.Pos // PosOf's answers, when Measure built them
 }
 
 // Param returns a parameter's value.
@@ -82,6 +83,9 @@ func (p *Pass) Report(f Finding) {
 // PosOf is the position findings about a part, port or supply point at;
 // the [circuit] table for anything else.
 func (p *Pass) PosOf(name string) circuit.Pos {
+	if pos, ok := p.pos[name]; ok {
+		return pos
+	}
 	c := p.Circuit
 	if part := c.Part(name); part != nil {
 		return part.Pos
