@@ -61,7 +61,7 @@ func (n *net) ind(ref, a, b string, v float64) *net {
 func (n *net) bjt(kind circuit.Kind, ref, c, b, e string, ic, hfe, ft, cob float64) *net {
 	n.c.Parts = append(n.c.Parts, &circuit.Part{Ref: ref, Kind: kind, Nets: []string{c, b, e},
 		BJT: &circuit.BJTParams{FT: ft, HFEMin: hfe, HFEMax: hfe, Cob: cob}})
-	n.op.BJTs[ref] = &dc.BJT{IC: ic, HFE: hfe}
+	n.op.BJTs[ref] = &dc.BJT{IC: ic, ICf: ic, HFE: hfe}
 	return n
 }
 

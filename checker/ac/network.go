@@ -260,15 +260,17 @@ func hybridPi(p *circuit.Part, op *dc.Result) (pi, error) {
 	if !positive(op.VT) {
 		return pi{}, fmt.Errorf("thermal voltage %g is not a positive finite value", op.VT)
 	}
-	if !positive(q.HFE) || math.IsNaN(q.IC) || math.IsInf(q.IC, 0) {
-		return pi{}, fmt.Errorf("operating point IC %g, hFE %g is not usable", q.IC, q.HFE)
+	if !positive(q.HFE) || math.IsNaN(q.ICf) || math.IsInf(q.ICf, 0) {
+		return pi{}, fmt.Errorf("operating point IC %g, hFE %g is not usable", q.ICf, q.HFE)
 	}
 	if !positive(p.BJT.FT) || !(p.BJT.Cob >= 0) || math.IsInf(p.BJT.Cob, 0) {
 		return pi{}, fmt.Errorf("ft %g or cob %g out of range", p.BJT.FT, p.BJT.Cob)
 	}
 	h := pi{Cmu: p.BJT.Cob, FT: p.BJT.FT}
-	if q.IC > 0 {
-		h.GM = q.IC / op.VT
+	// IC in the device's forward sense: a transistor conducting in reverse
+	// has gm = 0 (FORMAT.md §6), not the gm of its current's magnitude.
+	if q.ICf > 0 {
+		h.GM = q.ICf / op.VT
 		h.gpi = h.GM / q.HFE
 		h.Rpi = q.HFE / h.GM
 		h.Cpi = math.Max(h.GM/(2*math.Pi*p.BJT.FT)-h.Cmu, 0)
