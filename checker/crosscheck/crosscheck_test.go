@@ -58,7 +58,7 @@ const (
 	floorDB = 0.01
 )
 
-// stat accumulates the comparison of one quantity over every circuit.
+// stat accumulates the comparison of one quantity over all the circuits.
 type stat struct {
 	floor          float64
 	n, fails       int

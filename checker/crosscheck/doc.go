@@ -8,7 +8,7 @@
 // The reference lives in the package's _test.go files only: plain nodal
 // analysis with every zero-resistance inductor or winding merged away
 // (union-find) for DC, and a complex admittance matrix solved as the stacked
-// real system [[G, −B], [B, G]] for AC, where every circuit impedance is found
+// real system [[G, −B], [B, G]] for AC, where each circuit impedance is found
 // by literally removing the part and driving the network with a 1 A test
 // current.
 package crosscheck
