@@ -9,6 +9,7 @@ import (
 	"fmt"
 	"os"
 	"path/filepath"
+	"sync"
 	"time"
 
 	"headroom/checker/analysis"
@@ -48,8 +49,10 @@ type Result struct {
 	Skipped  bool  // not a circuit file
 }
 
-// Runner checks files, caching rule sets between them.
+// Runner checks files, caching rule sets between them. File may be called
+// from several goroutines at once.
 type Runner struct {
+	mu     sync.Mutex // guards sets
 	opt    Options
 	loader *ruleset.Loader
 	sets   map[string]*ruleset.Set
@@ -76,6 +79,8 @@ func (r *Runner) RuleSet(path string) (*ruleset.Set, error) {
 	if r.opt.Set != nil {
 		return r.opt.Set, nil
 	}
+	r.mu.Lock()
+	defer r.mu.Unlock()
 	ref := r.opt.RulesRef
 	if ref == "" {
 		ref = ruleset.Discover(filepath.Dir(path), r.opt.Exists)

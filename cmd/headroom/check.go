@@ -6,8 +6,10 @@ import (
 	"io/fs"
 	"os"
 	"path/filepath"
+	"runtime"
 	"sort"
 	"strings"
+	"sync"
 
 	"headroom/checker/check"
 	"headroom/checker/corners"
@@ -61,11 +63,7 @@ func (e *env) check(args []string) int {
 			return e.usageError("%v", err)
 		}
 	}
-	runner := check.NewRunner(opt)
-	var results []check.Result
-	for _, in := range inputs {
-		results = append(results, runner.File(in.path, in.data))
-	}
+	results := checkAll(check.NewRunner(opt), inputs)
 	status := exitOK
 	for _, r := range results {
 		if r.Err != nil {
@@ -178,4 +176,26 @@ func (e *env) colour(flag string) bool {
 	}
 	st, err := f.Stat()
 	return err == nil && st.Mode()&os.ModeCharDevice != 0
+}
+
+// checkAll checks the files on every core, keeping their order in the output.
+func checkAll(runner *check.Runner, inputs []input) []check.Result {
+	results := make([]check.Result, len(inputs))
+	next := make(chan int)
+	var wg sync.WaitGroup
+	for range min(runtime.GOMAXPROCS(0), max(len(inputs), 1)) {
+		wg.Add(1)
+		go func() {
+			defer wg.Done()
+			for i := range next {
+				results[i] = runner.File(inputs[i].path, inputs[i].data)
+			}
+		}()
+	}
+	for i := range inputs {
+		next <- i
+	}
+	close(next)
+	wg.Wait()
+	return results
 }
