@@ -48,10 +48,13 @@ func runCollectorHeadroom(p *engine.Pass) error {
 		if q == nil || tb == nil {
 			continue
 		}
-		m, l := approx2(q.VCEf, minV, quantity.Volt)
+		vce := q.VCEf
 		f := engine.Finding{Part: part.Ref,
 			HasMetric: true, Measured: q.VCEf, Limit: minV, Comparison: ">=", Unit: "V",
-			Message: fmt.Sprintf("%s has %s from collector to emitter, needs at least %s", part.Ref, m, l)}
+			MessageLater: func() string {
+				m, l := approx2(vce, minV, quantity.Volt)
+				return fmt.Sprintf("%s has %s from collector to emitter, needs at least %s", part.Ref, m, l)
+			}}
 		if engine.Fails(q.VCEf, minV, ">=") {
 			f.FixLater = func() (string, []engine.Change) { return headroomFix(p, tb, minV) }
 		}

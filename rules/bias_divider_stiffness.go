@@ -77,10 +77,12 @@ func runDividerStiffness(p *engine.Pass) error {
 		if len(tb.LowerLeg) > 1 {
 			who = "the lower leg (" + refList(tb.LowerLeg) + ")"
 		}
-		m, l := approx2(ratio, minRatio, quantity.Ratio)
 		f := engine.Finding{Part: tb.LowerLeg[0],
 			HasMetric: true, Measured: ratio, Limit: minRatio, Comparison: ">=", Unit: "ratio",
-			Message: fmt.Sprintf("%s carries %sx the base current of %s, needs at least %sx", who, m, part.Ref, l)}
+			MessageLater: func() string {
+				m, l := approx2(ratio, minRatio, quantity.Ratio)
+				return fmt.Sprintf("%s carries %sx the base current of %s, needs at least %sx", who, m, part.Ref, l)
+			}}
 		if engine.Fails(ratio, minRatio, ">=") {
 			f.FixLater = func() (string, []engine.Change) { return dividerFix(p, tb, minRatio) }
 		}

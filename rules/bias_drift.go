@@ -68,16 +68,19 @@ func runBiasDrift(p *engine.Pass) error {
 		if r < 1 {
 			way = "below"
 		}
-		m, l := approx2(math.Abs(r-1), limit, quantity.Fraction)
-		msg := fmt.Sprintf("%s's collector current is %s %s nominal (%s against %s) with the supplies held, allows %s",
-			part.Ref, m, way, quantity.Approx(q.IC, quantity.Ampere), quantity.Approx(qn.IC, quantity.Ampere), l)
+		ic, icNom := q.IC, qn.IC
+		msg := func() string {
+			m, l := approx2(math.Abs(r-1), limit, quantity.Fraction)
+			return fmt.Sprintf("%s's collector current is %s %s nominal (%s against %s) with the supplies held, allows %s",
+				part.Ref, m, way, quantity.Approx(ic, quantity.Ampere), quantity.Approx(icNom, quantity.Ampere), l)
+		}
 		for _, b := range []struct {
 			bound    string
 			measured float64
 		}{{"up", r - 1}, {"down", 1 - r}} {
 			f := engine.Finding{Part: part.Ref, Bound: b.bound,
 				HasMetric: true, Measured: b.measured, Limit: limit, Comparison: "<=", Unit: "fraction",
-				Message: msg}
+				MessageLater: msg}
 			if engine.Fails(b.measured, limit, "<=") {
 				ref, ic, up := part.Ref, qn.IC, b.bound == "up"
 				f.FixLater = func() (string, []engine.Change) { return driftFix(p, ref, ic, up), nil }

@@ -72,11 +72,13 @@ func runEmitterFraction(p *engine.Pass) error {
 			bound, cmp, word string
 			limit            float64
 		}{{"min", ">=", "at least", lo}, {"max", "<=", "at most", hi}} {
-			m, l := approx2(fr, b.limit, quantity.Fraction)
 			f := engine.Finding{Part: part.Ref, Bound: b.bound,
 				HasMetric: true, Measured: fr, Limit: b.limit, Comparison: b.cmp, Unit: "fraction",
-				Message: fmt.Sprintf("%s drops %s across its emitter, %s of the %s feed, needs %s %s", part.Ref,
-					quantity.Approx(ve, quantity.Volt), m, quantity.Approx(vf, quantity.Volt), b.word, l)}
+				MessageLater: func() string {
+					m, l := approx2(fr, b.limit, quantity.Fraction)
+					return fmt.Sprintf("%s drops %s across its emitter, %s of the %s feed, needs %s %s", part.Ref,
+						quantity.Approx(ve, quantity.Volt), m, quantity.Approx(vf, quantity.Volt), b.word, l)
+				}}
 			if engine.Fails(fr, b.limit, b.cmp) {
 				f.FixLater = func() (string, []engine.Change) { return emitterFix(p, tb, lo, hi) }
 			}

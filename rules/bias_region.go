@@ -54,13 +54,17 @@ func runBiasRegion(p *engine.Pass) error {
 		// counted as cut off, as its Region says.
 		p.Report(engine.Finding{Part: part.Ref, Bound: "cutoff",
 			HasMetric: true, Measured: q.ICf, Limit: minIC, Comparison: ">=", Unit: "A",
-			Message: fmt.Sprintf("%s is cut off: IC %s, needs at least %s", part.Ref,
-				quantity.Approx(q.ICf, quantity.Ampere), quantity.Approx(minIC, quantity.Ampere)),
+			MessageLater: func() string {
+				return fmt.Sprintf("%s is cut off: IC %s, needs at least %s", part.Ref,
+					quantity.Approx(q.ICf, quantity.Ampere), quantity.Approx(minIC, quantity.Ampere))
+			},
 			Fix: "raise the base voltage (a smaller upper divider leg or a larger lower leg) or lower the emitter resistance until the collector current flows"})
 		p.Report(engine.Finding{Part: part.Ref, Bound: "saturated",
 			HasMetric: true, Measured: q.VCEf, Limit: minVCE, Comparison: ">=", Unit: "V",
-			Message: fmt.Sprintf("%s is saturated: VCE %s, needs at least %s", part.Ref,
-				quantity.Approx(q.VCEf, quantity.Volt), quantity.Approx(minVCE, quantity.Volt)),
+			MessageLater: func() string {
+				return fmt.Sprintf("%s is saturated: VCE %s, needs at least %s", part.Ref,
+					quantity.Approx(q.VCEf, quantity.Volt), quantity.Approx(minVCE, quantity.Volt))
+			},
 			Fix: "lower the collector-feed resistance or the base voltage, or raise the emitter resistance, so that VCE sits near half the supply"})
 	}
 	return nil

@@ -43,9 +43,11 @@ func runBJTCurrent(p *engine.Pass) error {
 		load := q.IC / b.ICMax
 		f := engine.Finding{Part: part.Ref, HasMetric: true, Measured: load, Limit: maxLoad,
 			Comparison: "<=", Unit: "fraction", Absolute: load,
-			Message: fmt.Sprintf("%s carries %s, %s of its %s ic_max, at most %s%s", part.Ref,
-				quantity.Approx(q.IC, quantity.Ampere), pct(load), quantity.Approx(b.ICMax, quantity.Ampere),
-				pct(maxLoad), runsHot(load))}
+			MessageLater: func() string {
+				return fmt.Sprintf("%s carries %s, %s of its %s ic_max, at most %s%s", part.Ref,
+					quantity.Approx(q.IC, quantity.Ampere), pct(load), quantity.Approx(b.ICMax, quantity.Ampere),
+					pct(maxLoad), runsHot(load))
+			}}
 		if engine.Fails(load, maxLoad, "<=") {
 			f.FixLater = func() (string, []engine.Change) { return currentFix(p, part, q, maxLoad) }
 		}

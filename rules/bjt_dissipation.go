@@ -53,16 +53,18 @@ func runBJTDissipation(p *engine.Pass) error {
 			continue
 		}
 		load := q.Power / (b.PD * der)
-		msg := fmt.Sprintf("%s dissipates %s, %s of its %s pd", part.Ref, quantity.Approx(q.Power, quantity.Watt),
-			pct(load), quantity.Approx(b.PD, quantity.Watt))
-		if der < 1 {
-			msg += fmt.Sprintf(" derated to %s at %s", quantity.Approx(b.PD*der, quantity.Watt), temp(ambient))
-		} else {
-			msg += " at " + temp(ambient)
+		msg := func() string {
+			msg := fmt.Sprintf("%s dissipates %s, %s of its %s pd", part.Ref, quantity.Approx(q.Power, quantity.Watt),
+				pct(load), quantity.Approx(b.PD, quantity.Watt))
+			if der < 1 {
+				msg += fmt.Sprintf(" derated to %s at %s", quantity.Approx(b.PD*der, quantity.Watt), temp(ambient))
+			} else {
+				msg += " at " + temp(ambient)
+			}
+			return msg + fmt.Sprintf(", at most %s", pct(maxLoad)) + runsHot(load)
 		}
-		msg += fmt.Sprintf(", at most %s", pct(maxLoad)) + runsHot(load)
 		f := engine.Finding{Part: part.Ref, HasMetric: true, Measured: load, Limit: maxLoad,
-			Comparison: "<=", Unit: "fraction", Absolute: load, Message: msg}
+			Comparison: "<=", Unit: "fraction", Absolute: load, MessageLater: msg}
 		if engine.Fails(load, maxLoad, "<=") {
 			f.FixLater = func() (string, []engine.Change) { return dissipationFix(p, part, q, der, maxLoad) }
 		}

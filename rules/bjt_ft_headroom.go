@@ -45,9 +45,11 @@ func runBJTFtHeadroom(p *engine.Pass) error {
 		ratio := b.FT / fHigh
 		f := engine.Finding{Part: part.Ref, HasMetric: true, Measured: ratio, Limit: minRatio,
 			Comparison: ">=", Unit: "ratio",
-			Message: fmt.Sprintf("%s's ft of %s is %s× the highest band frequency %s (its beta there is about that ratio), needs at least %s×",
-				part.Ref, quantity.Approx(b.FT, quantity.Hertz), quantity.Approx(ratio, quantity.Ratio),
-				quantity.Approx(fHigh, quantity.Hertz), quantity.Approx(minRatio, quantity.Ratio))}
+			MessageLater: func() string {
+				return fmt.Sprintf("%s's ft of %s is %s× the highest band frequency %s (its beta there is about that ratio), needs at least %s×",
+					part.Ref, quantity.Approx(b.FT, quantity.Hertz), quantity.Approx(ratio, quantity.Ratio),
+					quantity.Approx(fHigh, quantity.Hertz), quantity.Approx(minRatio, quantity.Ratio))
+			}}
 		if engine.Fails(ratio, minRatio, ">=") {
 			f.FixLater = func() (string, []engine.Change) { return ftFix(p, part, fHigh, minRatio) }
 		}

@@ -45,19 +45,25 @@ func runBJTVoltage(p *engine.Pass) error {
 		if !ok || b == nil || !(b.VCEO > 0) {
 			continue
 		}
-		peak, how := span, fmt.Sprintf("the %s span from %s to %s", quantity.Approx(span, quantity.Volt), tb.FeedRail, tb.ReturnRail)
+		peak := span
 		if tb.InductiveFeed {
 			peak = span * swing
-			how = fmt.Sprintf("%s× %s, fed through %s", quantity.Approx(swing, quantity.Ratio), how, tb.FeedInductor)
 		}
 		load, absolute := peak/b.VCEO, span/b.VCEO
-		msg := fmt.Sprintf("%s's collector can reach %s (%s), %s of its %s VCEO, at most %s", part.Ref,
-			quantity.Approx(peak, quantity.Volt), how, pct(load), quantity.Approx(b.VCEO, quantity.Volt), pct(maxLoad))
-		if absolute > 1 {
-			msg += "; the DC span alone is past VCEO: the transistor may break down and run hot"
+		msg := func() string {
+			how := fmt.Sprintf("the %s span from %s to %s", quantity.Approx(span, quantity.Volt), tb.FeedRail, tb.ReturnRail)
+			if tb.InductiveFeed {
+				how = fmt.Sprintf("%s× %s, fed through %s", quantity.Approx(swing, quantity.Ratio), how, tb.FeedInductor)
+			}
+			msg := fmt.Sprintf("%s's collector can reach %s (%s), %s of its %s VCEO, at most %s", part.Ref,
+				quantity.Approx(peak, quantity.Volt), how, pct(load), quantity.Approx(b.VCEO, quantity.Volt), pct(maxLoad))
+			if absolute > 1 {
+				msg += "; the DC span alone is past VCEO: the transistor may break down and run hot"
+			}
+			return msg
 		}
 		f := engine.Finding{Part: part.Ref, HasMetric: true, Measured: load, Limit: maxLoad,
-			Comparison: "<=", Unit: "fraction", Absolute: absolute, Message: msg}
+			Comparison: "<=", Unit: "fraction", Absolute: absolute, MessageLater: msg}
 		if engine.Fails(load, maxLoad, "<=") {
 			f.FixLater = func() (string, []engine.Change) { return voltageFix(p, part, peak, maxLoad) }
 		}

@@ -44,13 +44,16 @@ func runCapacitorVoltage(p *engine.Pass) error {
 			continue
 		}
 		load := st.Voltage / part.Rating
-		msg := fmt.Sprintf("%s holds %s DC, %s of its %s rating, at most %s", part.Ref,
-			quantity.Approx(st.Voltage, quantity.Volt), pct(load), quantity.Approx(part.Rating, quantity.Volt), pct(maxLoad))
-		if load > 1 {
-			msg += "; past its absolute rating, it may break down"
+		msg := func() string {
+			msg := fmt.Sprintf("%s holds %s DC, %s of its %s rating, at most %s", part.Ref,
+				quantity.Approx(st.Voltage, quantity.Volt), pct(load), quantity.Approx(part.Rating, quantity.Volt), pct(maxLoad))
+			if load > 1 {
+				msg += "; past its absolute rating, it may break down"
+			}
+			return msg
 		}
 		f := engine.Finding{Part: part.Ref, HasMetric: true, Measured: load, Limit: maxLoad,
-			Comparison: "<=", Unit: "fraction", Absolute: load, Message: msg}
+			Comparison: "<=", Unit: "fraction", Absolute: load, MessageLater: msg}
 		if engine.Fails(load, maxLoad, "<=") {
 			need := st.Voltage / maxLoad
 			if r, ok := nextStandard(need, capacitorRatings); ok {

@@ -52,12 +52,15 @@ var ChokeReactance = &engine.Rule{
 			}
 			x := w * l
 			ratio := x / z
+			fLow := p.Circuit.Band[0]
 			f := engine.Finding{Part: part.Ref,
 				HasMetric: true, Measured: ratio, Limit: minRatio, Comparison: ">=", Unit: "ratio",
-				Message: fmt.Sprintf("%s has %s of reactance at %s, %sx the %s it shunts, needs at least %sx",
-					part.Ref, quantity.Approx(x, quantity.Ohm), quantity.Approx(p.Circuit.Band[0], quantity.Hertz),
-					quantity.Format(quantity.Round(ratio, 3), quantity.Ratio), quantity.Approx(z, quantity.Ohm),
-					quantity.Format(minRatio, quantity.Ratio))}
+				MessageLater: func() string {
+					return fmt.Sprintf("%s has %s of reactance at %s, %sx the %s it shunts, needs at least %sx",
+						part.Ref, quantity.Approx(x, quantity.Ohm), quantity.Approx(fLow, quantity.Hertz),
+						quantity.Format(quantity.Round(ratio, 3), quantity.Ratio), quantity.Approx(z, quantity.Ohm),
+						quantity.Format(minRatio, quantity.Ratio))
+				}}
 			if engine.Fails(ratio, minRatio, ">=") {
 				f.Fix, f.Changes = chokeFix(p, part, minRatio*z/w, z)
 			}

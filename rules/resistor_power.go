@@ -76,28 +76,30 @@ func runResistorPower(p *engine.Pass) error {
 		}
 		load := power / (rating * share * der)
 
-		msg := part.Ref + " dissipates "
-		if what != part.Ref {
-			msg = what + " dissipates "
+		msg := func() string {
+			msg := part.Ref + " dissipates "
+			if what != part.Ref {
+				msg = what + " dissipates "
+			}
+			msg += fmt.Sprintf("%s, %s of its %s rating", quantity.Approx(power, quantity.Watt), pct(load),
+				quantity.Approx(rating*share, quantity.Watt))
+			if share < 1 {
+				msg += fmt.Sprintf(" (its %s share of the %s part)", pct(share), quantity.Approx(rating, quantity.Watt))
+			}
+			if der < 1 {
+				msg += fmt.Sprintf(" derated to %s at %s", quantity.Approx(rating*share*der, quantity.Watt), temp(ambient))
+			} else {
+				msg += " at " + temp(ambient)
+			}
+			msg += fmt.Sprintf(", at most %s", pct(maxLoad))
+			if !given {
+				msg += fmt.Sprintf(" (no rating given: judged as %s, the rule set's default_rating)", quantity.Approx(rating, quantity.Watt))
+			}
+			return msg + runsHot(load)
 		}
-		msg += fmt.Sprintf("%s, %s of its %s rating", quantity.Approx(power, quantity.Watt), pct(load),
-			quantity.Approx(rating*share, quantity.Watt))
-		if share < 1 {
-			msg += fmt.Sprintf(" (its %s share of the %s part)", pct(share), quantity.Approx(rating, quantity.Watt))
-		}
-		if der < 1 {
-			msg += fmt.Sprintf(" derated to %s at %s", quantity.Approx(rating*share*der, quantity.Watt), temp(ambient))
-		} else {
-			msg += " at " + temp(ambient)
-		}
-		msg += fmt.Sprintf(", at most %s", pct(maxLoad))
-		if !given {
-			msg += fmt.Sprintf(" (no rating given: judged as %s, the rule set's default_rating)", quantity.Approx(rating, quantity.Watt))
-		}
-		msg += runsHot(load)
 
 		f := engine.Finding{Part: part.Ref, HasMetric: true, Measured: load, Limit: maxLoad,
-			Comparison: "<=", Unit: "fraction", Absolute: load, Message: msg}
+			Comparison: "<=", Unit: "fraction", Absolute: load, MessageLater: msg}
 		if engine.Fails(load, maxLoad, "<=") {
 			f.Fix, f.Changes = resistorRatingFix(part.Ref, power/(share*der*maxLoad), power/(share*der), ambient)
 		}

@@ -175,11 +175,14 @@ func judgeCapacitorGroups(p *engine.Pass, role string, limit func(z float64) (li
 			continue
 		}
 		x := 1 / (w * g.capacitance())
+		fLow := p.Circuit.Band[0]
 		f := engine.Finding{Part: g.first().Ref,
 			HasMetric: true, Measured: x, Limit: lim, Comparison: "<=", Unit: "ohm",
-			Message: fmt.Sprintf("%s has %s of reactance at %s, needs at most %s (%s)", g.name(),
-				quantity.Approx(x, quantity.Ohm), quantity.Approx(p.Circuit.Band[0], quantity.Hertz),
-				quantity.Approx(lim, quantity.Ohm), why)}
+			MessageLater: func() string {
+				return fmt.Sprintf("%s has %s of reactance at %s, needs at most %s (%s)", g.name(),
+					quantity.Approx(x, quantity.Ohm), quantity.Approx(fLow, quantity.Hertz),
+					quantity.Approx(lim, quantity.Ohm), why)
+			}}
 		if engine.Fails(x, lim, "<=") {
 			f.Fix, f.Changes = capacitorFix(p, g, lim)
 		}

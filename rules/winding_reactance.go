@@ -49,12 +49,15 @@ var WindingReactance = &engine.Rule{
 			wd := part.Windings[i]
 			x := w * part.AL * wd.Turns * wd.Turns
 			ratio := x / term
+			fLow := p.Circuit.Band[0]
 			f := engine.Finding{Part: part.Ref,
 				HasMetric: true, Measured: ratio, Limit: minRatio, Comparison: ">=", Unit: "ratio",
-				Message: fmt.Sprintf("%s %s (%s turns, the loaded winding) has %s of reactance at %s, %sx the %s it works into, needs at least %sx",
-					part.Ref, wd.Name, quantity.Format(wd.Turns, quantity.Ratio), quantity.Approx(x, quantity.Ohm),
-					quantity.Approx(p.Circuit.Band[0], quantity.Hertz), quantity.Format(quantity.Round(ratio, 3), quantity.Ratio),
-					quantity.Approx(term, quantity.Ohm), quantity.Format(minRatio, quantity.Ratio))}
+				MessageLater: func() string {
+					return fmt.Sprintf("%s %s (%s turns, the loaded winding) has %s of reactance at %s, %sx the %s it works into, needs at least %sx",
+						part.Ref, wd.Name, quantity.Format(wd.Turns, quantity.Ratio), quantity.Approx(x, quantity.Ohm),
+						quantity.Approx(fLow, quantity.Hertz), quantity.Format(quantity.Round(ratio, 3), quantity.Ratio),
+						quantity.Approx(term, quantity.Ohm), quantity.Format(minRatio, quantity.Ratio))
+				}}
 			if engine.Fails(ratio, minRatio, ">=") {
 				f.Fix, f.Changes = windingFix(p, part, i, term, minRatio)
 			}
