@@ -3,6 +3,7 @@ package rules_test
 import (
 	"fmt"
 	"math/rand"
+	"strings"
 	"testing"
 
 	"headroom/checker/check"
@@ -128,6 +129,9 @@ func TestFixesRemoveTheirFindings(t *testing.T) {
 				t.Fatalf("circuit %d: %v\n%s", i, res.Err, src)
 			}
 			for _, f := range res.Findings {
+				if strings.Contains(f.Message+f.Fix, "NaN") || strings.Contains(f.Message+f.Fix, "Inf") {
+					t.Errorf("circuit %d %s %s prints a non-finite number: %s / %s", i, f.Rule, f.Part, f.Message, f.Fix)
+				}
 				if len(f.Changes) == 0 {
 					continue
 				}

@@ -141,6 +141,12 @@ func runGolden(t *testing.T, path string) {
 	output.Text(&txt, &errs, results, output.NewPalette(false))
 	txt.Write(errs.Bytes())
 	got := map[string][]byte{"want.json": js.Bytes(), "want.txt": txt.Bytes()}
+	for name, b := range got {
+		// FORMAT.md §6: no number is ever printed as Inf or NaN.
+		if bytes.Contains(b, []byte("NaN")) || bytes.Contains(b, []byte("Inf")) {
+			t.Errorf("%s prints a non-finite number:\n%s", name, b)
+		}
+	}
 	if *update {
 		for i, f := range g.ar.Files {
 			if b, ok := got[f.Name]; ok {
