@@ -40,19 +40,25 @@ const (
 )
 
 // solver holds the matrices of one Solve, reused across every iteration.
-// The linear solves are gonum's LAPACK LU with partial pivoting (Getrf,
-// Getrs) called directly: mat.LU would also estimate the condition number on
-// every factorisation, which took a third of the time, and the solver needs
-// only to know about an exactly zero pivot (bad scaling is judged by the KCL
-// balance instead).
+// The linear solves go over the matrix's non-zero entries (sparseLU), with
+// exactly the arithmetic of gonum's LAPACK LU with partial pivoting (Getrf,
+// Getrs), which the solver falls back to where that equivalence does not
+// hold (a value that is not finite). mat.LU would also estimate the
+// condition number on every factorisation; the solver needs only to know
+// about an exactly zero pivot (bad scaling is judged by the KCL balance
+// instead).
 type solver struct {
 	nl    *netlist
 	n     int
-	base  []float64 // linear part of the MNA matrix, row-major n×n
+	m     *sparseLU // the matrix of the current iteration, and its factors
+	base  []float64 // linear part of the matrix, by m's slots
+	diag  []int     // m's slot of each node's diagonal entry
+	jac   [][9]int  // m's slots of each transistor's nine stamps (-1: gnd)
 	bsrc  []float64 // right-hand side of the sources at full strength
 	a     blas64.General
-	rhs   blas64.General // n×1; holds the solution after Getrs
+	rhs   blas64.General // n×1; holds the solution after a solve
 	piv   []int
+	dense bool      // the last factorisation was the dense fall-back's
 	x     []float64 // current solution
 	res   []float64 // KCL residual of each net, scratch for balanced
 	mag   []float64 // Σ|current| at each net, scratch for balanced
@@ -66,12 +72,16 @@ type solver struct {
 	firstTry []float64
 }
 
+// jacobian lists the (row, column) of a transistor's stamps in the order
+// stamp adds them.
+func (q *bjt) jacobian() [9][2]int {
+	return [9][2]int{{q.c, q.b}, {q.c, q.e}, {q.c, q.c}, {q.b, q.b}, {q.b, q.e}, {q.b, q.c}, {q.e, q.b}, {q.e, q.e}, {q.e, q.c}}
+}
+
 func newSolver(nl *netlist) *solver {
 	n := nl.size
-	s := &solver{nl: nl, n: n, base: make([]float64, n*n), bsrc: make([]float64, n)}
-	s.a = blas64.General{Rows: n, Cols: n, Stride: n, Data: make([]float64, n*n)}
+	s := &solver{nl: nl, n: n, bsrc: make([]float64, n)}
 	s.rhs = blas64.General{Rows: n, Cols: 1, Stride: 1, Data: make([]float64, n)}
-	s.piv = make([]int, n)
 	s.x = make([]float64, n)
 	s.res = make([]float64, n)
 	s.mag = make([]float64, n)
@@ -79,13 +89,49 @@ func newSolver(nl *netlist) *solver {
 	s.save = make([]float64, n)
 	s.saveJ = make([]float64, 2*len(nl.bjts))
 
+	// The pattern: every entry the linear part or a transistor may touch.
+	pat := newSlotter(n)
+	for i := 0; i < nl.nodes; i++ {
+		pat.mark(i, i)
+	}
+	for _, c := range nl.conds {
+		pat.mark(c.a, c.a)
+		pat.mark(c.b, c.b)
+		pat.mark(c.a, c.b)
+		pat.mark(c.b, c.a)
+	}
+	for _, v := range nl.sources {
+		pat.mark(v.p, v.row)
+		pat.mark(v.m, v.row)
+		pat.mark(v.row, v.p)
+		pat.mark(v.row, v.m)
+		pat.mark(v.row, v.row)
+	}
+	for k := range nl.bjts {
+		for _, e := range nl.bjts[k].jacobian() {
+			pat.mark(e[0], e[1])
+		}
+	}
+	s.m = pat.build()
+	s.base = make([]float64, len(s.m.vals))
+	s.diag = make([]int, nl.nodes)
+	for i := range s.diag {
+		s.diag[i] = s.m.slot(i, i)
+	}
+	s.jac = make([][9]int, len(nl.bjts))
+	for k := range nl.bjts {
+		for e, rc := range nl.bjts[k].jacobian() {
+			s.jac[k][e] = s.m.slot(rc[0], rc[1])
+		}
+	}
+
 	add := func(i, j int, v float64) {
 		if i != gnd && j != gnd {
-			s.base[i*n+j] += v
+			s.base[s.m.slot(i, j)] += v
 		}
 	}
 	for i := 0; i < nl.nodes; i++ {
-		s.base[i*n+i] += gminModel
+		s.base[s.diag[i]] += gminModel
 	}
 	for _, c := range nl.conds {
 		add(c.a, c.a, c.g)
@@ -107,6 +153,29 @@ func newSolver(nl *netlist) *solver {
 	return s
 }
 
+// factorSolve factorises the iteration's matrix and overwrites s.rhs with
+// the solution. ok is false for a singular matrix.
+func (s *solver) factorSolve() bool {
+	ok, dense := s.m.factor()
+	s.dense = dense
+	if dense {
+		n := s.n
+		if s.a.Data == nil {
+			s.a = blas64.General{Rows: n, Cols: n, Stride: n, Data: make([]float64, n*n)}
+			s.piv = make([]int, n)
+		}
+		s.m.dense(s.a.Data)
+		if ok = lapack64.Getrf(s.a, s.piv); ok {
+			lapack64.Getrs(blas.NoTrans, s.a, s.rhs, s.piv)
+		}
+		return ok
+	}
+	if ok {
+		s.m.solve(s.rhs.Data)
+	}
+	return ok
+}
+
 // volt is the voltage of unknown i in x (gnd is 0).
 func volt(x []float64, i int) float64 {
 	if i == gnd {
@@ -121,8 +190,7 @@ func volt(x []float64, i int) float64 {
 // On success s.x holds the solution.
 func (s *solver) newton(scale, gshunt float64, maxIter int, initJct bool) outcome {
 	nl := s.nl
-	n := s.n
-	ad := s.a.Data
+	ad := s.m.vals
 	bd := s.rhs.Data
 	settled := 0
 	for it := 0; it < maxIter; it++ {
@@ -133,7 +201,7 @@ func (s *solver) newton(scale, gshunt float64, maxIter int, initJct bool) outcom
 		}
 		if gshunt > 0 {
 			for i := 0; i < nl.nodes; i++ {
-				ad[i*n+i] += gshunt
+				ad[s.diag[i]] += gshunt
 			}
 		}
 		anyLimited := false
@@ -154,14 +222,13 @@ func (s *solver) newton(scale, gshunt float64, maxIter int, initJct bool) outcom
 			}
 			anyLimited = anyLimited || q.limited
 			q.vbe, q.vbc = vbe, vbc
-			s.stamp(q, ad, bd)
+			s.stamp(k, ad, bd)
 		}
 
-		if !lapack64.Getrf(s.a, s.piv) {
+		if !s.factorSolve() {
 			s.singularAt = s.smallestPivot()
 			return singular
 		}
-		lapack64.Getrs(blas.NoTrans, s.a, s.rhs, s.piv)
 		xn := bd
 		small := !anyLimited
 		for i, v := range xn {
@@ -266,33 +333,27 @@ func (s *solver) junctionsSettled() bool {
 	return true
 }
 
-// stamp adds transistor q, linearised at its junction state, to the matrix
-// data ad and right-hand side bd. The Jacobian with respect to node voltages
-// does not depend on polarity; the currents change sign for a PNP.
-func (s *solver) stamp(q *bjt, ad, bd []float64) {
-	n := s.n
+// stamp adds transistor k, linearised at its junction state, to the matrix
+// values ad (by slot) and right-hand side bd. The Jacobian with respect to
+// node voltages does not depend on polarity; the currents change sign for a
+// PNP.
+func (s *solver) stamp(k int, ad, bd []float64) {
+	q := &s.nl.bjts[k]
 	p := q.eval(q.vbe, q.vbc, s.nl.vt)
-	add := func(i, j int, v float64) {
-		if i != gnd && j != gnd {
-			ad[i*n+j] += v
-		}
-	}
+	slots := &s.jac[k]
 	// Collector row: IC(vbe, vbc) with vbe = pol(Vb − Ve), vbc = pol(Vb − Vc).
 	gcb := p.dicDvbe + p.dicDvbc
 	gbb := p.dibDvbe + p.dibDvbc
 	eqC := q.pol * (p.ic - p.dicDvbe*q.vbe - p.dicDvbc*q.vbc)
 	eqB := q.pol * (p.ib - p.dibDvbe*q.vbe - p.dibDvbc*q.vbc)
 
-	add(q.c, q.b, gcb)
-	add(q.c, q.e, -p.dicDvbe)
-	add(q.c, q.c, -p.dicDvbc)
-	add(q.b, q.b, gbb)
-	add(q.b, q.e, -p.dibDvbe)
-	add(q.b, q.c, -p.dibDvbc)
-	// Emitter row: −(collector + base).
-	add(q.e, q.b, -gcb-gbb)
-	add(q.e, q.e, p.dicDvbe+p.dibDvbe)
-	add(q.e, q.c, p.dicDvbc+p.dibDvbc)
+	// In the order of q.jacobian; the emitter row is −(collector + base).
+	for e, v := range [9]float64{gcb, -p.dicDvbe, -p.dicDvbc, gbb, -p.dibDvbe, -p.dibDvbc,
+		-gcb - gbb, p.dicDvbe + p.dibDvbe, p.dicDvbc + p.dibDvbc} {
+		if slots[e] >= 0 {
+			ad[slots[e]] += v
+		}
+	}
 	if q.c != gnd {
 		bd[q.c] -= eqC
 	}
@@ -305,12 +366,15 @@ func (s *solver) stamp(q *bjt, ad, bd []float64) {
 }
 
 // smallestPivot names the unknown whose column has the smallest pivot in the
-// last factorisation (U's diagonal, left in s.a by Getrf): the one the
-// network does not determine.
+// last factorisation (U's diagonal): the one the network does not determine.
 func (s *solver) smallestPivot() int {
 	best, at := math.Inf(1), 0
 	for k := 0; k < s.n; k++ {
-		if v := math.Abs(s.a.Data[k*s.n+k]); v < best || math.IsNaN(v) {
+		v := s.m.pivot(k)
+		if s.dense {
+			v = math.Abs(s.a.Data[k*s.n+k])
+		}
+		if v < best || math.IsNaN(v) {
 			best, at = v, k
 		}
 	}

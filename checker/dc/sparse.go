@@ -1,0 +1,312 @@
+package dc
+
+import "math"
+
+// sparseLU solves the Newton systems over the matrix's non-zero entries
+// only. A dense factorisation costs n³ per iteration, which dominates the
+// analysis of a circuit with a few hundred nets, while a nodal matrix holds a
+// handful of entries per row and fills in little.
+//
+// It performs exactly the arithmetic of the dense LAPACK routines the solver
+// used before (gonum's Dgetrf and Dgetrs: partial pivoting on the first
+// largest |a|, the column scaled by the pivot's reciprocal, the update
+// a + (−l)·u, the triangular solves skipping zero coefficients, each result
+// scaled by the diagonal's reciprocal), in the same order for every entry;
+// it only leaves out the operations that add a zero. Their results are
+// therefore bit for bit the same as long as every value stays finite: then
+// a left-out operation can change no more than the sign of a zero, and a
+// zero takes no part in the solves. Where a value is not finite, or a pivot
+// is subnormal (LAPACK then divides instead of multiplying), factor reports
+// it and the caller uses the dense routines.
+type sparseLU struct {
+	n int
+	// The assembled matrix: row i's entries are cols/vals[start[i]:start[i+1]],
+	// columns ascending; the pattern is fixed for the solver's life.
+	start []int
+	cols  []int
+	vals  []float64
+
+	// The factorisation, by physical row (a row keeps its number through
+	// exchanges): its entries, columns ascending, cut from the arena.
+	rc     [][]int
+	rv     [][]float64
+	pos    []int   // physical row → position
+	at     []int   // position → physical row
+	next   []int   // per row: index of its first entry at or right of the current column
+	colOf  [][]int // per column: the rows that have an entry there
+	ipiv   []int   // LAPACK's: at step k, positions k and ipiv[k] were exchanged
+	arenaC []int
+	arenaV []float64
+}
+
+// slotter builds the fixed pattern: entries are added with slot and then
+// addressed by the returned index.
+type slotter struct {
+	n    int
+	rows []map[int]bool
+}
+
+func newSlotter(n int) *slotter {
+	s := &slotter{n: n, rows: make([]map[int]bool, n)}
+	for i := range s.rows {
+		s.rows[i] = map[int]bool{}
+	}
+	return s
+}
+
+// mark records that entry (i, j) may be non-zero; gnd rows and columns are
+// ignored.
+func (s *slotter) mark(i, j int) {
+	if i != gnd && j != gnd {
+		s.rows[i][j] = true
+	}
+}
+
+// build freezes the pattern into m.
+func (s *slotter) build() *sparseLU {
+	n := s.n
+	m := &sparseLU{n: n, start: make([]int, n+1)}
+	for i, r := range s.rows {
+		for j := 0; j < n && len(r) > 0; j++ {
+			if r[j] {
+				m.cols = append(m.cols, j)
+			}
+		}
+		m.start[i+1] = len(m.cols)
+	}
+	m.vals = make([]float64, len(m.cols))
+	m.rc, m.rv = make([][]int, n), make([][]float64, n)
+	m.pos, m.at, m.next = make([]int, n), make([]int, n), make([]int, n)
+	m.colOf = make([][]int, n)
+	m.ipiv = make([]int, n)
+	return m
+}
+
+// slot is the index in vals of entry (i, j), which must be in the pattern;
+// -1 for a gnd row or column.
+func (m *sparseLU) slot(i, j int) int {
+	if i == gnd || j == gnd {
+		return -1
+	}
+	lo, hi := m.start[i], m.start[i+1]
+	for lo < hi {
+		mid := (lo + hi) / 2
+		switch c := m.cols[mid]; {
+		case c == j:
+			return mid
+		case c < j:
+			lo = mid + 1
+		default:
+			hi = mid
+		}
+	}
+	panic("dc: entry outside the matrix pattern")
+}
+
+// dense writes the assembled matrix into a (row-major n×n, overwritten).
+func (m *sparseLU) dense(a []float64) {
+	clear(a)
+	for i := 0; i < m.n; i++ {
+		for k := m.start[i]; k < m.start[i+1]; k++ {
+			a[i*m.n+m.cols[k]] = m.vals[k]
+		}
+	}
+}
+
+// factor factorises the assembled matrix. ok is false for a zero pivot (the
+// dense routine's "singular"); dense is true when the dense routine must be
+// used instead (see sparseLU).
+func (m *sparseLU) factor() (ok, dense bool) {
+	n := m.n
+	for _, v := range m.vals {
+		if math.IsNaN(v) || math.IsInf(v, 0) {
+			return false, true
+		}
+	}
+	m.arenaC = append(m.arenaC[:0], m.cols...)
+	m.arenaV = append(m.arenaV[:0], m.vals...)
+	for j := range m.colOf {
+		m.colOf[j] = m.colOf[j][:0]
+	}
+	for i := 0; i < n; i++ {
+		a, b := m.start[i], m.start[i+1]
+		m.rc[i], m.rv[i] = m.arenaC[a:b:b], m.arenaV[a:b:b]
+		m.pos[i], m.at[i], m.next[i] = i, i, 0
+		for _, j := range m.rc[i] {
+			m.colOf[j] = append(m.colOf[j], i)
+		}
+	}
+	ok = true
+	for k := 0; k < n; k++ {
+		// Pivot: the first largest |a| in column k, in position order.
+		best, bestPos := math.Abs(m.entry(m.at[k], k)), k
+		for _, r := range m.colOf[k] {
+			if p := m.pos[r]; p > k {
+				if v := math.Abs(m.entry(r, k)); v > best || v == best && p < bestPos {
+					best, bestPos = v, p
+				}
+			}
+		}
+		m.ipiv[k] = bestPos
+		if best == 0 {
+			ok = false // LAPACK goes on; the column below is zero, nothing to eliminate
+			continue
+		}
+		if bestPos != k {
+			r, s := m.at[k], m.at[bestPos]
+			m.at[k], m.at[bestPos] = s, r
+			m.pos[s], m.pos[r] = k, bestPos
+		}
+		pr := m.at[k]
+		aj := m.entry(pr, k)
+		if math.Abs(aj) < 0x1p-1022 {
+			return false, true
+		}
+		inv := 1 / aj
+		if inv == 0 {
+			return false, true
+		}
+		pi := m.next[pr] // its entry in column k
+		pc, pv := m.rc[pr][pi+1:], m.rv[pr][pi+1:]
+		for _, r := range m.colOf[k] {
+			if m.pos[r] <= k {
+				continue
+			}
+			i := m.next[r]
+			if m.rc[r][i] != k {
+				continue
+			}
+			l := m.rv[r][i] * inv
+			m.rv[r][i] = l
+			if l != 0 {
+				m.update(r, i, l, pc, pv, k)
+			}
+		}
+	}
+	for _, v := range m.arenaV {
+		if math.IsNaN(v) || math.IsInf(v, 0) {
+			return false, true
+		}
+	}
+	return ok, false
+}
+
+// entry is row r's entry in column k, the current column: it moves the row's
+// cursor up to k.
+func (m *sparseLU) entry(r, k int) float64 {
+	c, i := m.rc[r], m.next[r]
+	for i < len(c) && c[i] < k {
+		i++
+	}
+	m.next[r] = i
+	if i < len(c) && c[i] == k {
+		return m.rv[r][i]
+	}
+	return 0
+}
+
+// update subtracts l times the pivot row's entries right of column k (pc, pv)
+// from row r, whose entry in column k is at index i: a + (−l)·u where both
+// have an entry, (−l)·u where only the pivot row has one (0 + x is x).
+func (m *sparseLU) update(r, i int, l float64, pc []int, pv []float64, k int) {
+	rc, rv := m.rc[r], m.rv[r]
+	// Without fill the row is updated in place.
+	fill := false
+	for a, b := i+1, 0; b < len(pc); {
+		switch {
+		case a < len(rc) && rc[a] < pc[b]:
+			a++
+		case a < len(rc) && rc[a] == pc[b]:
+			a++
+			b++
+		default:
+			fill = true
+			b = len(pc)
+		}
+	}
+	if !fill {
+		for a, b := i+1, 0; b < len(pc); a++ {
+			if rc[a] == pc[b] {
+				rv[a] += -l * pv[b]
+				b++
+			}
+		}
+		m.next[r] = i + 1
+		return
+	}
+	startC := len(m.arenaC)
+	m.arenaC = append(m.arenaC, rc[:i+1]...)
+	m.arenaV = append(m.arenaV, rv[:i+1]...)
+	a, b := i+1, 0
+	for a < len(rc) || b < len(pc) {
+		switch {
+		case b == len(pc) || a < len(rc) && rc[a] < pc[b]:
+			m.arenaC = append(m.arenaC, rc[a])
+			m.arenaV = append(m.arenaV, rv[a])
+			a++
+		case a == len(rc) || pc[b] < rc[a]:
+			m.arenaC = append(m.arenaC, pc[b])
+			m.arenaV = append(m.arenaV, -l*pv[b])
+			m.colOf[pc[b]] = append(m.colOf[pc[b]], r)
+			b++
+		default:
+			m.arenaC = append(m.arenaC, rc[a])
+			m.arenaV = append(m.arenaV, rv[a]+-l*pv[b])
+			a++
+			b++
+		}
+	}
+	// Rows are cut with their capacity closed, so appending to the arena
+	// never writes into one; a row cut before the arena moved keeps its old
+	// backing array.
+	end := len(m.arenaC)
+	m.rc[r], m.rv[r] = m.arenaC[startC:end:end], m.arenaV[startC:end:end]
+	m.next[r] = i + 1
+}
+
+// solve overwrites b with the solution, as Dgetrs does.
+func (m *sparseLU) solve(b []float64) {
+	n := m.n
+	for k := 0; k < n; k++ {
+		if p := m.ipiv[k]; p != k {
+			b[k], b[p] = b[p], b[k]
+		}
+	}
+	for i := 0; i < n; i++ {
+		r := m.at[i]
+		for e, c := range m.rc[r] {
+			if c >= i {
+				break
+			}
+			if v := m.rv[r][e]; v != 0 {
+				b[i] += -v * b[c]
+			}
+		}
+	}
+	for i := n - 1; i >= 0; i-- {
+		r := m.at[i]
+		c, v := m.rc[r], m.rv[r]
+		e := 0
+		for e < len(c) && c[e] < i {
+			e++
+		}
+		d := v[e] // the pivot: present, as the factorisation succeeded
+		for e++; e < len(c); e++ {
+			if v[e] != 0 {
+				b[i] += -v[e] * b[c[e]]
+			}
+		}
+		b[i] *= 1 / d
+	}
+}
+
+// pivot is |U's diagonal| at position k, as the dense factorisation leaves it.
+func (m *sparseLU) pivot(k int) float64 {
+	r := m.at[k]
+	for e, c := range m.rc[r] {
+		if c == k {
+			return math.Abs(m.rv[r][e])
+		}
+	}
+	return 0
+}
