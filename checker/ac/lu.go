@@ -11,9 +11,9 @@ import (
 var errSingular = errors.New("singular network")
 
 // lu is the LU factorisation with partial pivoting of a complex n×n matrix,
-// keeping only the factors' non-zero entries off the diagonal, row by row
-// (row i's are col[start[i]:start[i+1]] with values val[...]), so that solves
-// skip the zeros.
+// held as the rows the elimination left: L (unit diagonal implied) left of
+// the diagonal, U from it on. Entries outside a row's span are zero, and
+// solves skip the zeros inside it.
 //
 // Why not gonum: gonum/mat factorises only real matrices, and the stacked real
 // form [[G, −B], [B, G]] of the nodal system is twice the size, so its
@@ -22,13 +22,9 @@ var errSingular = errors.New("singular network")
 // hundreds of nets in a chain, for which a plain complex elimination over the
 // rows' occupied spans is the fastest and simplest.
 type lu struct {
-	n            int
-	piv          []int        // row i of the factors is row piv[i] of the original
-	diag         []complex128 // U's diagonal
-	lcol, lstart []int        // L below the diagonal (unit diagonal implied)
-	lval         []complex128
-	ucol, ustart []int // U above the diagonal
-	uval         []complex128
+	n    int
+	piv  []int // row i of the factors is row piv[i] of the original
+	rows []row
 }
 
 // row is one row of a matrix being factorised: the entries of columns
@@ -56,43 +52,53 @@ type sparse struct {
 	n       int
 	rows    []row
 	colLast []int
+	room    []int // capacity reserved for each row, from its first column
 }
 
 // newSparse allocates rows spanning lo[i] … hi[i] (every entry +0).
 func newSparse(n int, lo, hi []int) *sparse {
-	total := 0
-	for i := range n {
-		total += hi[i] - lo[i] + 1
-	}
-	buf := make([]complex128, total)
-	m := &sparse{n: n, rows: make([]row, n), colLast: make([]int, n)}
+	m := &sparse{n: n, rows: make([]row, n), colLast: make([]int, n), room: make([]int, n)}
 	for i := range m.colLast {
 		m.colLast[i] = -1
 	}
+	below, above := 0, 0 // the band the spans fit in
 	for i := range n {
-		w := hi[i] - lo[i] + 1
-		m.rows[i] = row{lo: lo[i], v: buf[:w:w]}
-		buf = buf[w:]
+		below, above = max(below, i-lo[i]), max(above, hi[i]-i)
 		for j := lo[i]; j <= hi[i]; j++ {
 			m.colLast[j] = i
 		}
 	}
+	// Row exchanges move a row up to `below` places and fill it to the
+	// right up to `below+above` past its new place: reserve that much, so
+	// that elimination rarely has to grow a row.
+	for i := range n {
+		m.room[i] = min(n-1, i+2*below+above) - lo[i] + 1
+	}
+	buf := m.arena()
+	for i := range n {
+		m.rows[i] = row{lo: lo[i], v: buf[: hi[i]-lo[i]+1 : m.room[i]]}
+		buf = buf[m.room[i]:]
+	}
 	return m
+}
+
+// arena allocates the room of every row in one block.
+func (m *sparse) arena() []complex128 {
+	total := 0
+	for _, r := range m.room {
+		total += r
+	}
+	return make([]complex128, total)
 }
 
 // clone copies m; the copy's rows may grow without touching m.
 func (m *sparse) clone() *sparse {
-	total := 0
-	for i := range m.rows {
-		total += len(m.rows[i].v)
-	}
-	buf := make([]complex128, total)
-	c := &sparse{n: m.n, rows: make([]row, m.n), colLast: m.colLast}
+	c := &sparse{n: m.n, rows: make([]row, m.n), colLast: m.colLast, room: m.room}
+	buf := m.arena()
 	for i, r := range m.rows {
-		w := len(r.v)
-		copy(buf, r.v)
-		c.rows[i] = row{lo: r.lo, v: buf[:w:w]}
-		buf = buf[w:]
+		c.rows[i] = row{lo: r.lo, v: buf[:len(r.v):m.room[i]]}
+		copy(c.rows[i].v, r.v)
+		buf = buf[m.room[i]:]
 	}
 	return c
 }
@@ -194,26 +200,7 @@ func (m *sparse) factor() (*lu, error) {
 			}
 		}
 	}
-	f := &lu{n: n, piv: piv, diag: make([]complex128, n), lstart: make([]int, n+1), ustart: make([]int, n+1)}
-	for i := range n {
-		r := &rows[i]
-		for j := r.lo; j < i; j++ {
-			if v := r.v[j-r.lo]; v != 0 {
-				f.lcol = append(f.lcol, j)
-				f.lval = append(f.lval, v)
-			}
-		}
-		f.lstart[i+1] = len(f.lcol)
-		f.diag[i] = r.at(i)
-		for j := i + 1; j <= r.hi(); j++ {
-			if v := r.v[j-r.lo]; v != 0 {
-				f.ucol = append(f.ucol, j)
-				f.uval = append(f.uval, v)
-			}
-		}
-		f.ustart[i+1] = len(f.ucol)
-	}
-	return f, nil
+	return &lu{n: n, piv: piv, rows: rows}, nil
 }
 
 // solve returns x with A·x = b; b is left untouched.
@@ -224,18 +211,24 @@ func (f *lu) solve(b []complex128) []complex128 {
 		x[i] = b[p]
 	}
 	for i := 1; i < n; i++ {
+		r := &f.rows[i]
 		s := x[i]
-		for k := f.lstart[i]; k < f.lstart[i+1]; k++ {
-			s -= f.lval[k] * x[f.lcol[k]]
+		for j := r.lo; j < i; j++ {
+			if v := r.v[j-r.lo]; v != 0 {
+				s -= v * x[j]
+			}
 		}
 		x[i] = s
 	}
 	for i := n - 1; i >= 0; i-- {
+		r := &f.rows[i]
 		s := x[i]
-		for k := f.ustart[i]; k < f.ustart[i+1]; k++ {
-			s -= f.uval[k] * x[f.ucol[k]]
+		for j := i + 1; j <= r.hi(); j++ {
+			if v := r.v[j-r.lo]; v != 0 {
+				s -= v * x[j]
+			}
 		}
-		x[i] = s / f.diag[i]
+		x[i] = s / r.v[i-r.lo]
 	}
 	return x
 }
