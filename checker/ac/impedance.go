@@ -23,12 +23,16 @@ const maxAmplification = 1e4
 // source and Impedance adds back) and its factors, each element's admittance,
 // and the solutions already found.
 type freq struct {
-	w     float64
-	y0    *sparse        // the assembled base matrix, kept for fresh factorisations
-	f0    *lu            // its factors
-	d     [][]complex128 // each element's D at w
-	sol   map[branch][]complex128
-	fresh map[string]*lu // factorisations with parts removed, by removed-set key
+	w   float64
+	y0  *sparse        // the assembled base matrix, kept for fresh factorisations
+	f0  *lu            // its factors
+	d   [][]complex128 // each element's D at w
+	sol map[branch][]complex128
+	// fresh holds the last factorisation with parts removed, by removed-set
+	// key (a transformer's windings ask for the same removal in turn), and
+	// scratch the matrix it was made in, whose memory the next one reuses.
+	fresh   map[string]*lu
+	scratch *sparse
 }
 
 // at returns the frequency's data, factorising Y0 the first time. The caller
@@ -194,12 +198,15 @@ func (r *Result) impedance(fr *freq, u branch, mods []mod, key string) (complex1
 	return r.freshImpedance(fr, u, mods, key)
 }
 
-// freshImpedance factorises Y0 with the mods applied (cached by key) and
+// freshImpedance factorises Y0 with the mods applied (the last one is kept,
+// by key: a transformer's windings ask for the same removal in turn) and
 // solves for u directly.
 func (r *Result) freshImpedance(fr *freq, u branch, mods []mod, key string) (complex128, error) {
 	f, ok := fr.fresh[key]
 	if !ok {
-		y := fr.y0.clone()
+		clear(fr.fresh) // its memory is about to be reused
+		y := fr.y0.cloneInto(fr.scratch)
+		fr.scratch = y
 		for _, m := range mods {
 			stamp(y, r.net.elems[m.elem].branches, fr.d[m.elem], m.sign)
 		}

@@ -52,7 +52,8 @@ type sparse struct {
 	n       int
 	rows    []row
 	colLast []int
-	room    []int // capacity reserved for each row, from its first column
+	room    []int        // capacity reserved for each row, from its first column
+	buf     []complex128 // the block the rows were cut from
 }
 
 // newSparse allocates rows spanning lo[i] … hi[i] (every entry +0).
@@ -74,7 +75,8 @@ func newSparse(n int, lo, hi []int) *sparse {
 	for i := range n {
 		m.room[i] = min(n-1, i+2*below+above) - lo[i] + 1
 	}
-	buf := m.arena()
+	m.buf = m.arena()
+	buf := m.buf
 	for i := range n {
 		m.rows[i] = row{lo: lo[i], v: buf[: hi[i]-lo[i]+1 : m.room[i]]}
 		buf = buf[m.room[i]:]
@@ -92,9 +94,16 @@ func (m *sparse) arena() []complex128 {
 }
 
 // clone copies m; the copy's rows may grow without touching m.
-func (m *sparse) clone() *sparse {
-	c := &sparse{n: m.n, rows: make([]row, m.n), colLast: m.colLast, room: m.room}
-	buf := m.arena()
+func (m *sparse) clone() *sparse { return m.cloneInto(nil) }
+
+// cloneInto copies m into c, reusing c's memory when it came from a clone of
+// m before (c's previous contents, and factors made from them, are lost); nil
+// allocates.
+func (m *sparse) cloneInto(c *sparse) *sparse {
+	if c == nil || c.n != m.n || len(c.buf) != len(m.buf) {
+		c = &sparse{n: m.n, rows: make([]row, m.n), colLast: m.colLast, room: m.room, buf: m.arena()}
+	}
+	buf := c.buf
 	for i, r := range m.rows {
 		c.rows[i] = row{lo: r.lo, v: buf[:len(r.v):m.room[i]]}
 		copy(c.rows[i].v, r.v)
