@@ -3,6 +3,7 @@ package ac
 import (
 	"fmt"
 	"math"
+	"slices"
 	"sort"
 
 	"headroom/checker/circuit"
@@ -360,63 +361,70 @@ func (nw *network) refs(removed []string) ([]int, error) {
 // the graph of nets that share a part, so that the nodal matrix is banded and
 // its factorisation fills in little (a chain of stages stays a chain).
 func order(c *circuit.Circuit, acGround map[string]bool) []string {
-	adj := map[string]map[string]bool{}
-	link := func(nets []string) {
-		for _, a := range nets {
-			if a == circuit.Gnd || acGround[a] {
-				continue
+	nets := c.Nets() // sorted: ties are broken by name, that is by index
+	idx := make(map[string]int, len(nets))
+	skip := make([]bool, len(nets))
+	for i, n := range nets {
+		idx[n] = i
+		skip[i] = acGround[n]
+	}
+	adj := make([][]int, len(nets))
+	var ends []int
+	for _, p := range c.Parts {
+		ends = ends[:0]
+		for _, n := range p.PartNets() {
+			if i, ok := idx[n]; ok && !skip[i] {
+				ends = append(ends, i)
 			}
-			if adj[a] == nil {
-				adj[a] = map[string]bool{}
-			}
-			for _, b := range nets {
-				if b != a && b != circuit.Gnd && !acGround[b] {
-					adj[a][b] = true
+		}
+		for _, a := range ends {
+			for _, b := range ends {
+				if b != a {
+					adj[a] = append(adj[a], b)
 				}
 			}
 		}
 	}
-	for _, p := range c.Parts {
-		link(p.PartNets())
+	for i := range adj {
+		slices.Sort(adj[i])
+		adj[i] = slices.Compact(adj[i])
 	}
-	nets := c.Nets() // sorted: ties are broken by name
-	degree := func(n string) int { return len(adj[n]) }
-	seen := map[string]bool{}
+	degree := func(n int) int { return len(adj[n]) }
+	seen := make([]bool, len(nets))
 	out := make([]string, 0, len(nets))
+	var queue, next []int
 	for {
-		start := ""
-		for _, n := range nets {
-			if !seen[n] && !acGround[n] && (start == "" || degree(n) < degree(start)) {
-				start = n
+		start := -1
+		for i := range nets {
+			if !seen[i] && !skip[i] && (start < 0 || degree(i) < degree(start)) {
+				start = i
 			}
 		}
-		if start == "" {
+		if start < 0 {
 			break
 		}
 		seen[start] = true
-		queue := []string{start}
+		queue = append(queue[:0], start)
 		for len(queue) > 0 {
 			n := queue[0]
 			queue = queue[1:]
-			out = append(out, n)
-			var next []string
-			for m := range adj[n] {
+			out = append(out, nets[n])
+			next = next[:0]
+			for _, m := range adj[n] {
 				if !seen[m] {
 					seen[m] = true
 					next = append(next, m)
 				}
 			}
-			sort.Slice(next, func(i, j int) bool {
-				if di, dj := degree(next[i]), degree(next[j]); di != dj {
-					return di < dj
+			slices.SortFunc(next, func(a, b int) int {
+				if da, db := degree(a), degree(b); da != db {
+					return da - db
 				}
-				return next[i] < next[j]
+				return a - b
 			})
 			queue = append(queue, next...)
 		}
 	}
-	for i, j := 0, len(out)-1; i < j; i, j = i+1, j-1 {
-		out[i], out[j] = out[j], out[i]
-	}
+	slices.Reverse(out)
 	return out
 }
