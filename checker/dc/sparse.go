@@ -1,6 +1,9 @@
 package dc
 
-import "math"
+import (
+	"math"
+	"slices"
+)
 
 // sparseLU solves the Newton systems over the matrix's non-zero entries
 // only. A dense factorisation costs n³ per iteration, which dominates the
@@ -37,42 +40,45 @@ type sparseLU struct {
 	ipiv   []int   // LAPACK's: at step k, positions k and ipiv[k] were exchanged
 	arenaC []int
 	arenaV []float64
+	// pat is, per physical row, the columns the last factorisation filled
+	// (nil before the first). The next one starts every row on them, with
+	// explicit zeros where the matrix has no entry, so that the Newton
+	// iterations after the first update their rows in place: an explicit
+	// zero takes part in nothing (see update), so the arithmetic is the same.
+	pat    [][]int
+	patBuf []int
+	filled bool // the current factorisation filled a row beyond its pattern
 }
 
-// slotter builds the fixed pattern: entries are added with slot and then
-// addressed by the returned index.
+// slotter builds the fixed pattern: entries are marked, then frozen by
+// build and addressed by slot.
 type slotter struct {
 	n    int
-	rows []map[int]bool
+	keys []int // i·n + j of every marked entry, repeats included
 }
 
-func newSlotter(n int) *slotter {
-	s := &slotter{n: n, rows: make([]map[int]bool, n)}
-	for i := range s.rows {
-		s.rows[i] = map[int]bool{}
-	}
-	return s
-}
+func newSlotter(n int) *slotter { return &slotter{n: n} }
 
 // mark records that entry (i, j) may be non-zero; gnd rows and columns are
 // ignored.
 func (s *slotter) mark(i, j int) {
 	if i != gnd && j != gnd {
-		s.rows[i][j] = true
+		s.keys = append(s.keys, i*s.n+j)
 	}
 }
 
-// build freezes the pattern into m.
+// build freezes the pattern.
 func (s *slotter) build() *sparseLU {
 	n := s.n
-	m := &sparseLU{n: n, start: make([]int, n+1)}
-	for i, r := range s.rows {
-		for j := 0; j < n && len(r) > 0; j++ {
-			if r[j] {
-				m.cols = append(m.cols, j)
-			}
-		}
-		m.start[i+1] = len(m.cols)
+	slices.Sort(s.keys)
+	keys := slices.Compact(s.keys)
+	m := &sparseLU{n: n, start: make([]int, n+1), cols: make([]int, len(keys))}
+	for e, k := range keys {
+		m.cols[e] = k % n
+		m.start[k/n+1]++
+	}
+	for i := 0; i < n; i++ {
+		m.start[i+1] += m.start[i]
 	}
 	m.vals = make([]float64, len(m.cols))
 	m.rc, m.rv = make([][]int, n), make([][]float64, n)
@@ -123,19 +129,39 @@ func (m *sparseLU) factor() (ok, dense bool) {
 			return false, true
 		}
 	}
-	m.arenaC = append(m.arenaC[:0], m.cols...)
-	m.arenaV = append(m.arenaV[:0], m.vals...)
+	if m.pat == nil {
+		m.pat = make([][]int, n)
+		for i := range n {
+			m.pat[i] = m.cols[m.start[i]:m.start[i+1]]
+		}
+	}
+	m.arenaC, m.arenaV = m.arenaC[:0], m.arenaV[:0]
 	for j := range m.colOf {
 		m.colOf[j] = m.colOf[j][:0]
 	}
 	for i := 0; i < n; i++ {
-		a, b := m.start[i], m.start[i+1]
-		m.rc[i], m.rv[i] = m.arenaC[a:b:b], m.arenaV[a:b:b]
-		m.pos[i], m.at[i], m.next[i] = i, i, 0
-		for _, j := range m.rc[i] {
+		// Row i on its pattern: the matrix's entries, zeros elsewhere.
+		a := len(m.arenaC)
+		e, end := m.start[i], m.start[i+1]
+		for _, j := range m.pat[i] {
+			v := 0.0
+			if e < end && m.cols[e] == j {
+				v = m.vals[e]
+				e++
+			}
+			m.arenaC = append(m.arenaC, j)
+			m.arenaV = append(m.arenaV, v)
 			m.colOf[j] = append(m.colOf[j], i)
 		}
+		m.pos[i], m.at[i], m.next[i] = i, i, 0
+		m.rc[i] = m.arenaC[a:len(m.arenaC):len(m.arenaC)]
 	}
+	for i, a := 0, 0; i < n; i++ {
+		b := a + len(m.rc[i])
+		m.rc[i], m.rv[i] = m.arenaC[a:b:b], m.arenaV[a:b:b] // the arena may have moved
+		a = b
+	}
+	m.filled = false
 	ok = true
 	for k := 0; k < n; k++ {
 		// Pivot: the first largest |a| in column k, in position order.
@@ -188,6 +214,17 @@ func (m *sparseLU) factor() (ok, dense bool) {
 			return false, true
 		}
 	}
+	if m.filled {
+		m.patBuf = m.patBuf[:0]
+		for r := range m.rc {
+			m.patBuf = append(m.patBuf, m.rc[r]...)
+		}
+		for r, a := 0, 0; r < n; r++ {
+			b := a + len(m.rc[r])
+			m.pat[r] = m.patBuf[a:b:b]
+			a = b
+		}
+	}
 	return ok, false
 }
 
@@ -235,6 +272,7 @@ func (m *sparseLU) update(r, i int, l float64, pc []int, pv []float64, k int) {
 		return
 	}
 	startC := len(m.arenaC)
+	m.filled = true
 	m.arenaC = append(m.arenaC, rc[:i+1]...)
 	m.arenaV = append(m.arenaV, rv[:i+1]...)
 	a, b := i+1, 0
