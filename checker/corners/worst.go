@@ -56,14 +56,17 @@ func Worst(c *circuit.Circuit, topo *topology.Topology, nominal *analysis.Case, 
 	}
 
 	// One analysis per parameter, at its high end: the sign of each item's
-	// change gives the adverse end.
+	// change gives the adverse end. Findings are copied out of the case's
+	// slice, which the next case reuses.
+	var buf []engine.Finding
 	for i, p := range box {
 		cc := c.Clone()
 		p.set(cc, p.Hi)
-		hi, err := engine.Measure(analysis.Run(cc, topo), nominal, cfg)
+		hi, err := engine.MeasureAppend(buf[:0], analysis.Run(cc, topo), nominal, cfg)
 		if err != nil {
 			return nil, err
 		}
+		buf = hi
 		for j := range hi {
 			f := &hi[j]
 			it := get(f)
@@ -113,10 +116,11 @@ func Worst(c *circuit.Circuit, topo *topology.Topology, nominal *analysis.Case, 
 				corner[p.Key] = p.Lo
 			}
 		}
-		vf, err := engine.Measure(analysis.Run(cc, topo), nominal, cfg)
+		vf, err := engine.MeasureAppend(buf[:0], analysis.Run(cc, topo), nominal, cfg)
 		if err != nil {
 			return nil, err
 		}
+		buf = vf
 		at := map[engine.Key]*engine.Finding{}
 		for j := range vf {
 			at[engine.KeyOf(&vf[j])] = &vf[j]

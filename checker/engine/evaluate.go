@@ -37,14 +37,19 @@ func Evaluate(cs *analysis.Case, nominal *analysis.Case, cfg *Config) ([]Finding
 // (MessageLater): the worst-case search judges every item at many cases and
 // writes each message once, at the case it reports.
 func Measure(cs *analysis.Case, nominal *analysis.Case, cfg *Config) ([]Finding, error) {
+	return MeasureAppend(make([]Finding, 0, 2*len(cs.Circuit.Parts)+16), cs, nominal, cfg)
+}
+
+// MeasureAppend is Measure appending to dst, so that a search can reuse one
+// slice for the cases it is done with (findings are large: growing a new
+// slice for every case cost more than the rules' judging).
+func MeasureAppend(dst []Finding, cs *analysis.Case, nominal *analysis.Case, cfg *Config) ([]Finding, error) {
 	worst := nominal != nil
 	if nominal == nil {
 		nominal = cs
 	}
 	pos := positions(cs.Circuit)
-	// Every pass appends to the one slice: findings are large, and copying
-	// each rule's into a growing total cost more than the rules' judging.
-	all := make([]Finding, 0, 2*len(cs.Circuit.Parts)+16)
+	all := dst // every pass appends to the one slice
 	for _, r := range cfg.Rules {
 		if r.Run == nil || !cfg.Enabled(r) || r.NeedsCorners && !worst || r.Static && cs != nominal {
 			continue
