@@ -67,6 +67,7 @@ func Worst(c *circuit.Circuit, topo *topology.Topology, nominal *analysis.Case, 
 			return nil, err
 		}
 		buf = hi
+		var corner map[string]float64 // shared by the items whose worst this case is
 		for j := range hi {
 			f := &hi[j]
 			it := get(f)
@@ -82,7 +83,10 @@ func Worst(c *circuit.Circuit, topo *topology.Topology, nominal *analysis.Case, 
 				}
 			}
 			if engine.Worse(f, &it.best) {
-				it.best, it.corner = *f, map[string]float64{p.Key: p.Hi}
+				if corner == nil {
+					corner = map[string]float64{p.Key: p.Hi}
+				}
+				it.best, it.corner = *f, corner
 			}
 		}
 	}
@@ -121,9 +125,15 @@ func Worst(c *circuit.Circuit, topo *topology.Topology, nominal *analysis.Case, 
 			return nil, err
 		}
 		buf = vf
-		at := map[engine.Key]*engine.Finding{}
+		at := make(map[engine.Key]*engine.Finding, len(keys)) // the items judged here
+		for _, k := range keys {
+			at[k] = nil
+		}
 		for j := range vf {
-			at[engine.KeyOf(&vf[j])] = &vf[j]
+			k := engine.KeyOf(&vf[j])
+			if _, ok := at[k]; ok {
+				at[k] = &vf[j] // a key's last finding, as a map of all of them kept
+			}
 		}
 		for _, k := range keys {
 			it := items[k]
