@@ -11,9 +11,46 @@
 package corners
 
 import (
+	"slices"
+
 	"headroom/checker/circuit"
 	"headroom/checker/quantity"
 )
+
+// variant returns a copy of c for one case of the box: the lists of parts
+// and supplies are its own, their entries still c's. A Param's set replaces
+// the entry it changes with a copy first (own, ownBJT, ownSupply), so c is
+// never touched and the parts a case leaves alone are not copied. The
+// analyses and rules only read a circuit; a rule that edits one (a fix)
+// makes its own deep Clone.
+func variant(c *circuit.Circuit) *circuit.Circuit {
+	d := *c
+	d.Parts = slices.Clone(c.Parts)
+	d.Supplies = slices.Clone(c.Supplies)
+	return &d
+}
+
+// own replaces part i of c with a copy and returns it.
+func own(c *circuit.Circuit, i int) *circuit.Part {
+	x := *c.Parts[i]
+	c.Parts[i] = &x
+	return &x
+}
+
+// ownBJT is own for a transistor's figures.
+func ownBJT(c *circuit.Circuit, i int) *circuit.BJTParams {
+	p := own(c, i)
+	b := *p.BJT
+	p.BJT = &b
+	return &b
+}
+
+// ownSupply is own for supply i.
+func ownSupply(c *circuit.Circuit, i int) *circuit.Supply {
+	x := *c.Supplies[i]
+	c.Supplies[i] = &x
+	return &x
+}
 
 // Param is one dimension of the box.
 type Param struct {
@@ -37,20 +74,20 @@ func Box(c *circuit.Circuit) []Param {
 			if p.Kind == circuit.Capacitor {
 				u = quantity.Farad
 			}
-			ps = appendTol(ps, p.Ref, p.Value, p.Tolerance, u, func(c *circuit.Circuit, v float64) { c.Parts[i].Value = v })
+			ps = appendTol(ps, p.Ref, p.Value, p.Tolerance, u, func(c *circuit.Circuit, v float64) { own(c, i).Value = v })
 		case circuit.Inductor:
 			if p.Turns > 0 {
-				ps = appendTol(ps, p.Ref+".al", p.AL, p.ALTolerance, quantity.Henry, func(c *circuit.Circuit, v float64) { c.Parts[i].AL = v })
+				ps = appendTol(ps, p.Ref+".al", p.AL, p.ALTolerance, quantity.Henry, func(c *circuit.Circuit, v float64) { own(c, i).AL = v })
 			} else {
-				ps = appendTol(ps, p.Ref, p.Value, p.Tolerance, quantity.Henry, func(c *circuit.Circuit, v float64) { c.Parts[i].Value = v })
+				ps = appendTol(ps, p.Ref, p.Value, p.Tolerance, quantity.Henry, func(c *circuit.Circuit, v float64) { own(c, i).Value = v })
 			}
 		case circuit.Transformer:
-			ps = appendTol(ps, p.Ref+".al", p.AL, p.ALTolerance, quantity.Henry, func(c *circuit.Circuit, v float64) { c.Parts[i].AL = v })
+			ps = appendTol(ps, p.Ref+".al", p.AL, p.ALTolerance, quantity.Henry, func(c *circuit.Circuit, v float64) { own(c, i).AL = v })
 		case circuit.NPN, circuit.PNP:
 			b := p.BJT
 			if b != nil && b.HFEMax > b.HFEMin {
 				ps = append(ps, Param{Key: p.Ref + ".hfe", Nom: b.NominalHFE(), Lo: b.HFEMin, Hi: b.HFEMax,
-					Unit: quantity.Ratio, set: func(c *circuit.Circuit, v float64) { c.Parts[i].BJT.HFETyp = v }})
+					Unit: quantity.Ratio, set: func(c *circuit.Circuit, v float64) { ownBJT(c, i).HFETyp = v }})
 			}
 		}
 	}
@@ -62,7 +99,7 @@ func Box(c *circuit.Circuit) []Param {
 		}
 		if hi > lo {
 			ps = append(ps, Param{Key: s.Net, Nom: s.Volts, Lo: lo, Hi: hi, holdsSupply: true, Unit: quantity.Volt,
-				set: func(c *circuit.Circuit, v float64) { c.Supplies[i].Volts = v }})
+				set: func(c *circuit.Circuit, v float64) { ownSupply(c, i).Volts = v }})
 		}
 	}
 	if a := c.Ambient; a.Hi > a.Lo {

@@ -29,7 +29,7 @@ func Ranges(c *circuit.Circuit, topo *topology.Topology, nominal *analysis.Case,
 		}
 	}
 	for i, p := range box {
-		cc := c.Clone()
+		cc := variant(c)
 		p.set(cc, p.Hi)
 		hi := q(analysis.Run(cc, topo))
 		widen(hi)
@@ -52,7 +52,7 @@ func Ranges(c *circuit.Circuit, topo *topology.Topology, nominal *analysis.Case,
 				if !hasMove(d) {
 					continue
 				}
-				cc := c.Clone()
+				cc := variant(c)
 				for i, p := range box {
 					switch d[i] * sign {
 					case +1:

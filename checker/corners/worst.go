@@ -60,7 +60,7 @@ func Worst(c *circuit.Circuit, topo *topology.Topology, nominal *analysis.Case, 
 	// slice, which the next case reuses.
 	var buf []engine.Finding
 	for i, p := range box {
-		cc := c.Clone()
+		cc := variant(c)
 		p.set(cc, p.Hi)
 		hi, err := engine.MeasureAppend(buf[:0], analysis.Run(cc, topo), nominal, cfg)
 		if err != nil {
@@ -108,7 +108,7 @@ func Worst(c *circuit.Circuit, topo *topology.Topology, nominal *analysis.Case, 
 	for _, sig := range vorder {
 		keys := vertices[sig]
 		dirs := items[keys[0]].dirs
-		cc := c.Clone()
+		cc := variant(c)
 		corner := map[string]float64{}
 		for i, p := range box {
 			switch dirs[i] {
