@@ -33,6 +33,7 @@ type freq struct {
 	// scratch the matrix it was made in, whose memory the next one reuses.
 	fresh   map[string]*lu
 	scratch *sparse
+	work    []complex128 // right-hand side and solution of a removal query
 }
 
 // at returns the frequency's data, factorising Y0 the first time. The caller
@@ -217,14 +218,18 @@ func (r *Result) freshImpedance(fr *freq, u branch, mods []mod, key string) (com
 		fr.fresh[key] = f
 	}
 	n := r.net.n
-	rhs := make([]complex128, n)
+	if len(fr.work) != 2*n {
+		fr.work = make([]complex128, 2*n)
+	}
+	rhs, x := fr.work[:n], fr.work[n:]
+	clear(rhs)
 	if u.from != ground {
 		rhs[u.from]++
 	}
 	if u.to != ground {
 		rhs[u.to]--
 	}
-	z := across(f.solve(rhs), u)
+	z := across(f.solveInto(x, rhs), u)
 	if !finite(z) {
 		return 0, errSingular
 	}

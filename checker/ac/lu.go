@@ -214,8 +214,13 @@ func (m *sparse) factor() (*lu, error) {
 
 // solve returns x with A·x = b; b is left untouched.
 func (f *lu) solve(b []complex128) []complex128 {
+	return f.solveInto(make([]complex128, f.n), b)
+}
+
+// solveInto is solve writing x into dst (length n, not b).
+func (f *lu) solveInto(dst, b []complex128) []complex128 {
 	n := f.n
-	x := make([]complex128, n)
+	x := dst[:n]
 	for i, p := range f.piv {
 		x[i] = b[p]
 	}

@@ -56,7 +56,8 @@ type network struct {
 
 // build turns a circuit and its operating point into a network.
 func build(c *circuit.Circuit, op *dc.Result) (*network, error) {
-	nw := &network{nodes: map[string]int{circuit.Gnd: ground}, parts: map[string]int{}, source: -1}
+	nw := &network{nodes: map[string]int{circuit.Gnd: ground}, parts: make(map[string]int, len(c.Parts)), source: -1,
+		elems: make([]element, 0, len(c.Supplies)+len(c.Ports)+len(c.Parts))}
 	acGround := map[string]bool{}
 	for _, s := range c.Supplies {
 		if !(s.Impedance >= 0) || math.IsInf(s.Impedance, 0) {

@@ -81,6 +81,8 @@ func (s *slotter) build() *sparseLU {
 		m.start[i+1] += m.start[i]
 	}
 	m.vals = make([]float64, len(m.cols))
+	// Room for the fill and the rows it rewrites, so that the arena rarely grows.
+	m.arenaC, m.arenaV = make([]int, 0, 4*len(m.cols)), make([]float64, 0, 4*len(m.cols))
 	m.rc, m.rv = make([][]int, n), make([][]float64, n)
 	m.pos, m.at, m.next = make([]int, n), make([]int, n), make([]int, n)
 	m.colOf = make([][]int, n)
