@@ -3,6 +3,7 @@ package dc
 import (
 	"math"
 	"slices"
+	"sort"
 )
 
 // sparseLU solves the Newton systems over the matrix's non-zero entries
@@ -47,7 +48,8 @@ type sparseLU struct {
 	// zero takes part in nothing (see update), so the arithmetic is the same.
 	pat    [][]int
 	patBuf []int
-	filled bool // the current factorisation filled a row beyond its pattern
+	filled bool  // the current factorisation filled a row beyond its pattern
+	hit    []int // scratch of update
 }
 
 // slotter builds the fixed pattern: entries are marked, then frozen by
@@ -249,53 +251,50 @@ func (m *sparseLU) entry(r, k int) float64 {
 // have an entry, (−l)·u where only the pivot row has one (0 + x is x).
 func (m *sparseLU) update(r, i int, l float64, pc []int, pv []float64, k int) {
 	rc, rv := m.rc[r], m.rv[r]
-	// Without fill the row is updated in place.
-	fill := false
-	for a, b := i+1, 0; b < len(pc); {
-		switch {
-		case a < len(rc) && rc[a] < pc[b]:
+	// Without fill the row is updated in place. The pivot row's columns are
+	// looked up by bisection: a row that gathers the fill of many stages
+	// (a supply rail's) is long, the pivot row short.
+	m.hit = m.hit[:0]
+	missing := false
+	for a, b := i+1, 0; b < len(pc); b++ {
+		a += sort.SearchInts(rc[a:], pc[b])
+		m.hit = append(m.hit, a) // where pc[b] is or would go
+		if a < len(rc) && rc[a] == pc[b] {
 			a++
-		case a < len(rc) && rc[a] == pc[b]:
-			a++
-			b++
-		default:
-			fill = true
-			b = len(pc)
+		} else {
+			missing = true
 		}
 	}
-	if !fill {
-		for a, b := i+1, 0; b < len(pc); a++ {
-			if rc[a] == pc[b] {
-				rv[a] += -l * pv[b]
-				b++
-			}
+	if !missing {
+		for b, a := range m.hit {
+			rv[a] += -l * pv[b]
 		}
 		m.next[r] = i + 1
 		return
 	}
+	// Fill: the row is rewritten at the end of the arena, its stretches
+	// between the pivot row's columns copied whole.
 	startC := len(m.arenaC)
 	m.filled = true
 	m.arenaC = append(m.arenaC, rc[:i+1]...)
 	m.arenaV = append(m.arenaV, rv[:i+1]...)
-	a, b := i+1, 0
-	for a < len(rc) || b < len(pc) {
-		switch {
-		case b == len(pc) || a < len(rc) && rc[a] < pc[b]:
+	from := i + 1
+	for b, a := range m.hit {
+		m.arenaC = append(m.arenaC, rc[from:a]...)
+		m.arenaV = append(m.arenaV, rv[from:a]...)
+		if a < len(rc) && rc[a] == pc[b] {
 			m.arenaC = append(m.arenaC, rc[a])
-			m.arenaV = append(m.arenaV, rv[a])
-			a++
-		case a == len(rc) || pc[b] < rc[a]:
+			m.arenaV = append(m.arenaV, rv[a]+-l*pv[b])
+			from = a + 1
+		} else {
 			m.arenaC = append(m.arenaC, pc[b])
 			m.arenaV = append(m.arenaV, -l*pv[b])
 			m.colOf[pc[b]] = append(m.colOf[pc[b]], r)
-			b++
-		default:
-			m.arenaC = append(m.arenaC, rc[a])
-			m.arenaV = append(m.arenaV, rv[a]+-l*pv[b])
-			a++
-			b++
+			from = a
 		}
 	}
+	m.arenaC = append(m.arenaC, rc[from:]...)
+	m.arenaV = append(m.arenaV, rv[from:]...)
 	// Rows are cut with their capacity closed, so appending to the arena
 	// never writes into one; a row cut before the arena moved keeps its old
 	// backing array.
