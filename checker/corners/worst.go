@@ -1,9 +1,12 @@
 package corners
 
 import (
+	"context"
 	"fmt"
 	"math"
+	"runtime"
 	"strings"
+	"sync/atomic"
 
 	"headroom/checker/analysis"
 	"headroom/checker/circuit"
@@ -56,17 +59,13 @@ func Worst(c *circuit.Circuit, topo *topology.Topology, nominal *analysis.Case, 
 	}
 
 	// One analysis per parameter, at its high end: the sign of each item's
-	// change gives the adverse end. Findings are copied out of the case's
-	// slice, which the next case reuses.
-	var buf []engine.Finding
-	for i, p := range box {
+	// change gives the adverse end.
+	err = inOrder(len(box), func(i int, buf []engine.Finding) ([]engine.Finding, error) {
 		cc := variant(c)
-		p.set(cc, p.Hi)
-		hi, err := engine.MeasureAppend(buf[:0], analysis.Run(cc, topo), nominal, cfg)
-		if err != nil {
-			return nil, err
-		}
-		buf = hi
+		box[i].set(cc, box[i].Hi)
+		return engine.MeasureAppend(buf, analysis.Run(cc, topo), nominal, cfg)
+	}, func(i int, hi []engine.Finding) {
+		p := box[i]
 		var corner map[string]float64 // shared by the items whose worst this case is
 		for j := range hi {
 			f := &hi[j]
@@ -89,6 +88,9 @@ func Worst(c *circuit.Circuit, topo *topology.Topology, nominal *analysis.Case, 
 				it.best, it.corner = *f, corner
 			}
 		}
+	})
+	if err != nil {
+		return nil, err
 	}
 
 	// Judge each item at its vertex; items wanting the same vertex share it.
@@ -105,26 +107,32 @@ func Worst(c *circuit.Circuit, topo *topology.Topology, nominal *analysis.Case, 
 		}
 		vertices[sig] = append(vertices[sig], k)
 	}
-	for _, sig := range vorder {
-		keys := vertices[sig]
-		dirs := items[keys[0]].dirs
+	corners := make([]map[string]float64, len(vorder))
+	err = inOrder(len(vorder), func(v int, buf []engine.Finding) ([]engine.Finding, error) {
+		dirs := items[vertices[vorder[v]][0]].dirs
 		cc := variant(c)
-		corner := map[string]float64{}
 		for i, p := range box {
 			switch dirs[i] {
 			case +1:
 				p.set(cc, p.Hi)
-				corner[p.Key] = p.Hi
 			case -1:
 				p.set(cc, p.Lo)
+			}
+		}
+		return engine.MeasureAppend(buf, analysis.Run(cc, topo), nominal, cfg)
+	}, func(v int, vf []engine.Finding) {
+		keys := vertices[vorder[v]]
+		dirs := items[keys[0]].dirs
+		corner := map[string]float64{}
+		for i, p := range box {
+			switch dirs[i] {
+			case +1:
+				corner[p.Key] = p.Hi
+			case -1:
 				corner[p.Key] = p.Lo
 			}
 		}
-		vf, err := engine.MeasureAppend(buf[:0], analysis.Run(cc, topo), nominal, cfg)
-		if err != nil {
-			return nil, err
-		}
-		buf = vf
+		corners[v] = corner
 		at := make(map[engine.Key]*engine.Finding, len(keys)) // the items judged here
 		for _, k := range keys {
 			at[k] = nil
@@ -141,6 +149,9 @@ func Worst(c *circuit.Circuit, topo *topology.Topology, nominal *analysis.Case, 
 				it.best, it.corner = *f, corner
 			}
 		}
+	})
+	if err != nil {
+		return nil, err
 	}
 
 	out := make([]engine.Finding, 0, len(order))
@@ -153,6 +164,82 @@ func Worst(c *circuit.Circuit, topo *topology.Topology, nominal *analysis.Case, 
 		out = append(out, f)
 	}
 	return out, nil
+}
+
+// inOrder runs measure for cases 0 … n−1 and hands each case's findings to
+// use, in case order, so that the search's outcome does not depend on
+// scheduling. With GOMAXPROCS above one the cases are analysed on that many
+// goroutines, a few cases ahead of use; measure must then be safe to run
+// concurrently (an analysis reads the circuit, topology, nominal case and
+// configuration it shares with the others). A finding slice handed to use
+// is reused for a later case: use copies what it keeps. The error is the
+// first in case order.
+func inOrder(n int, measure func(i int, buf []engine.Finding) ([]engine.Finding, error), use func(i int, fs []engine.Finding)) error {
+	workers := min(runtime.GOMAXPROCS(0), n)
+	if workers <= 1 {
+		var buf []engine.Finding
+		for i := 0; i < n; i++ {
+			fs, err := measure(i, buf[:0])
+			if err != nil {
+				return err
+			}
+			use(i, fs)
+			buf = fs
+		}
+		return nil
+	}
+	type result struct {
+		fs  []engine.Finding
+		err error
+	}
+	results := make([]chan result, n)
+	for i := range results {
+		results[i] = make(chan result, 1)
+	}
+	ahead := 2 * workers
+	slots := make(chan struct{}, ahead)                     // a slot per case in flight or waiting for use
+	free := make(chan []engine.Finding, ahead)              // slices use is done with
+	ctx, cancel := context.WithCancel(context.Background()) // stops the workers when use is done
+	defer cancel()
+	var next atomic.Int64
+	for range workers {
+		go func() {
+			for {
+				// Take a slot before a case number, so that the cases in
+				// flight are always the next ones use waits for.
+				select {
+				case slots <- struct{}{}:
+				case <-ctx.Done():
+					return
+				}
+				i := int(next.Add(1) - 1)
+				if i >= n {
+					<-slots
+					return
+				}
+				var buf []engine.Finding
+				select {
+				case buf = <-free:
+				default:
+				}
+				fs, err := measure(i, buf[:0])
+				results[i] <- result{fs, err}
+			}
+		}()
+	}
+	for i := 0; i < n; i++ {
+		r := <-results[i]
+		if r.err != nil {
+			return r.err
+		}
+		use(i, r.fs)
+		select {
+		case free <- r.fs:
+		default:
+		}
+		<-slots
+	}
+	return nil
 }
 
 // moved reports whether a metric moved by more than one part in 10⁶. The
