@@ -34,6 +34,7 @@ type freq struct {
 	fresh   map[string]*lu
 	scratch *sparse
 	work    []complex128 // right-hand side and solution of a removal query
+	rhs     []complex128 // right-hand side of solveBranch
 }
 
 // at returns the frequency's data, factorising Y0 the first time. The caller
@@ -89,7 +90,11 @@ func (fr *freq) solveBranch(b branch) []complex128 {
 		return x
 	}
 	n := fr.f0.n
-	rhs := make([]complex128, n)
+	if len(fr.rhs) != n {
+		fr.rhs = make([]complex128, n)
+	}
+	rhs := fr.rhs
+	clear(rhs)
 	if b.from != ground {
 		rhs[b.from]++
 	}

@@ -54,6 +54,7 @@ type sparse struct {
 	colLast []int
 	room    []int        // capacity reserved for each row, from its first column
 	buf     []complex128 // the block the rows were cut from
+	piv, nz []int        // factor's: the factors' row order (kept by them) and scratch
 }
 
 // newSparse allocates rows spanning lo[i] … hi[i] (every entry +0).
@@ -155,11 +156,13 @@ func factor(a []complex128, n int) (*lu, error) {
 func (m *sparse) factor() (*lu, error) {
 	n := m.n
 	rows := m.rows
-	piv := make([]int, n)
+	if len(m.piv) != n {
+		m.piv, m.nz = make([]int, n), make([]int, 0, n)
+	}
+	piv, nz := m.piv, m.nz
 	for i := range piv {
 		piv[i] = i
 	}
-	nz := make([]int, 0, n)
 	reach := 0 // R(k)
 	for k := 0; k < n; k++ {
 		reach = max(reach, k, m.colLast[k])
