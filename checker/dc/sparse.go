@@ -50,6 +50,8 @@ type sparseLU struct {
 	patBuf []int
 	filled bool  // the current factorisation filled a row beyond its pattern
 	hit    []int // scratch of update
+	tmpC   []int
+	tmpV   []float64
 }
 
 // slotter builds the fixed pattern: entries are marked, then frozen by
@@ -272,34 +274,40 @@ func (m *sparseLU) update(r, i int, l float64, pc []int, pv []float64, k int) {
 		m.next[r] = i + 1
 		return
 	}
-	// Fill: the row is rewritten at the end of the arena, its stretches
-	// between the pivot row's columns copied whole.
-	startC := len(m.arenaC)
+	// Fill: the row is merged in scratch, its stretches between the pivot
+	// row's columns copied whole, then put back in place when its room
+	// allows, else at the end of the arena with as much room again (a
+	// supply rail's row collects fill from every stage).
 	m.filled = true
-	m.arenaC = append(m.arenaC, rc[:i+1]...)
-	m.arenaV = append(m.arenaV, rv[:i+1]...)
+	tc, tv := append(m.tmpC[:0], rc[:i+1]...), append(m.tmpV[:0], rv[:i+1]...)
 	from := i + 1
 	for b, a := range m.hit {
-		m.arenaC = append(m.arenaC, rc[from:a]...)
-		m.arenaV = append(m.arenaV, rv[from:a]...)
+		tc, tv = append(tc, rc[from:a]...), append(tv, rv[from:a]...)
 		if a < len(rc) && rc[a] == pc[b] {
-			m.arenaC = append(m.arenaC, rc[a])
-			m.arenaV = append(m.arenaV, rv[a]+-l*pv[b])
+			tc, tv = append(tc, rc[a]), append(tv, rv[a]+-l*pv[b])
 			from = a + 1
 		} else {
-			m.arenaC = append(m.arenaC, pc[b])
-			m.arenaV = append(m.arenaV, -l*pv[b])
+			tc, tv = append(tc, pc[b]), append(tv, -l*pv[b])
 			m.colOf[pc[b]] = append(m.colOf[pc[b]], r)
 			from = a
 		}
 	}
-	m.arenaC = append(m.arenaC, rc[from:]...)
-	m.arenaV = append(m.arenaV, rv[from:]...)
-	// Rows are cut with their capacity closed, so appending to the arena
-	// never writes into one; a row cut before the arena moved keeps its old
-	// backing array.
-	end := len(m.arenaC)
-	m.rc[r], m.rv[r] = m.arenaC[startC:end:end], m.arenaV[startC:end:end]
+	tc, tv = append(tc, rc[from:]...), append(tv, rv[from:]...)
+	m.tmpC, m.tmpV = tc, tv
+	n := len(tc)
+	if n <= cap(rc) {
+		m.rc[r], m.rv[r] = rc[:n], rv[:n]
+		copy(m.rc[r], tc)
+		copy(m.rv[r], tv)
+	} else {
+		// Rows are cut with their room closed, so appending to the arena
+		// never writes into one; a row cut before the arena moved keeps its
+		// old backing array.
+		a := len(m.arenaC)
+		m.arenaC = append(append(m.arenaC, tc...), make([]int, n)...)
+		m.arenaV = append(append(m.arenaV, tv...), make([]float64, n)...)
+		m.rc[r], m.rv[r] = m.arenaC[a:a+n:a+2*n], m.arenaV[a:a+n:a+2*n]
+	}
 	m.next[r] = i + 1
 }
 
