@@ -3,6 +3,7 @@ package dc
 import (
 	"fmt"
 	"math"
+	"slices"
 	"strings"
 
 	"headroom/checker/circuit"
@@ -113,7 +114,7 @@ func compile(c *circuit.Circuit) (*netlist, *Failure) {
 		return nil, &Failure{Reason: fmt.Sprintf("ambient %g °C is not a temperature", nl.tempC), Cause: Invalid}
 	}
 	nl.vt = ThermalVoltage(nl.tempC)
-	nl.names = c.Nets()
+	nl.names = sortedNets(c)
 	for i, n := range nl.names {
 		nl.index[n] = i
 	}
@@ -489,4 +490,26 @@ func (s *shortFinder) forcedJunction(nl *netlist) *Failure {
 		}
 	}
 	return nil
+}
+
+// sortedNets is c.Nets() (every net but gnd, sorted, once each) without the
+// set it builds: the worst-case search compiles hundreds of cases.
+func sortedNets(c *circuit.Circuit) []string {
+	n := len(c.Supplies) + len(c.Ports)
+	for _, p := range c.Parts {
+		n += len(p.PartNets())
+	}
+	nets := make([]string, 0, n)
+	for _, s := range c.Supplies {
+		nets = append(nets, s.Net)
+	}
+	for _, p := range c.Ports {
+		nets = append(nets, p.Net)
+	}
+	for _, p := range c.Parts {
+		nets = append(nets, p.PartNets()...)
+	}
+	nets = slices.DeleteFunc(nets, func(n string) bool { return n == circuit.Gnd })
+	slices.Sort(nets)
+	return slices.Compact(nets)
 }
