@@ -24,7 +24,9 @@ const maxAmplification = 1e4
 // and the solutions already found.
 type freq struct {
 	w   float64
-	y0  *sparse        // the assembled base matrix, kept for fresh factorisations
+	y0  *sparse // the assembled base matrix for removal queries, nil until one needs it
+	lo  []int   // its rows' spans
+	hi  []int
 	f0  *lu            // its factors
 	d   [][]complex128 // each element's D at w
 	sol map[branch][]complex128
@@ -59,22 +61,40 @@ func (r *Result) at(f float64) (*freq, error) {
 		fr.d[i] = d
 		span(lo, hi, e.branches, d) // the source too: a removal query stamps it
 	}
-	fr.y0 = newSparse(n, lo, hi)
-	for i := 0; i < n; i++ {
-		fr.y0.add(i, i, Gmin)
-	}
-	for i, e := range nw.elems {
-		if i != nw.source {
-			stamp(fr.y0, e.branches, fr.d[i], 1)
-		}
-	}
-	f0, err := fr.y0.clone().factor()
+	fr.lo, fr.hi = lo, hi
+	// Y0 is factorised in place; a removal query that needs it whole
+	// assembles it again (base), which most frequencies never do.
+	f0, err := r.assemble(fr).factor()
 	if err != nil {
 		return nil, fmt.Errorf("small-signal network at %g Hz: %w", f, err)
 	}
 	fr.f0 = f0
 	r.freqs[f] = fr
 	return fr, nil
+}
+
+// assemble builds Y0 at fr: Gmin on the diagonal, then every element's stamp
+// but the source's, in element order.
+func (r *Result) assemble(fr *freq) *sparse {
+	nw := r.net
+	y := newSparse(nw.n, fr.lo, fr.hi)
+	for i := 0; i < nw.n; i++ {
+		y.add(i, i, Gmin)
+	}
+	for i, e := range nw.elems {
+		if i != nw.source {
+			stamp(y, e.branches, fr.d[i], 1)
+		}
+	}
+	return y
+}
+
+// base is Y0 at fr, assembled on first use and kept.
+func (r *Result) base(fr *freq) *sparse {
+	if fr.y0 == nil {
+		fr.y0 = r.assemble(fr)
+	}
+	return fr.y0
 }
 
 func name(e element) string {
@@ -211,7 +231,7 @@ func (r *Result) freshImpedance(fr *freq, u branch, mods []mod, key string) (com
 	f, ok := fr.fresh[key]
 	if !ok {
 		clear(fr.fresh) // its memory is about to be reused
-		y := fr.y0.cloneInto(fr.scratch)
+		y := r.base(fr).cloneInto(fr.scratch)
 		fr.scratch = y
 		for _, m := range mods {
 			stamp(y, r.net.elems[m.elem].branches, fr.d[m.elem], m.sign)

@@ -91,6 +91,7 @@ func newSolver(nl *netlist) *solver {
 
 	// The pattern: every entry the linear part or a transistor may touch.
 	pat := newSlotter(n)
+	pat.keys = make([]int, 0, nl.nodes+4*len(nl.conds)+5*len(nl.sources)+9*len(nl.bjts))
 	for i := 0; i < nl.nodes; i++ {
 		pat.mark(i, i)
 	}
