@@ -37,6 +37,7 @@ type freq struct {
 	scratch *sparse
 	work    []complex128 // right-hand side and solution of a removal query
 	rhs     []complex128 // right-hand side of solveBranch
+	part    []complex128 // right-hand side and solution of solvePart
 }
 
 // at returns the frequency's data, factorising Y0 the first time. The caller
@@ -126,6 +127,36 @@ func (fr *freq) solveBranch(b branch) []complex128 {
 	return x
 }
 
+// solvePart is solveBranch's solution where only x[stop:] is needed, in
+// scratch that the next call reuses.
+func (fr *freq) solvePart(b branch, stop int) []complex128 {
+	n := fr.f0.n
+	if len(fr.part) != 2*n {
+		fr.part = make([]complex128, 2*n)
+	}
+	rhs, x := fr.part[:n], fr.part[n:]
+	clear(rhs)
+	if b.from != ground {
+		rhs[b.from]++
+	}
+	if b.to != ground {
+		rhs[b.to]--
+	}
+	return fr.f0.solvePart(x, rhs, stop)
+}
+
+// lowest is the lower node of b that is not ground (n when neither is).
+func lowest(b branch, n int) int {
+	l := n
+	if b.from != ground {
+		l = min(l, b.from)
+	}
+	if b.to != ground {
+		l = min(l, b.to)
+	}
+	return l
+}
+
 // across is x[from] − x[to], the voltage of b in the solution x.
 func across(x []complex128, b branch) complex128 {
 	var v complex128
@@ -154,8 +185,6 @@ func (r *Result) impedance(fr *freq, u branch, mods []mod, key string) (complex1
 	if u.from == u.to {
 		return 0, nil
 	}
-	x := fr.solveBranch(u)
-	z := across(x, u)
 	var br []branch
 	var owner []int // position in mods of each branch
 	for k, m := range mods {
@@ -164,6 +193,19 @@ func (r *Result) impedance(fr *freq, u branch, mods []mod, key string) (complex1
 			owner = append(owner, k)
 		}
 	}
+	x, ok := fr.sol[u]
+	if !ok && len(br) > 0 {
+		// Only x at the nets of u and of the branches is read below: solve
+		// for those (solvePart), in scratch, not kept.
+		stop := lowest(u, fr.f0.n)
+		for _, b := range br {
+			stop = min(stop, lowest(b, fr.f0.n))
+		}
+		x = fr.solvePart(u, stop)
+	} else if !ok {
+		x = fr.solveBranch(u)
+	}
+	z := across(x, u)
 	nr := len(br)
 	if nr == 0 {
 		return z, nil
@@ -183,7 +225,11 @@ func (r *Result) impedance(fr *freq, u branch, mods []mod, key string) (complex1
 	}
 	xs := make([][]complex128, nr)
 	for j, b := range br {
-		xs[j] = fr.solveBranch(b)
+		if b == u {
+			xs[j] = x // the same solution as solveBranch's, at the nets read
+		} else {
+			xs[j] = fr.solveBranch(b)
+		}
 	}
 	// MD = (Pᵀ·X)·D and S = I + MD.
 	m := make([]complex128, nr*nr)
@@ -254,7 +300,7 @@ func (r *Result) freshImpedance(fr *freq, u branch, mods []mod, key string) (com
 	if u.to != ground {
 		rhs[u.to]--
 	}
-	z := across(f.solveInto(x, rhs), u)
+	z := across(f.solvePart(x, rhs, lowest(u, n)), u)
 	if !finite(z) {
 		return 0, errSingular
 	}

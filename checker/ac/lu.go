@@ -250,6 +250,47 @@ func (f *lu) solveInto(dst, b []complex128) []complex128 {
 	return x
 }
 
+// solvePart is solveInto when only x[stop:] is wanted: the forward
+// substitution starts at the first position where b (in the factors' row
+// order) is not zero, and the backward one ends at stop; dst[:stop] is left
+// undefined. The entries it computes are bit for bit those of solveInto: the
+// leading entries it skips are +0 there, and subtracting a product with +0
+// changes nothing, as no partial sum of the forward substitution is ever −0
+// when b holds no −0 (an exact cancellation gives +0), which the caller
+// ensures.
+func (f *lu) solvePart(dst, b []complex128, stop int) []complex128 {
+	n := f.n
+	x := dst[:n]
+	first := 0
+	for first < n && b[f.piv[first]] == 0 {
+		first++
+	}
+	for i := min(stop, first); i < n; i++ {
+		x[i] = b[f.piv[i]]
+	}
+	for i := max(first, 1); i < n; i++ {
+		r := &f.rows[i]
+		s := x[i]
+		for j := max(r.lo, first); j < i; j++ {
+			if v := r.v[j-r.lo]; v != 0 {
+				s -= v * x[j]
+			}
+		}
+		x[i] = s
+	}
+	for i := n - 1; i >= stop; i-- {
+		r := &f.rows[i]
+		s := x[i]
+		for j := i + 1; j <= r.hi(); j++ {
+			if v := r.v[j-r.lo]; v != 0 {
+				s -= v * x[j]
+			}
+		}
+		x[i] = s / r.v[i-r.lo]
+	}
+	return x
+}
+
 // abs1 is |re| + |im|, a cheap magnitude good enough for choosing pivots.
 func abs1(z complex128) float64 { return math.Abs(real(z)) + math.Abs(imag(z)) }
 

@@ -226,3 +226,43 @@ func TestFactorMatchesDense(t *testing.T) {
 	}
 	t.Logf("%d matrices compared, %d with row exchanges", compared, exchanged)
 }
+
+// TestSolvePartMatchesSolve: the entries solvePart computes are solve's, bit
+// for bit, for right-hand sides like a branch's (a few ±1, the rest +0).
+func TestSolvePartMatchesSolve(t *testing.T) {
+	rng := rand.New(rand.NewPCG(9, 3))
+	compared := 0
+	for trial := 0; trial < 300; trial++ {
+		n := 1 + rng.IntN(40)
+		band := 1 + rng.IntN(4)
+		a := make([]complex128, n*n)
+		for i := 0; i < n; i++ {
+			for j := max(0, i-band); j < min(n, i+band+1); j++ {
+				if rng.IntN(3) > 0 {
+					a[i*n+j] = complex(rng.NormFloat64(), rng.NormFloat64())
+				}
+			}
+			a[i*n+i] += complex(float64(rng.IntN(3)), 0)
+		}
+		f, err := factor(a, n)
+		if err != nil {
+			continue
+		}
+		b := make([]complex128, n)
+		for range 1 + rng.IntN(2) {
+			b[rng.IntN(n)] = complex(float64(1-2*rng.IntN(2)), 0)
+		}
+		want := f.solve(b)
+		stop := rng.IntN(n)
+		got := f.solvePart(make([]complex128, n), b, stop)
+		for i := stop; i < n; i++ {
+			if !sameBits(got[i], want[i]) {
+				t.Fatalf("trial %d (n %d, stop %d): x[%d] = %v, solve %v", trial, n, stop, i, got[i], want[i])
+			}
+		}
+		compared++
+	}
+	if compared < 200 {
+		t.Errorf("only %d systems compared", compared)
+	}
+}
