@@ -5,6 +5,9 @@ import (
 	"math"
 	"slices"
 	"sort"
+	"strconv"
+	"strings"
+	"sync"
 
 	"headroom/checker/circuit"
 	"headroom/checker/dc"
@@ -56,7 +59,7 @@ type network struct {
 
 // build turns a circuit and its operating point into a network.
 func build(c *circuit.Circuit, op *dc.Result) (*network, error) {
-	nw := &network{nodes: map[string]int{circuit.Gnd: ground}, parts: make(map[string]int, len(c.Parts)), source: -1,
+	nw := &network{parts: make(map[string]int, len(c.Parts)), source: -1,
 		elems: make([]element, 0, len(c.Supplies)+len(c.Ports)+len(c.Parts))}
 	acGround := map[string]bool{}
 	for _, s := range c.Supplies {
@@ -67,13 +70,7 @@ func build(c *circuit.Circuit, op *dc.Result) (*network, error) {
 			acGround[s.Net] = true
 		}
 	}
-	for _, net := range order(c, acGround) {
-		nw.nodes[net] = nw.n
-		nw.n++
-	}
-	for net := range acGround {
-		nw.nodes[net] = ground
-	}
+	nw.nodes, nw.n = numbering(c, acGround)
 	node := func(net string) int { return nw.nodes[net] }
 
 	for _, s := range c.Supplies {
@@ -356,6 +353,75 @@ func (nw *network) refs(removed []string) ([]int, error) {
 	}
 	sort.Ints(idx)
 	return idx, nil
+}
+
+// numbered is one memoised numbering: net → node (ground for gnd and the
+// AC-ground nets), read-only, and the number of nodes.
+type numbered struct {
+	nodes map[string]int
+	n     int
+}
+
+// numberings memoises numbering by the circuit's structure: the worst-case
+// search analyses hundreds of cases of one circuit, whose values differ but
+// whose nets and connections do not.
+var numberings = struct {
+	sync.Mutex
+	m map[string]numbered
+}{m: map[string]numbered{}}
+
+// numbering numbers the nets of c in order's order; the AC-ground nets and
+// gnd are ground. The map is shared: read it, never write it.
+func numbering(c *circuit.Circuit, acGround map[string]bool) (map[string]int, int) {
+	// The key holds everything order reads: every net, the nets each part
+	// joins, and which supplies are AC ground; every name is written with
+	// its length, so that no two structures share a key.
+	var k strings.Builder
+	name := func(n string) {
+		k.WriteString(strconv.Itoa(len(n)))
+		k.WriteByte(':')
+		k.WriteString(n)
+	}
+	for _, s := range c.Supplies {
+		name(s.Net)
+		if acGround[s.Net] {
+			k.WriteByte('g')
+		}
+		k.WriteByte(';')
+	}
+	k.WriteByte('|')
+	for _, p := range c.Ports {
+		name(p.Net)
+	}
+	for _, p := range c.Parts {
+		k.WriteByte('|')
+		for _, n := range p.PartNets() {
+			name(n)
+		}
+	}
+	key := k.String()
+	numberings.Lock()
+	got, ok := numberings.m[key]
+	numberings.Unlock()
+	if ok {
+		return got.nodes, got.n
+	}
+	nodes := map[string]int{circuit.Gnd: ground}
+	n := 0
+	for _, net := range order(c, acGround) {
+		nodes[net] = n
+		n++
+	}
+	for net := range acGround {
+		nodes[net] = ground
+	}
+	numberings.Lock()
+	if len(numberings.m) >= 16 {
+		clear(numberings.m) // other circuits: a check goes through them one by one
+	}
+	numberings.m[key] = numbered{nodes, n}
+	numberings.Unlock()
+	return nodes, n
 }
 
 // order numbers the nets that are not AC ground by reverse Cuthill–McKee on
