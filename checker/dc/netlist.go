@@ -4,7 +4,9 @@ import (
 	"fmt"
 	"math"
 	"slices"
+	"strconv"
 	"strings"
+	"sync"
 
 	"headroom/checker/circuit"
 )
@@ -108,16 +110,13 @@ func finite(x float64) bool { return !math.IsNaN(x) && !math.IsInf(x, 0) }
 
 // compile builds the index form of c and checks the zero-resistance topology.
 func compile(c *circuit.Circuit) (*netlist, *Failure) {
-	nl := &netlist{index: map[string]int{}, branchOf: map[string]int{}}
+	nl := &netlist{branchOf: map[string]int{}}
 	nl.tempC = c.Ambient.Nominal
 	if !finite(nl.tempC) || nl.tempC+zeroC <= 0 {
 		return nil, &Failure{Reason: fmt.Sprintf("ambient %g °C is not a temperature", nl.tempC), Cause: Invalid}
 	}
 	nl.vt = ThermalVoltage(nl.tempC)
-	nl.names = sortedNets(c)
-	for i, n := range nl.names {
-		nl.index[n] = i
-	}
+	nl.names, nl.index = netIndex(c)
 	nl.nodes = len(nl.names)
 	node := func(net string) int {
 		if net == circuit.Gnd {
@@ -490,6 +489,62 @@ func (s *shortFinder) forcedJunction(nl *netlist) *Failure {
 		}
 	}
 	return nil
+}
+
+// indexed is one memoised numbering of the nets: sorted names and name →
+// index, both read-only.
+type indexed struct {
+	names []string
+	index map[string]int
+}
+
+// netIndexes memoises netIndex by the nets a circuit names: the worst-case
+// search solves hundreds of cases of one circuit, whose values differ but
+// whose nets do not.
+var netIndexes = struct {
+	sync.Mutex
+	m map[string]indexed
+}{m: map[string]indexed{}}
+
+// netIndex numbers c's nets (all but gnd) in name order. The slice and the
+// map are shared: read them, never write them.
+func netIndex(c *circuit.Circuit) ([]string, map[string]int) {
+	var k strings.Builder // every net named, each with its length
+	name := func(n string) {
+		k.WriteString(strconv.Itoa(len(n)))
+		k.WriteByte(':')
+		k.WriteString(n)
+	}
+	for _, s := range c.Supplies {
+		name(s.Net)
+	}
+	for _, p := range c.Ports {
+		name(p.Net)
+	}
+	for _, p := range c.Parts {
+		for _, n := range p.PartNets() {
+			name(n)
+		}
+	}
+	key := k.String()
+	netIndexes.Lock()
+	got, ok := netIndexes.m[key]
+	netIndexes.Unlock()
+	if ok {
+		return got.names, got.index
+	}
+	names := sortedNets(c)
+	index := make(map[string]int, len(names))
+	for i, n := range names {
+		index[n] = i
+	}
+	netIndexes.Lock()
+	if len(netIndexes.m) >= 16 {
+		clear(netIndexes.m) // other circuits: a check goes through them one by one
+	}
+	netIndexes.m[key] = indexed{names, index}
+	netIndexes.Unlock()
+	return names, index
 }
 
 // sortedNets is c.Nets() (every net but gnd, sorted, once each) without the
