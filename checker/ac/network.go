@@ -428,7 +428,7 @@ func numbering(c *circuit.Circuit, acGround map[string]bool) (map[string]int, in
 // the graph of nets that share a part, so that the nodal matrix is banded and
 // its factorisation fills in little (a chain of stages stays a chain).
 func order(c *circuit.Circuit, acGround map[string]bool) []string {
-	nets := sortedNets(c) // ties are broken by name, that is by index
+	nets := c.Nets() // ties are broken by name, that is by index
 	idx := make(map[string]int, len(nets))
 	skip := make([]bool, len(nets))
 	for i, n := range nets {
@@ -494,26 +494,4 @@ func order(c *circuit.Circuit, acGround map[string]bool) []string {
 	}
 	slices.Reverse(out)
 	return out
-}
-
-// sortedNets is c.Nets() (every net but gnd, sorted, once each) without the
-// set it builds: the worst-case search compiles hundreds of cases.
-func sortedNets(c *circuit.Circuit) []string {
-	n := len(c.Supplies) + len(c.Ports)
-	for _, p := range c.Parts {
-		n += len(p.PartNets())
-	}
-	nets := make([]string, 0, n)
-	for _, s := range c.Supplies {
-		nets = append(nets, s.Net)
-	}
-	for _, p := range c.Ports {
-		nets = append(nets, p.Net)
-	}
-	for _, p := range c.Parts {
-		nets = append(nets, p.PartNets()...)
-	}
-	nets = slices.DeleteFunc(nets, func(n string) bool { return n == circuit.Gnd })
-	slices.Sort(nets)
-	return slices.Compact(nets)
 }

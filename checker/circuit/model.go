@@ -5,7 +5,7 @@ package circuit
 
 import (
 	"math"
-	"sort"
+	"slices"
 
 	"headroom/checker/library"
 )
@@ -215,31 +215,27 @@ func (p *Part) PartNets() []string {
 	return p.Nets
 }
 
-// Nets lists every net named in the circuit except gnd, sorted.
+// Nets lists every net named in the circuit except gnd, sorted, once each.
+// It sorts a slice rather than building a set: the worst-case search asks
+// for it for every case it analyses.
 func (c *Circuit) Nets() []string {
-	seen := map[string]bool{}
-	add := func(n string) {
-		if n != Gnd {
-			seen[n] = true
-		}
+	n := len(c.Supplies) + len(c.Ports)
+	for _, p := range c.Parts {
+		n += len(p.PartNets())
 	}
+	nets := make([]string, 0, n)
 	for _, s := range c.Supplies {
-		add(s.Net)
+		nets = append(nets, s.Net)
 	}
 	for _, p := range c.Ports {
-		add(p.Net)
+		nets = append(nets, p.Net)
 	}
 	for _, p := range c.Parts {
-		for _, n := range p.PartNets() {
-			add(n)
-		}
+		nets = append(nets, p.PartNets()...)
 	}
-	out := make([]string, 0, len(seen))
-	for n := range seen {
-		out = append(out, n)
-	}
-	sort.Strings(out)
-	return out
+	nets = slices.DeleteFunc(nets, func(n string) bool { return n == Gnd })
+	slices.Sort(nets)
+	return slices.Compact(nets)
 }
 
 // Clone returns a deep copy, so that worst-case corners can vary values

@@ -3,7 +3,6 @@ package dc
 import (
 	"fmt"
 	"math"
-	"slices"
 	"strconv"
 	"strings"
 	"sync"
@@ -533,7 +532,7 @@ func netIndex(c *circuit.Circuit) ([]string, map[string]int) {
 	if ok {
 		return got.names, got.index
 	}
-	names := sortedNets(c)
+	names := c.Nets()
 	index := make(map[string]int, len(names))
 	for i, n := range names {
 		index[n] = i
@@ -545,26 +544,4 @@ func netIndex(c *circuit.Circuit) ([]string, map[string]int) {
 	netIndexes.m[key] = indexed{names, index}
 	netIndexes.Unlock()
 	return names, index
-}
-
-// sortedNets is c.Nets() (every net but gnd, sorted, once each) without the
-// set it builds: the worst-case search compiles hundreds of cases.
-func sortedNets(c *circuit.Circuit) []string {
-	n := len(c.Supplies) + len(c.Ports)
-	for _, p := range c.Parts {
-		n += len(p.PartNets())
-	}
-	nets := make([]string, 0, n)
-	for _, s := range c.Supplies {
-		nets = append(nets, s.Net)
-	}
-	for _, p := range c.Ports {
-		nets = append(nets, p.Net)
-	}
-	for _, p := range c.Parts {
-		nets = append(nets, p.PartNets()...)
-	}
-	nets = slices.DeleteFunc(nets, func(n string) bool { return n == circuit.Gnd })
-	slices.Sort(nets)
-	return slices.Compact(nets)
 }
