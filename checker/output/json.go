@@ -6,12 +6,12 @@ import (
 	"encoding/json"
 	"errors"
 	"io"
-	"math"
 
 	"headroom/checker/check"
 	"headroom/checker/circuit"
 	"headroom/checker/circuit/tomlfile"
 	"headroom/checker/engine"
+	"headroom/checker/quantity"
 )
 
 // Summary counts unwaived findings by severity, and the waived ones.
@@ -118,7 +118,7 @@ func findingJSON(path string, f engine.Finding) jsonFinding {
 		j.Corner = map[string]float64{}
 	}
 	if f.HasMetric {
-		m, l := finite(f.Measured), finite(f.Limit)
+		m, l := quantity.Finite(f.Measured), quantity.Finite(f.Limit)
 		j.Measured, j.Limit, j.Comparison, j.Unit = &m, &l, f.Comparison, f.Unit
 	}
 	return j
@@ -141,17 +141,4 @@ func errorJSON(path string, err error) jsonError {
 	}
 	j.Line, j.Column = max(j.Line, 1), max(j.Column, 1)
 	return j
-}
-
-// finite keeps JSON valid: no metric is ever printed as Inf or NaN.
-func finite(x float64) float64 {
-	switch {
-	case math.IsNaN(x):
-		return 0
-	case math.IsInf(x, 1):
-		return math.MaxFloat64
-	case math.IsInf(x, -1):
-		return -math.MaxFloat64
-	}
-	return x
 }

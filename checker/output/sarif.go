@@ -10,6 +10,7 @@ import (
 
 	"headroom/checker/check"
 	"headroom/checker/engine"
+	"headroom/checker/quantity"
 )
 
 // SARIF 2.1.0 (OASIS Static Analysis Results Interchange Format), the subset
@@ -152,7 +153,7 @@ func SARIF(w io.Writer, results []check.Result, rules []*engine.Rule, version st
 				props["part"] = f.Part
 			}
 			if f.HasMetric {
-				props["measured"], props["limit"] = finite(f.Measured), finite(f.Limit)
+				props["measured"], props["limit"] = quantity.Finite(f.Measured), quantity.Finite(f.Limit)
 				props["comparison"], props["unit"] = f.Comparison, f.Unit
 			}
 			if len(f.Corner) > 0 {

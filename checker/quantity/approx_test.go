@@ -18,3 +18,16 @@ func TestApprox(t *testing.T) {
 		}
 	}
 }
+
+func TestFinite(t *testing.T) {
+	inf, nan := 1/zero(), zero()/zero()
+	for _, c := range []struct{ in, want float64 }{
+		{1.5, 1.5}, {-2, -2}, {inf, 1.7976931348623157e308}, {-inf, -1.7976931348623157e308}, {nan, 0},
+	} {
+		if got := Finite(c.in); got != c.want {
+			t.Errorf("Finite(%g) = %g, want %g", c.in, got, c.want)
+		}
+	}
+}
+
+func zero() float64 { return 0 }

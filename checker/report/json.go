@@ -3,9 +3,9 @@ package report
 import (
 	"encoding/json"
 	"io"
-	"math"
 
 	"headroom/checker/circuit"
+	"headroom/checker/quantity"
 )
 
 type jsonZ struct {
@@ -62,7 +62,7 @@ func (r *Report) JSON(w io.Writer) error {
 	op, ac := cs.OP, cs.AC
 	if op != nil {
 		for _, n := range c.Nets() {
-			doc.Nets[n] = fin(op.V[n])
+			doc.Nets[n] = quantity.Finite(op.V[n])
 		}
 	}
 	for _, p := range c.Parts {
@@ -71,26 +71,26 @@ func (r *Report) JSON(w io.Writer) error {
 			if d := op.Parts[p.Ref]; d != nil {
 				switch p.Kind {
 				case circuit.Resistor:
-					e["current"], e["power"] = fin(d.Current), fin(d.Power)
+					e["current"], e["power"] = quantity.Finite(d.Current), quantity.Finite(d.Power)
 				case circuit.Potentiometer:
-					e["power"] = fin(d.Power)
+					e["power"] = quantity.Finite(d.Power)
 				case circuit.Capacitor:
-					e["voltage"] = fin(d.Voltage)
+					e["voltage"] = quantity.Finite(d.Voltage)
 				case circuit.Inductor:
-					e["current"] = fin(d.Current)
+					e["current"] = quantity.Finite(d.Current)
 				}
 			}
 			if b := op.BJTs[p.Ref]; b != nil {
-				e["ic"], e["ib"], e["vbe"], e["vce"] = fin(b.IC), fin(b.IB), fin(b.VBE), fin(b.VCE)
-				e["power"], e["hfe"], e["region"] = fin(b.Power), fin(b.HFE), b.Region
+				e["ic"], e["ib"], e["vbe"], e["vce"] = quantity.Finite(b.IC), quantity.Finite(b.IB), quantity.Finite(b.VBE), quantity.Finite(b.VCE)
+				e["power"], e["hfe"], e["region"] = quantity.Finite(b.Power), quantity.Finite(b.HFE), b.Region
 				if ac != nil && ac.BJTs[p.Ref] != nil {
-					e["gm"], e["beta_high"] = fin(ac.BJTs[p.Ref].GM), fin(ac.BJTs[p.Ref].BetaHigh)
+					e["gm"], e["beta_high"] = quantity.Finite(ac.BJTs[p.Ref].GM), quantity.Finite(ac.BJTs[p.Ref].BetaHigh)
 				}
 				if r.Ranges != nil {
 					rg := map[string][2]float64{}
 					for _, k := range []string{"ic", "vce", "power"} {
 						if v, ok := r.Ranges[p.Ref+"."+k]; ok {
-							rg[k] = [2]float64{fin(v[0]), fin(v[1])}
+							rg[k] = [2]float64{quantity.Finite(v[0]), quantity.Finite(v[1])}
 						}
 					}
 					e["ranges"] = rg
@@ -100,9 +100,9 @@ func (r *Report) JSON(w io.Writer) error {
 		if ac != nil {
 			if x := ac.Parts[p.Ref]; x != nil {
 				if p.Kind == circuit.Inductor {
-					e["inductance"] = fin(x.Inductance)
+					e["inductance"] = quantity.Finite(x.Inductance)
 				}
-				e["reactance"], e["circuit_impedance"] = fin(x.Reactance), fin(x.CircuitImpedance)
+				e["reactance"], e["circuit_impedance"] = quantity.Finite(x.Reactance), quantity.Finite(x.CircuitImpedance)
 			}
 		}
 		if role := cs.Topo.Roles[p.Ref]; role != "" {
@@ -113,11 +113,11 @@ func (r *Report) JSON(w io.Writer) error {
 			for _, wd := range p.Windings {
 				we := map[string]any{}
 				if op != nil && op.Parts[p.Ref] != nil {
-					we["current"] = fin(op.Parts[p.Ref].Windings[wd.Name])
+					we["current"] = quantity.Finite(op.Parts[p.Ref].Windings[wd.Name])
 				}
 				if ac != nil && ac.Windings[p.Ref] != nil {
 					if x := ac.Windings[p.Ref][wd.Name]; x != nil {
-						we["inductance"], we["reactance"], we["termination"] = fin(x.Inductance), fin(x.Reactance), fin(x.Termination)
+						we["inductance"], we["reactance"], we["termination"] = quantity.Finite(x.Inductance), quantity.Finite(x.Reactance), quantity.Finite(x.Termination)
 					}
 				}
 				ws[wd.Name] = we
@@ -130,15 +130,15 @@ func (r *Report) JSON(w io.Writer) error {
 		for i, bp := range ac.Band {
 			jb := jsonBand{Frequency: bp.Frequency, hasGain: ac.HasGain, GainDB: finp(bp.GainDB), VoltageGainDB: finp(bp.VoltageGainDB)}
 			if ac.HasInput {
-				jb.InputImpedance = &jsonZ{fin(real(bp.InputImpedance)), fin(imag(bp.InputImpedance))}
-				rl := fin(bp.ReturnLossDB)
+				jb.InputImpedance = &jsonZ{quantity.Finite(real(bp.InputImpedance)), quantity.Finite(imag(bp.InputImpedance))}
+				rl := quantity.Finite(bp.ReturnLossDB)
 				jb.ReturnLossDB = &rl
 			}
 			if r.Ranges != nil {
 				jb.Ranges = map[string][2]float64{}
 				for _, k := range []string{"gain_db", "return_loss_db"} {
 					if v, ok := r.Ranges[bandKey(i, k)]; ok {
-						jb.Ranges[k] = [2]float64{fin(v[0]), fin(v[1])}
+						jb.Ranges[k] = [2]float64{quantity.Finite(v[0]), quantity.Finite(v[1])}
 					}
 				}
 			}
@@ -151,23 +151,10 @@ func (r *Report) JSON(w io.Writer) error {
 	return enc.Encode(doc)
 }
 
-// fin keeps the document valid JSON: never Inf or NaN.
-func fin(x float64) float64 {
-	switch {
-	case math.IsNaN(x):
-		return 0
-	case math.IsInf(x, 1):
-		return math.MaxFloat64
-	case math.IsInf(x, -1):
-		return -math.MaxFloat64
-	}
-	return x
-}
-
 func finp(p *float64) *float64 {
 	if p == nil {
 		return nil
 	}
-	v := fin(*p)
+	v := quantity.Finite(*p)
 	return &v
 }
