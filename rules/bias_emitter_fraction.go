@@ -15,6 +15,12 @@ import (
 // share of its supply across the emitter resistance.
 var BiasEmitterFraction = &engine.Rule{
 	ID: "bias.emitter-fraction",
+	CheckParams: func(ps map[string]float64) (string, string) {
+		if ps["min_fraction"] >= ps["max_fraction"] {
+			return "max_fraction", "the window is empty: max_fraction must be larger than min_fraction"
+		}
+		return "", ""
+	},
 	Doc: engine.Doc{
 		Title: "a common-emitter stage must drop about a tenth of its supply across the emitter",
 		Why: "The emitter voltage is what holds the collector current against VBE, which falls about 2 mV per °C: " +

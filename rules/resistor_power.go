@@ -12,7 +12,8 @@ import (
 // ResistorPower keeps every resistor well inside its power rating, derated
 // for the ambient the way resistor makers rate them.
 var ResistorPower = &engine.Rule{
-	ID: "resistor.power",
+	ID:          "resistor.power",
+	CheckParams: kneeBelowZero,
 	Doc: engine.Doc{
 		Title: "resistor dissipation must stay well inside its derated power rating",
 		Why: "A resistor run near its rating runs hot: its value drifts, it cooks the board and the parts beside it, " +
@@ -33,7 +34,7 @@ var ResistorPower = &engine.Rule{
 			{Name: "max_load", Unit: quantity.Ratio, Help: "largest dissipation ÷ derated rating"},
 			{Name: "knee", Unit: quantity.Celsius, Help: "ambient up to which the full rating holds"},
 			{Name: "zero", Unit: quantity.Celsius, Help: "ambient at which the rating reaches zero"},
-			{Name: "default_rating", Unit: quantity.Watt, Help: "rating assumed when a resistor gives none"},
+			{Name: "default_rating", Unit: quantity.Watt, Help: "rating assumed when a resistor gives none", Positive: true},
 		},
 	},
 	Run: runResistorPower,

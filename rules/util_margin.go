@@ -147,3 +147,12 @@ func icAdvice(p *engine.Pass, ref string, icCase, allowed float64) string {
 	}
 	return s
 }
+
+// kneeBelowZero checks that a derating curve falls from its knee to its zero
+// point: a zero at or below the knee leaves no curve to follow.
+func kneeBelowZero(ps map[string]float64) (string, string) {
+	if ps["zero"] <= ps["knee"] {
+		return "zero", "the rating must reach zero above the knee: zero must be a higher temperature than knee"
+	}
+	return "", ""
+}

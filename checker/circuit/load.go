@@ -352,7 +352,9 @@ func (ld *loader) parts(root *tomlfile.Table) {
 }
 
 func (ld *loader) part(t *tomlfile.Table) *Part {
-	p := &Part{Ref: t.Name, Pos: ld.pos(t.Pos)}
+	// Findings point at the part's line, column 1, whether it is a header or
+	// an inline key (FORMAT.md §5).
+	p := &Part{Ref: t.Name, Pos: ld.pos(tomlfile.Pos{Line: t.Pos.Line, Col: 1})}
 	if !refName.MatchString(t.Name) {
 		t.Errorf(t.Pos, "part %q: a reference may hold only letters, digits and _ + -", t.Name)
 	}

@@ -390,7 +390,9 @@ nets = ["a", "gnd"]
 rule = "x.y"
 reason = "r"
 `, nil, Options{})
-	want := map[string][2]int{"R1": {1, 1}, "R2": {6, 3}, "R3": {7, 3}, "R4": {10, 1}}
+	// FORMAT.md §5: the line of the header or inline key, column 1, however
+	// the line is indented.
+	want := map[string][2]int{"R1": {1, 1}, "R2": {6, 1}, "R3": {7, 1}, "R4": {10, 1}}
 	for ref, lc := range want {
 		p := c.Part(ref)
 		if p.Pos.Line != lc[0] || p.Pos.Col != lc[1] || p.Pos.File != "board/c.toml" {

@@ -21,6 +21,10 @@ type Rule struct {
 	Run func(*Pass) error
 	// NeedsCorners marks a rule judged only with worst-case corners (bias.drift).
 	NeedsCorners bool
+	// CheckParams reports parameters that are fine one by one but not
+	// together (a derating curve whose zero lies below its knee): the name
+	// of the parameter to point at and what is wrong, or "" when they fit.
+	CheckParams func(params map[string]float64) (param, problem string)
 	// Static marks a rule that judges the file as written (preferred values,
 	// core bands): its items are the same at every corner, so a worst-case
 	// search runs it once, at nominal.
@@ -48,6 +52,9 @@ type Param struct {
 	Name string
 	Unit quantity.Unit // quantity.Ratio for plain numbers
 	Help string
+	// Positive marks a physical part value (a rating): zero is refused, as
+	// in a circuit file (FORMAT.md §1). Other parameters may be zero.
+	Positive bool
 }
 
 // Pass is what a rule sees of one case: read-only.

@@ -208,6 +208,19 @@ func TestFormatMatchesReference(t *testing.T) {
 	bad := 0
 	for _, v := range formatSamples() {
 		for _, u := range units {
+			if math.IsInf(v, 0) || math.IsNaN(v) {
+				// The reference printed Inf and NaN; FORMAT.md §6 forbids
+				// them, so Format writes the finite stand-in instead.
+				for _, got := range []string{Format(v, u), Approx(v, u)} {
+					if strings.Contains(got, "Inf") || strings.Contains(got, "NaN") {
+						t.Errorf("Format or Approx of %v prints %q", v, got)
+					}
+				}
+				if got, want := Format(v, u), refFormat(Finite(v), u); got != want {
+					t.Errorf("Format(%v, %v) = %q, want the finite stand-in %q", v, u, got, want)
+				}
+				continue
+			}
 			if got, want := Format(v, u), refFormat(v, u); got != want {
 				t.Errorf("Format(%v, %v) = %q, reference %q", v, u, got, want)
 				bad++

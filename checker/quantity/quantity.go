@@ -404,7 +404,12 @@ func Format(v float64, u Unit) string {
 // appends Format of v rounded to prec+1 significant figures (see Approx, which
 // makes sure that the rounded value's shortest digits are the rounded digits).
 func appendFormat(dst []byte, v float64, u Unit, prec int) []byte {
-	if v == 0 || math.IsInf(v, 0) || math.IsNaN(v) {
+	if math.IsInf(v, 0) || math.IsNaN(v) {
+		// Nothing prints Inf or NaN (FORMAT.md §6): the largest finite value
+		// stands in, as in the JSON documents.
+		v = Finite(v)
+	}
+	if v == 0 {
 		return appendSpecial(dst, v, u)
 	}
 	var dbuf [32]byte

@@ -205,11 +205,23 @@ func (l *Loader) apply(root *tomlfile.Table, set *Set, dir string) {
 		}
 		for _, p := range rule.Doc.Params {
 			sign := tomlfile.NonNegative
-			if p.Unit == quantity.Celsius {
+			switch {
+			case p.Unit == quantity.Celsius:
 				sign = tomlfile.AnySign
+			case p.Positive:
+				sign = tomlfile.Positive
 			}
 			if x, ok := t.Quantity(p.Name, p.Unit, sign); ok {
 				set.Params[id][p.Name] = x
+			}
+		}
+		if rule.CheckParams != nil {
+			if name, problem := rule.CheckParams(set.Params[id]); name != "" {
+				pos := t.Pos
+				if t.Has(name) {
+					pos = t.ValPos(name)
+				}
+				t.Errorf(pos, "[rules.%q] %s: %s", id, name, problem)
 			}
 		}
 	}

@@ -487,8 +487,8 @@ func (d *Doc) quantity(label string, raw any, p Pos, u quantity.Unit, s Sign) (f
 	case s == NonZero && v == 0:
 		d.Errorf(p, "%s: must not be zero", label)
 		return 0, false
-	case u == quantity.Celsius && v < -273.15:
-		d.Errorf(p, "%s: %s is below absolute zero", label, quantity.Format(v, u))
+	case u == quantity.Celsius && v <= -273.15:
+		d.Errorf(p, "%s: %s is not above absolute zero", label, quantity.Format(v, u))
 		return 0, false
 	}
 	return v, true
