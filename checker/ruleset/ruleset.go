@@ -7,12 +7,12 @@ import (
 	"fmt"
 	"os"
 	"path/filepath"
-	"sort"
 	"strings"
 
 	"headroom/checker/circuit/tomlfile"
 	"headroom/checker/engine"
 	"headroom/checker/quantity"
+	"headroom/checker/spell"
 	"headroom/rulesets"
 )
 
@@ -80,7 +80,7 @@ func (l *Loader) load(ref string, seen []string) (*Set, error) {
 		b, err := read(key)
 		if err != nil {
 			return nil, &tomlfile.Error{File: key, Pos: tomlfile.Pos{Line: 1, Col: 1},
-				Msg: fmt.Sprintf("cannot read rule set: %v", unwrapPathError(err))}
+				Msg: fmt.Sprintf("cannot read rule set: %v (the shipped sets are %s)", unwrapPathError(err), strings.Join(rulesets.Names(), ", "))}
 		}
 		data = b
 	}
@@ -238,41 +238,11 @@ func (l *Loader) find(id string) *engine.Rule {
 
 // Closest names the known rule ids nearest to id, for an error message.
 func Closest(id string, rules []*engine.Rule) string {
-	type cand struct {
-		id string
-		d  int
+	ids := make([]string, len(rules))
+	for i, r := range rules {
+		ids[i] = r.ID
 	}
-	var cs []cand
-	for _, r := range rules {
-		cs = append(cs, cand{r.ID, distance(id, r.ID)})
-	}
-	sort.SliceStable(cs, func(i, j int) bool { return cs[i].d < cs[j].d })
-	var names []string
-	for i := 0; i < len(cs) && i < 3; i++ {
-		names = append(names, cs[i].id)
-	}
-	return "closest known rules: " + strings.Join(names, ", ")
-}
-
-// distance is the Levenshtein edit distance.
-func distance(a, b string) int {
-	prev := make([]int, len(b)+1)
-	for j := range prev {
-		prev[j] = j
-	}
-	for i := 1; i <= len(a); i++ {
-		cur := make([]int, len(b)+1)
-		cur[0] = i
-		for j := 1; j <= len(b); j++ {
-			cost := 1
-			if a[i-1] == b[j-1] {
-				cost = 0
-			}
-			cur[j] = min(prev[j]+1, cur[j-1]+1, prev[j-1]+cost)
-		}
-		prev = cur
-	}
-	return prev[len(b)]
+	return "closest known rules: " + strings.Join(spell.Closest(id, ids, 3), ", ")
 }
 
 func unwrapPathError(err error) error {

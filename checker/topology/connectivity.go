@@ -6,6 +6,7 @@ import (
 	"strings"
 
 	"headroom/checker/circuit"
+	"headroom/checker/spell"
 )
 
 // ProblemKind classifies a net.connectivity problem.
@@ -260,33 +261,11 @@ func (t *Topology) closestNet(n string) string {
 		if m == n || len(t.touches[m]) < 2 && m != circuit.Gnd { // a candidate is a net in use
 			continue
 		}
-		if d := editDistance(strings.ToLower(n), strings.ToLower(m)); d < bestD {
+		if d := spell.Distance(strings.ToLower(n), strings.ToLower(m)); d < bestD {
 			best, bestD = m, d
 		}
 	}
 	return best
-}
-
-// editDistance is the Levenshtein distance between a and b, in runes.
-func editDistance(a, b string) int {
-	x, y := []rune(a), []rune(b)
-	row := make([]int, len(y)+1)
-	for j := range row {
-		row[j] = j
-	}
-	for i := 1; i <= len(x); i++ {
-		diag := row[0]
-		row[0] = i
-		for j := 1; j <= len(y); j++ {
-			cost := 1
-			if x[i-1] == y[j-1] {
-				cost = 0
-			}
-			next := min(row[j]+1, row[j-1]+1, diag+cost)
-			diag, row[j] = row[j], next
-		}
-	}
-	return row[len(y)]
 }
 
 // describe names a connection for a message: "R1", "Q1 base", "T1.primary",

@@ -210,16 +210,3 @@ func TestProblemOrder(t *testing.T) {
 		t.Errorf("kinds = %v, want %v", kinds, want)
 	}
 }
-
-func TestEditDistance(t *testing.T) {
-	// Levenshtein distance, textbook examples (kitten→sitting = 3 is the
-	// standard illustration of the metric).
-	for _, c := range []struct {
-		a, b string
-		d    int
-	}{{"kitten", "sitting", 3}, {"", "abc", 3}, {"base", "bse", 1}, {"vcc", "vcc", 0}, {"µa", "ua", 1}} {
-		if got := editDistance(c.a, c.b); got != c.d {
-			t.Errorf("editDistance(%q, %q) = %d, want %d", c.a, c.b, got, c.d)
-		}
-	}
-}

@@ -20,6 +20,7 @@ import (
 	"github.com/BurntSushi/toml"
 
 	"headroom/checker/quantity"
+	"headroom/checker/spell"
 )
 
 // Pos is a 1-based line and column; the column counts code points.
@@ -315,39 +316,12 @@ func (t *Table) Missing(key, detail string) {
 		msg += " " + detail
 	}
 	for _, k := range t.Keys() {
-		if k != key && editDistance(k, key) <= 2 {
+		if k != key && spell.Distance(k, key) <= 2 {
 			msg += fmt.Sprintf(" (is %q a misspelling of it?)", k)
 			break
 		}
 	}
 	t.Errorf(t.Pos, "%s", msg)
-}
-
-// editDistance is the optimal-string-alignment distance between short keys:
-// insertions, deletions, substitutions and swaps of neighbours count one each.
-func editDistance(a, b string) int {
-	x, y := []rune(a), []rune(b)
-	d := make([][]int, len(x)+1)
-	for i := range d {
-		d[i] = make([]int, len(y)+1)
-		d[i][0] = i
-	}
-	for j := range d[0] {
-		d[0][j] = j
-	}
-	for i := 1; i <= len(x); i++ {
-		for j := 1; j <= len(y); j++ {
-			cost := 1
-			if x[i-1] == y[j-1] {
-				cost = 0
-			}
-			d[i][j] = min(d[i-1][j]+1, d[i][j-1]+1, d[i-1][j-1]+cost)
-			if i > 1 && j > 1 && x[i-1] == y[j-2] && x[i-2] == y[j-1] {
-				d[i][j] = min(d[i][j], d[i-2][j-2]+1)
-			}
-		}
-	}
-	return d[len(x)][len(y)]
 }
 
 // Bool returns a boolean value; absent or wrong type gives false, false.

@@ -143,18 +143,3 @@ pair = ["1MHz", 2e6]
 		t.Error("Err is not the first error in reading order")
 	}
 }
-
-// Published examples: kitten/sitting = 3 (the classic Levenshtein example);
-// "ca"/"abc" = 3 under optimal string alignment (the example by which the
-// Wikipedia article on Damerau–Levenshtein distance tells OSA from the
-// unrestricted distance, which gives 2); single typos count one.
-func TestEditDistance(t *testing.T) {
-	for _, c := range []struct {
-		a, b string
-		d    int
-	}{{"kitten", "sitting", 3}, {"ca", "abc", 3}, {"value", "valeu", 1}, {"value", "valu", 1}, {"kind", "kidn", 1}, {"", "abc", 3}} {
-		if got := editDistance(c.a, c.b); got != c.d {
-			t.Errorf("editDistance(%q, %q) = %d, want %d", c.a, c.b, got, c.d)
-		}
-	}
-}
