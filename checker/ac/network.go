@@ -5,7 +5,6 @@ import (
 	"math"
 	"slices"
 	"sort"
-	"strconv"
 	"strings"
 	"sync"
 
@@ -373,30 +372,16 @@ var numberings = struct {
 // numbering numbers the nets of c in order's order; the AC-ground nets and
 // gnd are ground. The map is shared: read it, never write it.
 func numbering(c *circuit.Circuit, acGround map[string]bool) (map[string]int, int) {
-	// The key holds everything order reads: every net, the nets each part
-	// joins, and which supplies are AC ground; every name is written with
-	// its length, so that no two structures share a key.
+	// The key holds everything order reads: the wiring, and which supplies
+	// are AC ground.
 	var k strings.Builder
-	name := func(n string) {
-		k.WriteString(strconv.Itoa(len(n)))
-		k.WriteByte(':')
-		k.WriteString(n)
-	}
+	k.WriteString(c.WiringKey())
+	k.WriteByte('#')
 	for _, s := range c.Supplies {
-		name(s.Net)
 		if acGround[s.Net] {
 			k.WriteByte('g')
-		}
-		k.WriteByte(';')
-	}
-	k.WriteByte('|')
-	for _, p := range c.Ports {
-		name(p.Net)
-	}
-	for _, p := range c.Parts {
-		k.WriteByte('|')
-		for _, n := range p.PartNets() {
-			name(n)
+		} else {
+			k.WriteByte('-')
 		}
 	}
 	key := k.String()

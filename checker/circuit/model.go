@@ -6,6 +6,8 @@ package circuit
 import (
 	"math"
 	"slices"
+	"strconv"
+	"strings"
 
 	"headroom/checker/library"
 )
@@ -270,4 +272,33 @@ func (c *Circuit) Clone() *Circuit {
 		d.Parts[i] = &x
 	}
 	return &d
+}
+
+// WiringKey describes how c is wired — every net of every supply, port and
+// part, with the part boundaries — and nothing of its values, so that the
+// analyses can remember work done for one wiring across the hundreds of
+// corner cases of a worst-case search. Every name is written with its
+// length, so no two wirings share a key.
+func (c *Circuit) WiringKey() string {
+	var k strings.Builder
+	name := func(n string) {
+		k.WriteString(strconv.Itoa(len(n)))
+		k.WriteByte(':')
+		k.WriteString(n)
+	}
+	for _, s := range c.Supplies {
+		name(s.Net)
+		k.WriteByte(';')
+	}
+	k.WriteByte('|')
+	for _, p := range c.Ports {
+		name(p.Net)
+	}
+	for _, p := range c.Parts {
+		k.WriteByte('|')
+		for _, n := range p.PartNets() {
+			name(n)
+		}
+	}
+	return k.String()
 }

@@ -3,7 +3,6 @@ package dc
 import (
 	"fmt"
 	"math"
-	"strconv"
 	"strings"
 	"sync"
 
@@ -508,24 +507,7 @@ var netIndexes = struct {
 // netIndex numbers c's nets (all but gnd) in name order. The slice and the
 // map are shared: read them, never write them.
 func netIndex(c *circuit.Circuit) ([]string, map[string]int) {
-	var k strings.Builder // every net named, each with its length
-	name := func(n string) {
-		k.WriteString(strconv.Itoa(len(n)))
-		k.WriteByte(':')
-		k.WriteString(n)
-	}
-	for _, s := range c.Supplies {
-		name(s.Net)
-	}
-	for _, p := range c.Ports {
-		name(p.Net)
-	}
-	for _, p := range c.Parts {
-		for _, n := range p.PartNets() {
-			name(n)
-		}
-	}
-	key := k.String()
+	key := c.WiringKey()
 	netIndexes.Lock()
 	got, ok := netIndexes.m[key]
 	netIndexes.Unlock()
