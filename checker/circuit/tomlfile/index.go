@@ -296,56 +296,44 @@ func (x *index) value(path []string) {
 			x.quoted('\'')
 		}
 	case '[':
-		x.advance()
 		n := 0
-		for !x.eof() {
-			x.skipBlank()
-			c := x.peek()
-			if c == ']' {
-				x.advance()
-				return
-			}
-			if c == ',' {
-				x.advance()
-				continue
-			}
-			if x.eof() {
-				return
-			}
-			b := x.i
+		x.items(']', func() {
 			p := x.pos()
 			elem := append(append([]string(nil), path...), strconv.Itoa(n))
 			x.define(elem, p, p, p, true)
 			x.value(elem)
 			n++
-			if x.i == b {
-				x.advance()
-			}
-		}
+		})
 	case '{':
-		x.advance()
-		for !x.eof() {
-			x.skipBlank()
-			c := x.peek()
-			if c == '}' {
-				x.advance()
-				return
-			}
-			if c == ',' {
-				x.advance()
-				continue
-			}
-			if x.eof() {
-				return
-			}
-			b := x.i
-			x.keyval(path, x.pos())
-			if x.i == b {
-				x.advance()
-			}
-		}
+		x.items('}', func() { x.keyval(path, x.pos()) })
 	default:
 		for !x.eof() && !strings.ContainsRune(",]}#\n", rune(x.peek())) {
+			x.advance()
+		}
+	}
+}
+
+// items reads the comma-separated items of an array or inline table whose
+// opening bracket is next, up to the closing one, calling item at the start
+// of each. An item that reads nothing is stepped over, so the scan always
+// moves on.
+func (x *index) items(closing byte, item func()) {
+	x.advance()
+	for !x.eof() {
+		x.skipBlank()
+		switch c := x.peek(); {
+		case c == closing:
+			x.advance()
+			return
+		case c == ',':
+			x.advance()
+			continue
+		case x.eof():
+			return
+		}
+		b := x.i
+		item()
+		if x.i == b {
 			x.advance()
 		}
 	}
