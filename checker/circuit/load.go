@@ -320,16 +320,19 @@ func (ld *loader) checkNet(t *tomlfile.Table, what, n string, p tomlfile.Pos) bo
 
 // Part kinds and the keys each accepts (FORMAT.md §2).
 var partKeys = map[Kind][]string{
-	Resistor:      {"kind", "value", "nets", "tolerance", "rating"},
-	Capacitor:     {"kind", "value", "nets", "tolerance", "rating", "role"},
-	Inductor:      {"kind", "value", "turns", "core", "al", "al_tolerance", "nets", "tolerance", "resistance", "role"},
-	Transformer:   {"kind", "core", "al", "al_tolerance", "coupling", "windings"},
-	Potentiometer: {"kind", "value", "nets", "setting", "rating", "tolerance"},
-	NPN:           append([]string{"kind", "device", "nets"}, library.TransistorKeys...),
-	PNP:           append([]string{"kind", "device", "nets"}, library.TransistorKeys...),
+	Resistor:       {"kind", "value", "nets", "tolerance", "rating"},
+	Capacitor:      {"kind", "value", "nets", "tolerance", "rating", "role"},
+	Inductor:       {"kind", "value", "turns", "core", "al", "al_tolerance", "nets", "tolerance", "resistance", "role"},
+	Transformer:    {"kind", "core", "al", "al_tolerance", "coupling", "windings"},
+	Potentiometer:  {"kind", "value", "nets", "setting", "rating", "tolerance"},
+	NPN:            append([]string{"kind", "device", "nets"}, library.TransistorKeys...),
+	PNP:            append([]string{"kind", "device", "nets"}, library.TransistorKeys...),
+	NJFET:          append([]string{"kind", "device", "nets"}, library.FETKeys...),
+	PJFET:          append([]string{"kind", "device", "nets"}, library.FETKeys...),
+	DualGateMOSFET: append([]string{"kind", "device", "nets"}, library.FETKeys...),
 }
 
-var kindOrder = []Kind{Resistor, Capacitor, Inductor, Transformer, Potentiometer, NPN, PNP}
+var kindOrder = []Kind{Resistor, Capacitor, Inductor, Transformer, Potentiometer, NPN, PNP, NJFET, PJFET, DualGateMOSFET}
 
 func kindList() string {
 	s := make([]string, len(kindOrder))
@@ -365,7 +368,13 @@ func (ld *loader) part(t *tomlfile.Table) *Part {
 	p.Kind = Kind(kind)
 	keys, known := partKeys[p.Kind]
 	switch {
-	case kind == "diode" || kind == "jfet" || kind == "mosfet":
+	case kind == "jfet":
+		t.Errorf(t.ValPos("kind"), `%s kind: "jfet" is reserved; write "njfet" or "pjfet" for the channel type; supported kinds: %s`, t.Name, kindList())
+		return nil
+	case kind == "mosfet":
+		t.Errorf(t.ValPos("kind"), `%s kind: "mosfet" is reserved, not supported yet (of the MOSFETs only the n-channel "dual-gate-mosfet" is); supported kinds: %s`, t.Name, kindList())
+		return nil
+	case kind == "diode":
 		t.Errorf(t.ValPos("kind"), "%s kind: %q is reserved, not supported yet; supported kinds: %s", t.Name, kind, kindList())
 		return nil
 	case !known:
@@ -419,6 +428,12 @@ func (ld *loader) part(t *tomlfile.Table) *Part {
 	case NPN, PNP:
 		p.Nets = ld.namedNets(t, "collector", "base", "emitter")
 		ld.transistor(t, p)
+	case NJFET, PJFET:
+		p.Nets = ld.namedNets(t, "drain", "gate", "source")
+		ld.fet(t, p)
+	case DualGateMOSFET:
+		p.Nets = ld.namedNets(t, "drain", "gate", "source", "gate2")
+		ld.fet(t, p)
 	}
 	return p
 }
@@ -706,5 +721,65 @@ func (ld *loader) waivers(root *tomlfile.Table) {
 		}
 		w.Expires, _ = t.Date("expires")
 		ld.c.Waivers = append(ld.c.Waivers, w)
+	}
+}
+
+// requiredFETFigures are the FET figures a part must end up with (docs/fet.md).
+var requiredFETFigures = []string{"idss", "vp", "vds_max", "pd", "tj_max"}
+
+// fet reads a field-effect transistor: its library device, then the inline
+// figures over it.
+func (ld *loader) fet(t *tomlfile.Table, p *Part) {
+	var f library.FET
+	from := ""
+	if name, ok := t.String("device", false); ok {
+		p.Device = name
+		lf := ld.lib.FETs[name]
+		switch {
+		case lf == nil:
+			var same []string
+			for _, k := range sortedKeys(ld.lib.FETs) {
+				if ld.lib.FETs[k].Polarity == string(p.Kind) {
+					same = append(same, k)
+				}
+			}
+			t.Errorf(t.ValPos("device"), "%s device: unknown %s %q; the library's %s types are %s", t.What, p.Kind, name, p.Kind, strings.Join(same, ", "))
+			return
+		case lf.Polarity != string(p.Kind):
+			t.Errorf(t.ValPos("device"), "%s device: %s is a %s, but kind is %q", t.What, name, lf.Polarity, p.Kind)
+			return
+		}
+		f = *lf
+		from = fmt.Sprintf(" (device %s)", name)
+	}
+	library.ReadFETFigures(t, string(p.Kind), &f)
+	have := map[string]bool{"idss": f.IDSSMax > 0, "vp": f.VPMax > 0, "vds_max": f.VDSMax > 0, "pd": f.PD > 0, "tj_max": f.TjMax > 0}
+	var missing []string
+	for _, k := range requiredFETFigures {
+		if !have[k] && !t.Has(k) {
+			missing = append(missing, k)
+		}
+	}
+	if len(missing) > 0 {
+		how := "name a library device with device = \"...\" or give them inline"
+		if p.Device != "" {
+			how = "give them inline"
+		}
+		t.Errorf(t.Pos, "%s: FET figures missing%s: %s; %s", t.What, from, strings.Join(missing, ", "), how)
+	}
+	if bad := f.TypOutside(); bad != "" {
+		at := t.Pos
+		for _, k := range []string{"idss_typ", "vp_typ", "idss", "vp", "device"} {
+			if t.Has(k) {
+				at = t.ValPos(k)
+				break
+			}
+		}
+		t.Errorf(at, "%s: %s", t.What, bad)
+	}
+	p.FET = &FETParams{IDSSMin: f.IDSSMin, IDSSMax: f.IDSSMax, IDSSTyp: f.IDSSTyp, VPMin: f.VPMin, VPMax: f.VPMax,
+		VPTyp: f.VPTyp, VDSMax: f.VDSMax, PD: f.PD, TjMax: f.TjMax, Ciss: f.Ciss, Crss: f.Crss, Coss: f.Coss}
+	if f.IDSSMax > 0 && f.VPMax > 0 {
+		p.FET.IDSS, p.FET.VP = p.FET.NominalIDSS(), p.FET.NominalVP()
 	}
 }

@@ -119,6 +119,7 @@ type Part struct {
 	// Transistor.
 	Device string // library name, may be "" when every figure is inline
 	BJT    *BJTParams
+	FET    *FETParams // njfet, pjfet, dual-gate-mosfet (nets: drain, gate, source[, gate2])
 }
 
 // Winding is one winding of a transformer.
@@ -268,6 +269,10 @@ func (c *Circuit) Clone() *Circuit {
 		if p.BJT != nil {
 			b := *p.BJT
 			x.BJT = &b
+		}
+		if p.FET != nil {
+			f := *p.FET
+			x.FET = &f
 		}
 		d.Parts[i] = &x
 	}

@@ -92,6 +92,7 @@ type netlist struct {
 	sources []source
 	nortons []norton
 	bjts    []bjt
+	fets    []fet // fet.go
 	// what each branch row belongs to, for messages: a part ref, REF.WINDING,
 	// "REF:a" or "REF:b" for a potentiometer section, or "supply NET".
 	branchOwner []string
@@ -181,7 +182,7 @@ func compile(c *circuit.Circuit) (*netlist, *Failure) {
 			if len(p.Nets) != 2 {
 				return nil, invalid(p.Ref, "needs two nets, has %d", len(p.Nets))
 			}
-		case circuit.Potentiometer, circuit.NPN, circuit.PNP:
+		case circuit.Potentiometer, circuit.NPN, circuit.PNP, circuit.NJFET, circuit.PJFET:
 			if len(p.Nets) != 3 {
 				return nil, invalid(p.Ref, "needs three nets, has %d", len(p.Nets))
 			}
@@ -222,6 +223,10 @@ func compile(c *circuit.Circuit) (*netlist, *Failure) {
 			}
 			q.c, q.b, q.e = node(p.Nets[0]), node(p.Nets[1]), node(p.Nets[2])
 			nl.bjts = append(nl.bjts, q)
+		case circuit.NJFET, circuit.PJFET, circuit.DualGateMOSFET:
+			if f := nl.addFET(p, node); f != nil {
+				return nil, f
+			}
 		default:
 			return nil, invalid(p.Ref, "kind %q has no DC model", p.Kind)
 		}

@@ -48,24 +48,26 @@ const (
 // about an exactly zero pivot (bad scaling is judged by the KCL balance
 // instead).
 type solver struct {
-	nl    *netlist
-	n     int
-	m     *sparseLU // the matrix of the current iteration, and its factors
-	base  []float64 // linear part of the matrix, by m's slots
-	diag  []int     // m's slot of each node's diagonal entry
-	jac   [][9]int  // m's slots of each transistor's nine stamps (-1: gnd)
-	bsrc  []float64 // right-hand side of the sources at full strength
-	a     blas64.General
-	rhs   blas64.General // n×1; holds the solution after a solve
-	piv   []int
-	dense bool      // the last factorisation was the dense fall-back's
-	x     []float64 // current solution
-	res   []float64 // KCL residual of each net, scratch for balanced
-	mag   []float64 // Σ|current| at each net, scratch for balanced
-	floor []float64 // what rounding leaves of each net's residual
-	save  []float64
-	saveJ []float64 // junction state of every transistor, for a step that fails
-	iters int       // Newton iterations, all attempts of the current method
+	nl      *netlist
+	n       int
+	m       *sparseLU // the matrix of the current iteration, and its factors
+	base    []float64 // linear part of the matrix, by m's slots
+	diag    []int     // m's slot of each node's diagonal entry
+	jac     [][9]int  // m's slots of each transistor's nine stamps (-1: gnd)
+	bsrc    []float64 // right-hand side of the sources at full strength
+	a       blas64.General
+	rhs     blas64.General // n×1; holds the solution after a solve
+	piv     []int
+	dense   bool      // the last factorisation was the dense fall-back's
+	x       []float64 // current solution
+	res     []float64 // KCL residual of each net, scratch for balanced
+	mag     []float64 // Σ|current| at each net, scratch for balanced
+	floor   []float64 // what rounding leaves of each net's residual
+	save    []float64
+	saveJ   []float64 // junction state of every transistor, for a step that fails
+	fetSlot [][16]int // m's slots of each FET's stamps (fet.go)
+	saveF   []float64 // the FETs' state, for a step that fails
+	iters   int       // Newton iterations, all attempts of the current method
 	// the unknown with the smallest pivot when the matrix was singular
 	singularAt int
 	// where plain Newton gave up, kept to explain a failure of the fall-backs
@@ -113,7 +115,9 @@ func newSolver(nl *netlist) *solver {
 			pat.mark(e[0], e[1])
 		}
 	}
+	nl.markFETs(pat)
 	s.m = pat.build()
+	s.fetSlot = nl.fetSlots(s.m)
 	s.base = make([]float64, len(s.m.vals))
 	s.diag = make([]int, nl.nodes)
 	for i := range s.diag {
@@ -225,6 +229,9 @@ func (s *solver) newton(scale, gshunt float64, maxIter int, initJct bool) outcom
 			q.vbe, q.vbc = vbe, vbc
 			s.stamp(k, ad, bd)
 		}
+		if s.stampFETs(ad, bd, initJct && it == 0) {
+			anyLimited = true
+		}
 
 		if !s.factorSolve() {
 			s.singularAt = s.smallestPivot()
@@ -312,6 +319,7 @@ func (s *solver) balanced(scale, gshunt float64) bool {
 		leave(q.b, q.pol*p.ib, tol)
 		leave(q.e, -q.pol*(p.ic+p.ib), tol)
 	}
+	s.balanceFETs(leave)
 	for i := 0; i < nl.nodes; i++ {
 		if !(math.Abs(res[i]) <= 1e-9*mag[i]+floor[i]) {
 			return false
@@ -331,7 +339,7 @@ func (s *solver) junctionsSettled() bool {
 			return false
 		}
 	}
-	return true
+	return s.fetsSettled()
 }
 
 // stamp adds transistor k, linearised at its junction state, to the matrix
@@ -387,6 +395,7 @@ func (s *solver) push() {
 	for k := range s.nl.bjts {
 		s.saveJ[2*k], s.saveJ[2*k+1] = s.nl.bjts[k].vbe, s.nl.bjts[k].vbc
 	}
+	s.saveFETs()
 }
 
 func (s *solver) pop() {
@@ -394,6 +403,7 @@ func (s *solver) pop() {
 	for k := range s.nl.bjts {
 		s.nl.bjts[k].vbe, s.nl.bjts[k].vbc = s.saveJ[2*k], s.saveJ[2*k+1]
 	}
+	s.restoreFETs()
 }
 
 func (s *solver) reset() {
@@ -401,6 +411,7 @@ func (s *solver) reset() {
 	for k := range s.nl.bjts {
 		s.nl.bjts[k].vbe, s.nl.bjts[k].vbc = 0, 0
 	}
+	s.resetFETs()
 	s.iters = 0
 }
 

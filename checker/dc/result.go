@@ -8,6 +8,7 @@ type Result struct {
 	V     map[string]float64 // node voltage of every net, gnd included (0), V
 	Parts map[string]*Part   // every part but transistors, by reference
 	BJTs  map[string]*BJT    // every transistor, by reference
+	FETs  map[string]*FET    // every field-effect transistor, by reference (fet.go)
 	// SupplyCurrent is the current each supply delivers out of its net, A.
 	SupplyCurrent map[string]float64
 	Iterations    int    // Newton iterations of the successful attempt

@@ -66,6 +66,9 @@ func Solve(c *circuit.Circuit) (*Result, error) {
 // the tangent continuation's, not the model's, and the model's current would
 // be unbounded.
 func (nl *netlist) overdriven(x []float64) *Failure {
+	if f := nl.overdrivenFET(x); f != nil {
+		return f
+	}
 	for _, q := range nl.bjts {
 		vb := volt(x, q.b)
 		for _, j := range []struct {
@@ -170,6 +173,7 @@ func (nl *netlist) result(c *circuit.Circuit, x []float64, iters int, method str
 		V:             make(map[string]float64, nl.nodes+1),
 		Parts:         make(map[string]*Part, len(c.Parts)),
 		BJTs:          make(map[string]*BJT, len(nl.bjts)),
+		FETs:          make(map[string]*FET, len(nl.fets)),
 		SupplyCurrent: make(map[string]float64, len(c.Supplies)),
 		Iterations:    iters,
 		Method:        method,
@@ -234,6 +238,8 @@ func (nl *netlist) result(c *circuit.Circuit, x []float64, iters int, method str
 			q := &nl.bjts[k]
 			k++
 			r.BJTs[p.Ref] = q.operatingPoint(volt(x, q.c), volt(x, q.b), volt(x, q.e), nl.vt)
+		case circuit.NJFET, circuit.PJFET, circuit.DualGateMOSFET:
+			nl.fetResult(r, p.Ref, x)
 		}
 	}
 	if bad := r.firstNonFinite(); bad != "" {
@@ -285,6 +291,11 @@ func (r *Result) firstNonFinite() string {
 			ok = ok && finite(w)
 		}
 		if !ok {
+			return ref
+		}
+	}
+	for ref, f := range r.FETs {
+		if !(finite(f.ID) && finite(f.IG) && finite(f.VGS) && finite(f.VDS) && finite(f.Power)) {
 			return ref
 		}
 	}

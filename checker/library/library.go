@@ -27,6 +27,7 @@ const DefaultALTolerance = 0.25
 type Library struct {
 	Transistors map[string]*Transistor
 	Cores       map[string]*Core
+	FETs        map[string]*FET // [fets."NAME"], docs/fet.md
 }
 
 // Transistor is a library transistor. A figure of 0 was not given (a library
@@ -75,7 +76,7 @@ func (c *Core) AL() float64 {
 
 // New returns an empty library.
 func New() *Library {
-	return &Library{Transistors: map[string]*Transistor{}, Cores: map[string]*Core{}}
+	return &Library{Transistors: map[string]*Transistor{}, Cores: map[string]*Core{}, FETs: map[string]*FET{}}
 }
 
 // Merge adds other's entries to l; an entry of other replaces l's entry of the
@@ -95,6 +96,12 @@ func (l *Library) Merge(other *Library) {
 	}
 	for k, v := range other.Cores {
 		l.Cores[k] = v
+	}
+	if l.FETs == nil {
+		l.FETs = map[string]*FET{}
+	}
+	for k, v := range other.FETs {
+		l.FETs[k] = v
 	}
 }
 
@@ -127,7 +134,7 @@ func Parse(path string, data []byte) (*Library, error) {
 	}
 	root := doc.Root
 	root.What = "library"
-	root.Allow("transistors", "cores")
+	root.Allow("transistors", "cores", "fets")
 	l := New()
 	if ts := root.Table("transistors", "[transistors]"); ts != nil {
 		for _, t := range ts.Tables(func(k string) string { return fmt.Sprintf("transistor %q", k) }) {
@@ -140,6 +147,13 @@ func Parse(path string, data []byte) (*Library, error) {
 		for _, t := range cs.Tables(func(k string) string { return fmt.Sprintf("core %q", k) }) {
 			if c := readCore(t); c != nil {
 				l.Cores[t.Name] = c
+			}
+		}
+	}
+	if fs := root.Table("fets", "[fets]"); fs != nil {
+		for _, t := range fs.Tables(func(k string) string { return fmt.Sprintf("FET %q", k) }) {
+			if f := readFET(t); f != nil {
+				l.FETs[t.Name] = f
 			}
 		}
 	}
