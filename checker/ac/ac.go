@@ -39,6 +39,8 @@ type Result struct {
 	Windings map[string]map[string]*Winding
 	// BJTs holds every transistor's small-signal model, by reference.
 	BJTs map[string]*BJT
+	// FETs holds every field-effect transistor's small-signal model (fet.go).
+	FETs map[string]*FET
 
 	net   *network
 	mu    sync.Mutex
@@ -115,6 +117,7 @@ func Analyze(c *circuit.Circuit, op *dc.Result) (*Result, error) {
 		Parts:    map[string]*Reactive{},
 		Windings: map[string]map[string]*Winding{},
 		BJTs:     map[string]*BJT{},
+		FETs:     map[string]*FET{},
 		net:      nw,
 		freqs:    map[float64]*freq{},
 		cache:    map[cacheKey]complex128{},
@@ -222,6 +225,12 @@ func (r *Result) partFigures(c *circuit.Circuit, op *dc.Result, lo, hi float64) 
 				return fmt.Errorf("part %s: %w", p.Ref, err)
 			}
 			r.BJTs[p.Ref] = &BJT{GM: h.GM, Rpi: h.Rpi, Cpi: h.Cpi, Cmu: h.Cmu, BetaHigh: h.FT / hi}
+		case circuit.NJFET, circuit.PJFET, circuit.DualGateMOSFET:
+			f, err := fetModel(p, op)
+			if err != nil {
+				return fmt.Errorf("part %s: %w", p.Ref, err)
+			}
+			r.FETs[p.Ref] = f
 		}
 	}
 	return nil

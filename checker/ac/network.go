@@ -125,7 +125,8 @@ func (nw *network) add(ref string, br []branch, adm func(float64) ([]complex128,
 
 // netCount is how many nets each kind with a Nets list must have.
 var netCount = map[circuit.Kind]int{circuit.Resistor: 2, circuit.Capacitor: 2, circuit.Inductor: 2,
-	circuit.Potentiometer: 3, circuit.NPN: 3, circuit.PNP: 3}
+	circuit.Potentiometer: 3, circuit.NPN: 3, circuit.PNP: 3,
+	circuit.NJFET: 3, circuit.PJFET: 3, circuit.DualGateMOSFET: 4}
 
 // addPart adds one part's small-signal stamp (FORMAT.md §6).
 func (nw *network) addPart(p *circuit.Part, op *dc.Result, node func(string) int) error {
@@ -171,6 +172,8 @@ func (nw *network) addPart(p *circuit.Part, op *dc.Result, node func(string) int
 		return nw.addTransformer(p, node)
 	case circuit.NPN, circuit.PNP:
 		return nw.addBJT(p, op, node)
+	case circuit.NJFET, circuit.PJFET, circuit.DualGateMOSFET:
+		return nw.addFET(p, op, node)
 	default:
 		return fmt.Errorf("kind %q has no small-signal model", p.Kind)
 	}

@@ -57,7 +57,8 @@ type Param struct {
 	Key         string  // the corner key of FORMAT.md §5: REF, REF.hfe, REF.al, a supply net, "ambient"
 	Nom, Lo, Hi float64 // the nominal value and the range
 	Unit        quantity.Unit
-	Tolerance   bool // the range is nominal ± a tolerance (shown as a percentage)
+	Tolerance   bool                       // the range is nominal ± a tolerance (shown as a percentage)
+	vpFor       func(idss float64) float64 // REF.idss: the pinch-off voltage that moves with it (fet.go)
 	set         func(c *circuit.Circuit, v float64)
 	holdsSupply bool // a supply's range (bias.drift holds these at nominal)
 }
@@ -89,6 +90,8 @@ func Box(c *circuit.Circuit) []Param {
 				ps = append(ps, Param{Key: p.Ref + ".hfe", Nom: b.NominalHFE(), Lo: b.HFEMin, Hi: b.HFEMax,
 					Unit: quantity.Ratio, set: func(c *circuit.Circuit, v float64) { ownBJT(c, i).HFETyp = v }})
 			}
+		case circuit.NJFET, circuit.PJFET, circuit.DualGateMOSFET:
+			ps = appendFET(ps, i, p)
 		}
 	}
 	for i, s := range c.Supplies {

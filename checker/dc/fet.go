@@ -404,6 +404,10 @@ type FET struct {
 	// SatMargin is VDS − (VGS + VP): how far the drain sits above the
 	// saturation edge, V (for a dual gate, the smaller of its two halves').
 	SatMargin float64
+	// Jac is the linearised device at this point, forward sense:
+	// ∂(ID, IG, IG2)/∂(VDS, VGS, VG2S), S. The small-signal model stamps it
+	// as it is (a p-channel part's mirrored signs cancel).
+	Jac [3][3]float64
 }
 
 // GateForward is the gate-source (or gate-drain) voltage above which a
@@ -415,7 +419,7 @@ const GateForward = 0.5 // V
 func (q *fet) operatingPoint(x []float64, vt float64) *FET {
 	vds, vgs, vg2s := q.bias(x)
 	p := q.eval(vds, vgs, vg2s, vt)
-	o := &FET{ID: p.ich, IG: p.i[1], VGS: vgs, VDS: vds, VG2S: vg2s, VM: p.vm, IDSS: q.idss, VP: q.vp}
+	o := &FET{ID: p.ich, IG: p.i[1], VGS: vgs, VDS: vds, VG2S: vg2s, VM: p.vm, IDSS: q.idss, VP: q.vp, Jac: p.jac}
 	o.Power = vds*p.i[0] + vgs*p.i[1]
 	o.SatMargin = vds - (vgs + q.vp)
 	if q.dual {

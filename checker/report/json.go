@@ -80,6 +80,9 @@ func (r *Report) JSON(w io.Writer) error {
 					e["current"] = quantity.Finite(d.Current)
 				}
 			}
+			if f := op.FETs[p.Ref]; f != nil {
+				r.fetJSON(e, p.Ref, f, ac)
+			}
 			if b := op.BJTs[p.Ref]; b != nil {
 				e["ic"], e["ib"], e["vbe"], e["vce"] = quantity.Finite(b.IC), quantity.Finite(b.IB), quantity.Finite(b.VBE), quantity.Finite(b.VCE)
 				e["power"], e["hfe"], e["region"] = quantity.Finite(b.Power), quantity.Finite(b.HFE), b.Region

@@ -27,6 +27,9 @@ func Quantities(cs *analysis.Case) map[string]float64 {
 		for ref, b := range cs.OP.BJTs {
 			q[ref+".ic"], q[ref+".vce"], q[ref+".power"] = b.IC, b.VCE, b.Power
 		}
+		for ref, f := range cs.OP.FETs {
+			q[ref+".id"], q[ref+".vds"], q[ref+".power"] = f.ID, f.VDS, f.Power
+		}
 	}
 	if cs.AC != nil {
 		for i, bp := range cs.AC.Band {

@@ -55,7 +55,7 @@ func (r *Report) tables() []table {
 
 	pt := table{title: "Parts", header: []string{"part", "kind", "value", "DC", "reactance", "works into", "role"}}
 	for _, p := range c.Parts {
-		if p.Kind.IsBJT() {
+		if p.Kind.IsBJT() || p.Kind.IsFET() {
 			continue
 		}
 		for _, row := range r.partRows(p) {
@@ -80,6 +80,9 @@ func (r *Report) tables() []table {
 	}
 	if len(bt.rows) > 0 {
 		ts = append(ts, bt)
+	}
+	if ft := r.fetTable(op, ac); len(ft.rows) > 0 {
+		ts = append(ts, ft)
 	}
 	if ac == nil {
 		ts = append(ts, table{title: "Band", header: []string{"problem"}, rows: [][]string{{"no band analysis: " + errText(cs.ACErr)}}})

@@ -7,7 +7,7 @@ import (
 // BJT holds the wiring facts of one transistor that the rules need.
 type BJT struct {
 	Ref                      string
-	Kind                     circuit.Kind // circuit.NPN or circuit.PNP
+	Kind                     circuit.Kind // circuit.NPN or circuit.PNP, or a FET kind (fet.go)
 	Collector, Base, Emitter string       // its nets
 	Order                    int          // index in file order
 
@@ -48,12 +48,12 @@ type BJT struct {
 
 func (t *Topology) analyzeBJTs() {
 	for i, p := range t.c.Parts {
-		if p == nil || !p.Kind.IsBJT() || len(p.Nets) != 3 {
+		if p == nil || !(p.Kind.IsBJT() || p.Kind.IsFET()) || len(p.Nets) < 3 {
 			continue
 		}
 		q := &BJT{Ref: p.Ref, Kind: p.Kind, Collector: p.Nets[0], Base: p.Nets[1], Emitter: p.Nets[2], Order: i}
 		t.returnRail(p, q)
-		q.FeedRail = t.pickRail(p.Kind == circuit.NPN, t.dcRails(q.Collector, p), q.ReturnRail, true)
+		q.FeedRail = t.pickRail(positiveFeed(p.Kind), t.dcRails(q.Collector, p), q.ReturnRail, true)
 		if q.ReturnRail != "" && q.Base != q.ReturnRail {
 			for _, ei := range t.g.adj[q.Base] {
 				e := &t.g.edges[ei]
@@ -70,7 +70,7 @@ func (t *Topology) analyzeBJTs() {
 }
 
 func (t *Topology) returnRail(p *circuit.Part, q *BJT) {
-	npn := p.Kind == circuit.NPN
+	npn := positiveFeed(p.Kind)
 	if t.Rails[q.Emitter] {
 		q.ReturnRail, q.ReturnByResistors = q.Emitter, true
 		return

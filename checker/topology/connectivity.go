@@ -224,7 +224,7 @@ func (t *Topology) floatingTerminals(skip map[string]bool) []Problem {
 	var nets []string
 	who := map[string][]string{}
 	for _, p := range t.c.Parts {
-		if p == nil || !p.Kind.IsBJT() || len(p.Nets) != 3 {
+		if p == nil || !(p.Kind.IsBJT() || p.Kind.IsFET()) || len(p.Nets) < 3 {
 			continue
 		}
 		for j, n := range p.Nets {
@@ -234,7 +234,7 @@ func (t *Topology) floatingTerminals(skip map[string]bool) []Problem {
 			if _, ok := who[n]; !ok {
 				nets = append(nets, n)
 			}
-			who[n] = append(who[n], p.Ref+" "+[3]string{"collector", "base", "emitter"}[j])
+			who[n] = append(who[n], p.Ref+" "+pinName(p.Kind, j))
 		}
 	}
 	var out []Problem
@@ -276,7 +276,7 @@ func describe(term Terminal) string {
 		return "port " + term.Ref
 	case term.Supply:
 		return "supply " + term.Ref
-	case term.Kind.IsBJT():
+	case term.Kind.IsBJT() || term.Kind.IsFET():
 		return term.Ref + " " + term.Pin
 	case term.Kind == circuit.Potentiometer:
 		return term.Ref + " " + term.Pin

@@ -90,8 +90,8 @@ func buildGraph(c *circuit.Circuit) *graph {
 				add(edge{kind: eWinding, a: w.Nets[0], b: w.Nets[1], part: p, order: i,
 					label: p.Ref + "." + w.Name, zeroR: w.Resistance == 0})
 			}
-		case circuit.NPN, circuit.PNP:
-			if len(p.Nets) != 3 {
+		case circuit.NPN, circuit.PNP, circuit.NJFET, circuit.PJFET, circuit.DualGateMOSFET:
+			if len(p.Nets) < 3 {
 				continue
 			}
 			add(edge{kind: eCE, a: p.Nets[0], b: p.Nets[2], part: p, order: i, label: p.Ref})

@@ -128,6 +128,8 @@ func (t *Topology) index() {
 				}
 				t.flags[n] = f
 			}
+		case circuit.NJFET, circuit.PJFET, circuit.DualGateMOSFET:
+			t.indexFET(i, p, touch)
 		default:
 			for j, n := range p.Nets {
 				if j < 2 {
