@@ -432,7 +432,11 @@ func (ld *loader) part(t *tomlfile.Table) *Part {
 		p.Nets = ld.namedNets(t, "drain", "gate", "source")
 		ld.fet(t, p)
 	case DualGateMOSFET:
-		p.Nets = ld.namedNets(t, "drain", "gate", "source", "gate2")
+		if m, ok := t.Raw("nets").(map[string]any); ok && m["gate2"] == nil {
+			t.Errorf(t.ValPos("nets"), `%s nets: a dual-gate MOSFET needs gate2, the net of its second gate (held near +4 V by a decoupled divider for full gain), as in nets = { drain = "...", gate = "...", source = "...", gate2 = "..." }`, t.What)
+		} else {
+			p.Nets = ld.namedNets(t, "drain", "gate", "source", "gate2")
+		}
 		ld.fet(t, p)
 	}
 	return p
