@@ -29,7 +29,7 @@ func TestCatalogueMatchesBruteForce(t *testing.T) {
 		t.Fatal(err)
 	}
 	cfg := set.Config(all)
-	for _, name := range []string{"preamp-30m.toml", "buffer-20m.toml", "pnp-160m.toml", "cg-preamp-6m.toml", "dualgate-if-10m7.toml"} {
+	for _, name := range []string{"preamp-30m.toml", "buffer-20m.toml", "pnp-160m.toml", "cg-preamp-6m.toml", "dualgate-if-10m7.toml", "cs-tank-40m.toml"} {
 		t.Run(name, func(t *testing.T) {
 			c, err := circuit.Load("../../testdata/circuits/"+name, circuit.Options{})
 			if err != nil {
