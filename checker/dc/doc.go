@@ -33,5 +33,9 @@
 //     reverse-conducting transistor is "cutoff", and Power is the true
 //     dissipation Σ V·I over the terminals, which equals VCE·IC + VBE·IB for
 //     any forward-active stage.
+//   - Field-effect transistors (fet.go, docs/fet.md) stamp their square-law
+//     channel, and a JFET's gate diodes, linearised at a bias whose Newton
+//     step is limited per FET; a dual gate's internal node is solved inside
+//     the device, so the unknowns stay the nets and branch currents.
 //   - The linear solves use gonum's LAPACK LU with partial pivoting.
 package dc
