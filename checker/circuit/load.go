@@ -654,20 +654,7 @@ func (ld *loader) transistor(t *tomlfile.Table, p *Part) {
 	library.ReadFigures(t, p.Kind == PNP, &tr)
 	have := map[string]bool{"ft": tr.FT > 0, "hfe": tr.HFEMax > 0, "vbe": tr.VBE > 0, "ic_ref": tr.ICRef > 0,
 		"pd": tr.PD > 0, "tj_max": tr.TjMax > 0, "ic_max": tr.ICMax > 0, "vceo": tr.VCEO > 0}
-	var missing []string
-	for _, k := range requiredFigures {
-		// A figure present but unreadable has its own error already.
-		if !have[k] && !t.Has(k) {
-			missing = append(missing, k)
-		}
-	}
-	if len(missing) > 0 {
-		how := "name a library device with device = \"...\" or give them inline"
-		if p.Device != "" {
-			how = "give them inline"
-		}
-		t.Errorf(t.Pos, "%s: transistor figures missing%s: %s; %s", t.What, from, strings.Join(missing, ", "), how)
-	}
+	missingFigures(t, p, "transistor", from, requiredFigures, have)
 	if tr.HFETypOutside() {
 		at := t.ValPos("device")
 		switch {
@@ -758,19 +745,7 @@ func (ld *loader) fet(t *tomlfile.Table, p *Part) {
 	}
 	library.ReadFETFigures(t, string(p.Kind), &f)
 	have := map[string]bool{"idss": f.IDSSMax > 0, "vp": f.VPMax > 0, "vds_max": f.VDSMax > 0, "pd": f.PD > 0, "tj_max": f.TjMax > 0}
-	var missing []string
-	for _, k := range requiredFETFigures {
-		if !have[k] && !t.Has(k) {
-			missing = append(missing, k)
-		}
-	}
-	if len(missing) > 0 {
-		how := "name a library device with device = \"...\" or give them inline"
-		if p.Device != "" {
-			how = "give them inline"
-		}
-		t.Errorf(t.Pos, "%s: FET figures missing%s: %s; %s", t.What, from, strings.Join(missing, ", "), how)
-	}
+	missingFigures(t, p, "FET", from, requiredFETFigures, have)
 	if bad := f.TypOutside(); bad != "" {
 		at := t.Pos
 		for _, k := range []string{"idss_typ", "vp_typ", "idss", "vp", "device"} {
@@ -785,5 +760,24 @@ func (ld *loader) fet(t *tomlfile.Table, p *Part) {
 		VPTyp: f.VPTyp, VDSMax: f.VDSMax, PD: f.PD, TjMax: f.TjMax, Ciss: f.Ciss, Crss: f.Crss, Coss: f.Coss}
 	if f.IDSSMax > 0 && f.VPMax > 0 {
 		p.FET.IDSS, p.FET.VP = p.FET.NominalIDSS(), p.FET.NominalVP()
+	}
+}
+
+// missingFigures reports the required figures that neither the library
+// device nor the part gives (a figure present but unreadable has its own
+// error already).
+func missingFigures(t *tomlfile.Table, p *Part, what, from string, required []string, have map[string]bool) {
+	var missing []string
+	for _, k := range required {
+		if !have[k] && !t.Has(k) {
+			missing = append(missing, k)
+		}
+	}
+	if len(missing) > 0 {
+		how := "name a library device with device = \"...\" or give them inline"
+		if p.Device != "" {
+			how = "give them inline"
+		}
+		t.Errorf(t.Pos, "%s: %s figures missing%s: %s; %s", t.What, what, from, strings.Join(missing, ", "), how)
 	}
 }

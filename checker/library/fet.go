@@ -86,13 +86,7 @@ func ReadFETFigures(t *tomlfile.Table, polarity string, f *FET) {
 		f.VDSMax = math.Abs(v)
 	}
 	pos("pd", quantity.Watt, &f.PD)
-	if v, ok := t.Quantity("tj_max", quantity.Celsius, tomlfile.AnySign); ok {
-		if v <= 25 {
-			t.Errorf(t.ValPos("tj_max"), "%s tj_max: must be above 25 °C, where the dissipation rating pd applies; got %s", t.What, quantity.Format(v, quantity.Celsius))
-		} else {
-			f.TjMax = v
-		}
-	}
+	readTjMax(t, &f.TjMax)
 	for _, c := range []struct {
 		key string
 		dst *float64

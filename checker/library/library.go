@@ -213,13 +213,7 @@ func ReadFigures(t *tomlfile.Table, pnp bool, tr *Transistor) {
 	mag("vbe", quantity.Volt, &tr.VBE)
 	mag("ic_ref", quantity.Ampere, &tr.ICRef)
 	pos("pd", quantity.Watt, &tr.PD)
-	if v, ok := t.Quantity("tj_max", quantity.Celsius, tomlfile.AnySign); ok {
-		if v <= 25 {
-			t.Errorf(t.ValPos("tj_max"), "%s tj_max: must be above 25 °C, where the dissipation rating pd applies; got %s", t.What, quantity.Format(v, quantity.Celsius))
-		} else {
-			tr.TjMax = v
-		}
-	}
+	readTjMax(t, &tr.TjMax)
 	mag("ic_max", quantity.Ampere, &tr.ICMax)
 	mag("vceo", quantity.Volt, &tr.VCEO)
 	if v, ok := t.Quantity("cob", quantity.Farad, tomlfile.NonNegative); ok {
@@ -280,4 +274,15 @@ func readCore(t *tomlfile.Table) *Core {
 		}
 	}
 	return c
+}
+
+// readTjMax reads tj_max, which must lie above 25 °C (where pd applies).
+func readTjMax(t *tomlfile.Table, dst *float64) {
+	if v, ok := t.Quantity("tj_max", quantity.Celsius, tomlfile.AnySign); ok {
+		if v <= 25 {
+			t.Errorf(t.ValPos("tj_max"), "%s tj_max: must be above 25 °C, where the dissipation rating pd applies; got %s", t.What, quantity.Format(v, quantity.Celsius))
+		} else {
+			*dst = v
+		}
+	}
 }
