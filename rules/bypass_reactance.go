@@ -19,7 +19,7 @@ var BypassReactance = &engine.Rule{
 			"The textbook tenth of the emitter resistor can be tens of times too small a capacitor.",
 		Formula: "X = 1/(2π·f_low·C) (C as for coupling.reactance: nominal, or value × (1 − tolerance) in the worst case); " +
 			"X <= max_fraction × circuit_impedance, circuit_impedance = |Z| from the bypassed net to ground at f_low with the bypass removed. " +
-			"Bypass capacitors that share both nets are one group.",
+			"Bypass capacitors that share both nets are one group. A FET's source bypass is judged the same way: the source counts as an emitter, and the impedance looking into it is about 1/gm (docs/fet.md).",
 		Source: "common practice, no published source for the fraction; the impedance looking into the emitter, " +
 			"(R_th + rπ)/(1 + β), is the hybrid-π result (the textbook bypass rule, a tenth of the resistance the capacitor " +
 			"sees, is in e.g. Malvino and Bates, Electronic Principles; cited from memory)",

@@ -22,7 +22,7 @@ var ChokeReactance = &engine.Rule{
 			"collector load reactive.",
 		Formula: "ωL ÷ circuit_impedance >= min_ratio, at f_low, DC resistance ignored; L at the case judged (value × (1 − tolerance), " +
 			"or AL at its minimum × N² for an inductor wound on a core, in the worst case); circuit_impedance = |Z| across the " +
-			"choke at f_low with it removed",
+			"choke at f_low with it removed. A choke on a FET's drain (or source) is judged the same way: the drain counts as a collector (docs/fet.md).",
 		Source: "common practice, no published source (the arithmetic: a shunt reactance of ten times a node's impedance " +
 			"lowers it by 0.5 %)",
 		Fix: "The minimum inductance, rounded up to E12, as a nominal value that meets the ratio at the case judged; " +

@@ -18,7 +18,7 @@ var DecouplingReactance = &engine.Rule{
 			"a supply with a low source impedance) needs no help and is not judged.",
 		Formula: "X = 1/(2π·f_low·C) (C as for coupling.reactance); X <= max_fraction × circuit_impedance, circuit_impedance = |Z| " +
 			"across the capacitor at f_low with it removed; not judged where circuit_impedance < min_ohms. " +
-			"Decoupling capacitors that share both nets are one group.",
+			"Decoupling capacitors that share both nets are one group. A FET's decoupled drain feed is judged the same way: the drain counts as a collector (docs/fet.md).",
 		Source: "common practice, no published source for the exact figures (a good AC ground has a reactance of at most a " +
 			"tenth of the resistance it shunts, as in e.g. Malvino and Bates, Electronic Principles; cited from memory)",
 		Fix: "The minimum capacitance, rounded up to E12, as a nominal value that meets the limit at the case judged; " +

@@ -22,7 +22,7 @@ var WindingReactance = &engine.Rule{
 			"is 11 % off and the return loss falls to 12 dB.",
 		Formula: "per transformer, the loaded winding is the one with the smallest termination ÷ turns² (chosen afresh in each case); " +
 			"ω·AL·N² ÷ termination >= min_ratio at f_low, leakage and resistance ignored, AL at its minimum in the worst case; " +
-			"termination = |Z| between the winding's nets at f_low with the whole transformer removed",
+			"termination = |Z| between the winding's nets at f_low with the whole transformer removed. A winding in a FET's drain is judged the same way (docs/fet.md).",
 		Source: "D. G. Fern, \"The Four Times the Impedance Rule for Broadband RF Transformer Windings: Where Does it Originate?\" " +
 			"(GoldSpire Design): reactance at least four times the impedance the winding connects to; such a transformer " +
 			"works within 3 % of an ideal one",
