@@ -48,30 +48,33 @@ const (
 // about an exactly zero pivot (bad scaling is judged by the KCL balance
 // instead).
 type solver struct {
-	nl      *netlist
-	n       int
-	m       *sparseLU // the matrix of the current iteration, and its factors
-	base    []float64 // linear part of the matrix, by m's slots
-	diag    []int     // m's slot of each node's diagonal entry
-	jac     [][9]int  // m's slots of each transistor's nine stamps (-1: gnd)
-	bsrc    []float64 // right-hand side of the sources at full strength
-	a       blas64.General
-	rhs     blas64.General // n×1; holds the solution after a solve
-	piv     []int
-	dense   bool      // the last factorisation was the dense fall-back's
-	x       []float64 // current solution
-	res     []float64 // KCL residual of each net, scratch for balanced
-	mag     []float64 // Σ|current| at each net, scratch for balanced
-	floor   []float64 // what rounding leaves of each net's residual
-	save    []float64
-	saveJ   []float64 // junction state of every transistor, for a step that fails
-	fetSlot [][16]int // m's slots of each FET's stamps (fet.go)
-	saveF   []float64 // the FETs' state, for a step that fails
-	iters   int       // Newton iterations, all attempts of the current method
+	nl    *netlist
+	n     int
+	m     *sparseLU // the matrix of the current iteration, and its factors
+	base  []float64 // linear part of the matrix, by m's slots
+	diag  []int     // m's slot of each node's diagonal entry
+	jac   [][9]int  // m's slots of each transistor's nine stamps (-1: gnd)
+	bsrc  []float64 // right-hand side of the sources at full strength
+	a     blas64.General
+	rhs   blas64.General // n×1; holds the solution after a solve
+	piv   []int
+	dense bool      // the last factorisation was the dense fall-back's
+	x     []float64 // current solution
+	res   []float64 // KCL residual of each net, scratch for balanced
+	mag   []float64 // Σ|current| at each net, scratch for balanced
+	floor []float64 // what rounding leaves of each net's residual
+	save  []float64
+	saveJ []float64 // junction state of every transistor, for a step that fails
+	iters int       // Newton iterations, all attempts of the current method
 	// the unknown with the smallest pivot when the matrix was singular
 	singularAt int
 	// where plain Newton gave up, kept to explain a failure of the fall-backs
 	firstTry []float64
+
+	// The field-effect transistors (fet.go): m's slots of each one's
+	// stamps, and their state for a step that fails.
+	fetSlot [][16]int
+	saveF   []float64
 }
 
 // jacobian lists the (row, column) of a transistor's stamps in the order

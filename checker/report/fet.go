@@ -17,14 +17,19 @@ func (r *Report) fetJSON(e map[string]any, ref string, f *dc.FET, a *ac.Result) 
 		e["gm"] = quantity.Finite(a.FETs[ref].GM)
 	}
 	if r.Ranges != nil {
-		rg := map[string][2]float64{}
-		for _, k := range []string{"id", "vds", "power"} {
-			if v, ok := r.Ranges[ref+"."+k]; ok {
-				rg[k] = [2]float64{quantity.Finite(v[0]), quantity.Finite(v[1])}
-			}
-		}
-		e["ranges"] = rg
+		e["ranges"] = r.rangesOf(ref, "id", "vds", "power")
 	}
+}
+
+// rangesOf is a transistor's "ranges" entry: each key's [lo, hi] over the box.
+func (r *Report) rangesOf(ref string, keys ...string) map[string][2]float64 {
+	rg := map[string][2]float64{}
+	for _, k := range keys {
+		if v, ok := r.Ranges[ref+"."+k]; ok {
+			rg[k] = [2]float64{quantity.Finite(v[0]), quantity.Finite(v[1])}
+		}
+	}
+	return rg
 }
 
 // fetTable is the report's table of field-effect transistors.

@@ -90,13 +90,7 @@ func (r *Report) JSON(w io.Writer) error {
 					e["gm"], e["beta_high"] = quantity.Finite(ac.BJTs[p.Ref].GM), quantity.Finite(ac.BJTs[p.Ref].BetaHigh)
 				}
 				if r.Ranges != nil {
-					rg := map[string][2]float64{}
-					for _, k := range []string{"ic", "vce", "power"} {
-						if v, ok := r.Ranges[p.Ref+"."+k]; ok {
-							rg[k] = [2]float64{quantity.Finite(v[0]), quantity.Finite(v[1])}
-						}
-					}
-					e["ranges"] = rg
+					e["ranges"] = r.rangesOf(p.Ref, "ic", "vce", "power")
 				}
 			}
 		}
