@@ -3,6 +3,7 @@ package rules
 import (
 	"fmt"
 
+	"headroom/checker/circuit"
 	"headroom/checker/engine"
 	"headroom/checker/quantity"
 )
@@ -59,7 +60,7 @@ func runFETRegion(p *engine.Pass) error {
 					quantity.Approx(q.VGS, quantity.Volt), quantity.Approx(q.VP, quantity.Volt), quantity.Approx(minMargin, quantity.Volt))
 			},
 			Fix: "lower the drain resistance or the drain current (a larger source resistor), or raise the supply, so that VDS clears VGS − VP by the margin"})
-		if part.Kind.IsFET() && part.Kind != "dual-gate-mosfet" {
+		if part.Kind != circuit.DualGateMOSFET {
 			gate := max(q.VGS, q.VGS-q.VDS)
 			p.Report(engine.Finding{Part: part.Ref, Bound: "gate",
 				HasMetric: true, Measured: gate, Limit: maxGate, Comparison: "<=", Unit: "V",

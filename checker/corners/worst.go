@@ -274,7 +274,7 @@ func Describe(box []Param, corner map[string]float64) string {
 		}
 		switch {
 		case p.vpFor != nil:
-			parts = append(parts, fmt.Sprintf("%s IDSS %s (VP %s)", strings.TrimSuffix(p.Key, ".idss"),
+			parts = append(parts, fmt.Sprintf("%s IDSS %s (|VP| %s)", strings.TrimSuffix(p.Key, ".idss"),
 				quantity.Format(v, quantity.Ampere), quantity.Format(p.vpFor(v), quantity.Volt)))
 		case strings.HasSuffix(p.Key, ".hfe"):
 			parts = append(parts, fmt.Sprintf("%s hFE %s", strings.TrimSuffix(p.Key, ".hfe"), quantity.Format(v, quantity.Ratio)))
