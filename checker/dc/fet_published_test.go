@@ -175,3 +175,46 @@ func TestPJFETMirrorsClean(t *testing.T) {
 	checkAbs(t, "p-channel VDS (forward sense)", q.VDS, 14, 5e-6)
 	checkAbs(t, "source voltage", solve(t, c).V["s"], -2, 5e-6)
 }
+
+// The channel is symmetric (docs/fet.md): a JFET wired with drain and
+// source exchanged runs with VDS < 0 and must settle at the same node
+// voltages as the part wired the right way round — the clean vector of
+// TBC 2102 Ex 6.15, ID 4 mA, V(s) 2 V, V(d) 16 V.
+func TestJFETReversedIsSymmetric(t *testing.T) {
+	build := func(d, s string) *circuit.Circuit {
+		return newCircuit(25).supply("vdd", 18, 0).res("RD", "vdd", "d", 500).res("RS", "s", "gnd", 500).
+			njfet("Q1", d, "gnd", s, jfetFigures(16e-3, -4)).c
+	}
+	fwd, rev := solve(t, build("d", "s")), solve(t, build("s", "d"))
+	for _, net := range []string{"d", "s"} {
+		checkAbs(t, "reversed part, net "+net, rev.V[net], fwd.V[net], 1e-9)
+	}
+	checkAbs(t, "V(s)", fwd.V["s"], 2, 1e-8)
+	q := rev.FETs["Q1"]
+	checkAbs(t, "reversed part: ID (drain to source, negative)", q.ID, -4e-3, 1e-11)
+	checkAbs(t, "reversed part: VDS", q.VDS, -14, 1e-8)
+}
+
+// A dual gate is the cascode of two identical square-law halves (docs/fet.md):
+// with gate 1 at the source (VG1S = 0), IDSS 10 mA and VP −1 V,
+//   - gate 2 at +4 V lifts the internal node until half 1 saturates: ID is
+//     half 1's IDSS, 10 mA, the sheet's figure, and gm = 2·IDSS/|VP| = 20 mS;
+//   - gate 2 at the source: half 1 in triode at vm, half 2 saturated at
+//     VGS2 = −vm: 2vm − vm² = (1 − vm)² gives vm = 1 − 1/√2 and ID = IDSS/2
+//     exactly (hand algebra, the model's definition).
+func TestDualGateSetsTheGain(t *testing.T) {
+	f := jfetFigures(10e-3, -1)
+	build := func(g2 string) *circuit.Circuit {
+		return newCircuit(25).supply("vdd", 10, 0).supply("vg2", 4, 0).res("RD", "vdd", "d", 10).
+			part(&circuit.Part{Ref: "Q1", Kind: circuit.DualGateMOSFET, FET: f, Nets: []string{"d", "gnd", "gnd", g2}}).c
+	}
+	full := solve(t, build("vg2")).FETs["Q1"]
+	checkAbs(t, "ID at VG2S 4 V", full.ID, 10e-3, 1e-11)
+	checkAbs(t, "gm at VG2S 4 V", full.Jac[0][1], 20e-3, 1e-9)
+	half := solve(t, build("gnd")).FETs["Q1"]
+	checkAbs(t, "ID at VG2S 0 V", half.ID, 5e-3, 1e-11)
+	checkAbs(t, "internal node at VG2S 0 V", half.VM, 1-1/math.Sqrt2, 1e-9)
+	if half.Jac[0][1] >= full.Jac[0][1] {
+		t.Errorf("gm with gate 2 low %g should be below %g", half.Jac[0][1], full.Jac[0][1])
+	}
+}
