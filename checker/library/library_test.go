@@ -268,3 +268,24 @@ func TestParseErrors(t *testing.T) {
 		}
 	}
 }
+
+// rb is optional, zero allowed, and read with the unit of a resistance.
+func TestBaseResistanceOptional(t *testing.T) {
+	l, err := Parse("club.toml", []byte(`[transistors.A]
+polarity = "npn"
+rb = 0
+[transistors.B]
+polarity = "pnp"
+rb = "22ohm"
+[transistors.C]
+polarity = "npn"
+`))
+	if err != nil {
+		t.Fatal(err)
+	}
+	for name, want := range map[string]float64{"A": 0, "B": 22, "C": 0} {
+		if got := l.Transistors[name].RB; got != want {
+			t.Errorf("%s rb = %g, want %g", name, got, want)
+		}
+	}
+}
