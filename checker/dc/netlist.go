@@ -68,8 +68,8 @@ type norton struct {
 // bjt is one transistor with the Newton state of its junctions.
 type bjt struct {
 	ref     string
-	c, b, e int // the junctions' nodes: b is the internal base b' when rb > 0
-	bp      int // the base pin's node (b itself when rb = 0)
+	c, b, e int     // the junctions' nodes: b is the internal base b' when rb > 0
+	bp      int     // the base pin's node (b itself when rb = 0)
 	pol     float64 // +1 NPN, −1 PNP
 	is      float64 // A
 	betaF   float64
