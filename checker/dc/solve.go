@@ -250,7 +250,7 @@ func (q *bjt) operatingPoint(vc, vb, vbp, ve, vt float64) *BJT {
 	vbc := q.pol * (vb - vc)
 	p := q.eval(vbe, vbc, vt)
 	o := &BJT{
-		ICf: p.ic, IBf: p.ib, VBEf: q.pol * (vbp - ve), VCEf: vbe - vbc,
+		ICf: p.ic, IBf: p.ib, VBEf: q.pol * (vbp - ve), VCEf: vbe - vbc, VBJf: vbe,
 		HFE: q.betaF, IS: q.is,
 	}
 	o.IC, o.IB, o.VBE, o.VCE = math.Abs(o.ICf), math.Abs(o.IBf), math.Abs(o.VBEf), math.Abs(o.VCEf)
