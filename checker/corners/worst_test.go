@@ -214,7 +214,9 @@ func TestCornerListsOnlyMovers(t *testing.T) {
 }
 
 // BenchmarkWorst times the worst-case search with every rule of the default
-// set on amplifiers of about 10, 30, 100 and 300 parts.
+// set on amplifiers of about 10, 30, 100 and 300 parts, with transistors
+// without rb and (rb=10) with the library's 10 Ω, which gives each an
+// internal base node.
 func BenchmarkWorst(b *testing.B) {
 	all := rules.All()
 	set, err := (&ruleset.Loader{Rules: all}).Load("default")
@@ -223,8 +225,25 @@ func BenchmarkWorst(b *testing.B) {
 	}
 	cfg := set.Config(all)
 	for _, stages := range []int{2, 5, 16, 50} {
-		c := testCircuit(stages)
-		b.Run(fmt.Sprintf("parts=%d", len(c.Parts)), func(b *testing.B) {
+		for _, rb := range []float64{0, 10} {
+			c := testCircuit(stages)
+			name := fmt.Sprintf("parts=%d", len(c.Parts))
+			if rb > 0 {
+				name += "/rb=10"
+				for _, p := range c.Parts {
+					if p.BJT != nil {
+						p.BJT.RB = rb
+					}
+				}
+			}
+			benchWorst(b, name, c, cfg)
+		}
+	}
+}
+
+func benchWorst(b *testing.B, name string, c *circuit.Circuit, cfg *engine.Config) {
+	{
+		b.Run(name, func(b *testing.B) {
 			topo := topology.Analyze(c)
 			for b.Loop() {
 				if _, err := Worst(c, topo, analysis.Run(c, topo), cfg); err != nil {
