@@ -122,33 +122,6 @@ func TestSmallBaseResistancePNP(t *testing.T) {
 	checkKCL(t, b.c, r, 1e-9)
 }
 
-// gmin and source stepping land on plain Newton's point with rb too.
-func TestFallbacksAgreeWithBaseResistance(t *testing.T) {
-	for name, b := range map[string]*builder{"npn": dividerStage(), "pnp": pnpStage()} {
-		b.c.Part("Q1").BJT.RB = 47
-		want := solve(t, b.c)
-		nl, f := compile(b.c)
-		if f != nil {
-			t.Fatal(f)
-		}
-		for method, run := range map[string]func(*solver) outcome{
-			"gmin": (*solver).gminStepping, "source": (*solver).sourceStepping,
-		} {
-			s := newSolver(nl)
-			if o := run(s); o != converged {
-				t.Errorf("%s %s stepping: outcome %d", name, method, o)
-				continue
-			}
-			got, err := nl.result(b.c, s.x, s.iters, method)
-			if err != nil {
-				t.Fatal(err)
-			}
-			checkRel(t, name+" "+method+" IC", got.BJTs["Q1"].IC, want.BJTs["Q1"].IC, 1e-7)
-			checkKCL(t, b.c, got, 1e-9)
-		}
-	}
-}
-
 // A negative or non-finite rb that reaches Solve (the loader refuses it) is
 // a Failure naming the part, never a panic or a NaN.
 func TestInvalidBaseResistance(t *testing.T) {
