@@ -80,6 +80,7 @@ type Result struct {
 	MaxHz float64
 
 	pen *pencil
+	all []complex128 // every finite pole, both of each pair, unfiltered (tests)
 }
 
 // Least returns the least-damped pole, and false when there is none.
@@ -114,12 +115,11 @@ func Find(c *circuit.Circuit, res *ac.Result) (*Result, error) {
 		return out, nil
 	}
 	w0 := 2 * math.Pi * math.Sqrt(fLo*fHi)
-	lams, a, sigma, err := pen.shiftInvert(w0, false)
+	lams, _, sigma, err := pen.shiftInvert(w0, false)
 	if err != nil {
 		return nil, err
 	}
-	_ = a
-	out.Poles = poles(lams, sigma, w0, out.MaxHz)
+	out.Poles, out.all = poles(lams, sigma, w0, out.MaxHz)
 	return out, nil
 }
 
@@ -137,19 +137,24 @@ func span(c *circuit.Circuit) (float64, float64) {
 // poles turns the shifted-and-inverted eigenvalues back into poles (s in
 // rad/s), drops the infinite ones and those above maxHz, keeps one of each
 // conjugate pair and sorts them least damped first.
-func poles(lams []complex128, sigma, w0, maxHz float64) []Pole {
+func poles(lams []complex128, sigma, w0, maxHz float64) ([]Pole, []complex128) {
 	big := 0.0
 	for _, l := range lams {
 		big = math.Max(big, cmplx.Abs(l))
 	}
 	var out []Pole
+	var all []complex128
 	for _, l := range lams {
 		// λ = 0 is an infinite pole; rounding leaves it at ε·‖A‖.
 		if cmplx.Abs(l) <= 1e-12*big || big == 0 {
 			continue
 		}
 		s := complex(w0, 0) * (complex(sigma, 0) - 1/l)
-		if imag(s) < 0 || cmplx.IsNaN(s) || cmplx.IsInf(s) {
+		if cmplx.IsNaN(s) || cmplx.IsInf(s) {
+			continue
+		}
+		all = append(all, s)
+		if imag(s) < 0 {
 			continue
 		}
 		if cmplx.Abs(s) > 2*math.Pi*maxHz {
@@ -170,7 +175,7 @@ func poles(lams []complex128, sigma, w0, maxHz float64) []Pole {
 		}
 		return real(out[i].S) > real(out[j].S)
 	})
-	return out
+	return out, all
 }
 
 // entry is one contribution g + s·c to row i, column j of the pencil, from
@@ -468,9 +473,6 @@ type Share struct {
 // nullVector is the right (or, transposed, left) eigenvector of the pencil
 // for the eigenvalue nearest s, from a second shift-and-invert with vectors.
 func (p *pencil) nullVector(s complex128, transpose bool) ([]complex128, error) {
-	lo, hi := 0.0, 0.0
-	_ = lo
-	_ = hi
 	w0 := cmplx.Abs(s)
 	if w0 == 0 {
 		w0 = 1
