@@ -32,6 +32,8 @@ func All() []*engine.Rule {
 		NetConnectivity,
 		ResistorPower,
 		SafetyVoltage,
+		StabilityOscillation,
+		StabilityUnconditional,
 		ValuesPreferred,
 		WaiverExpired,
 		WaiverUnused,

@@ -26,72 +26,96 @@ type PortPoint struct {
 // case search for every corner, so each call assembles and factorises afresh
 // and the result holds no memory of it.
 func (r *Result) Ports(f float64) (PortPoint, error) {
+	var p PortPoint
+	err := r.PortsEach([]float64{f}, func(q PortPoint) error { p = q; return nil })
+	return p, err
+}
+
+// PortsEach computes the two-port at each frequency in turn and hands it to
+// fn, reusing one matrix and one set of scratch vectors for all of them (the
+// sparsity pattern is the same at every frequency); nothing is kept after it
+// returns. It stops at the first error, fn's included.
+func (r *Result) PortsEach(freqs []float64, fn func(PortPoint) error) error {
 	nw := r.net
-	p := PortPoint{Frequency: f}
-	if !positive(f) {
-		return p, fmt.Errorf("frequency %g Hz is not a positive finite value", f)
+	tmpl := PortPoint{HasIn: nw.hasIn && nw.inNode != ground, HasOut: nw.hasOut && nw.outNd != ground}
+	if tmpl.HasIn {
+		tmpl.RS = nw.rs
 	}
-	p.HasIn = nw.hasIn && nw.inNode != ground
-	p.HasOut = nw.hasOut && nw.outNd != ground
-	if p.HasIn {
-		p.RS = nw.rs
+	if tmpl.HasOut {
+		tmpl.RL = nw.rl
 	}
-	if p.HasOut {
-		p.RL = nw.rl
-	}
-	if !p.HasIn && !p.HasOut {
-		return p, nil
-	}
-	w := 2 * math.Pi * f
 	n := nw.n
-	lo, hi := make([]int, n), make([]int, n)
-	for i := range n {
-		lo[i], hi[i] = i, i
-	}
 	d := make([][]complex128, len(nw.elems))
-	for i, e := range nw.elems {
-		di, err := e.adm(w)
-		if err != nil {
-			return p, fmt.Errorf("%s at %g Hz: %w", name(e), f, err)
-		}
-		d[i] = di
-		span(lo, hi, e.branches, di)
-	}
-	y := newSparse(n, lo, hi)
-	for i := range n {
-		y.add(i, i, Gmin)
-	}
-	for i, e := range nw.elems {
-		if i != nw.source && i != nw.load {
-			stamp(y, e.branches, d[i], 1)
-		}
-	}
-	fa, err := y.factor()
-	if err != nil {
-		return p, fmt.Errorf("two-port at %g Hz: %w", f, err)
-	}
+	var blank, y *sparse
+	rhs, x := make([]complex128, n), make([]complex128, n)
 	nodes := [2]int{nw.inNode, nw.outNd}
-	has := [2]bool{p.HasIn, p.HasOut}
-	rhs := make([]complex128, n)
-	for j := range 2 {
-		if !has[j] {
+	has := [2]bool{tmpl.HasIn, tmpl.HasOut}
+	for _, f := range freqs {
+		p := tmpl
+		p.Frequency = f
+		if !positive(f) {
+			return fmt.Errorf("frequency %g Hz is not a positive finite value", f)
+		}
+		if !p.HasIn && !p.HasOut {
+			if err := fn(p); err != nil {
+				return err
+			}
 			continue
 		}
-		clear(rhs)
-		rhs[nodes[j]] = 1
-		x := fa.solve(rhs)
-		for i := range 2 {
-			if has[i] {
-				p.Z[i][j] = x[nodes[i]]
+		w := 2 * math.Pi * f
+		for i, e := range nw.elems {
+			di, err := e.adm(w)
+			if err != nil {
+				return fmt.Errorf("%s at %g Hz: %w", name(e), f, err)
+			}
+			d[i] = di
+		}
+		if blank == nil {
+			lo, hi := make([]int, n), make([]int, n)
+			for i := range n {
+				lo[i], hi[i] = i, i
+			}
+			for i, e := range nw.elems {
+				span(lo, hi, e.branches, d[i])
+			}
+			blank = newSparse(n, lo, hi)
+		}
+		y = blank.cloneInto(y)
+		for i := range n {
+			y.add(i, i, Gmin)
+		}
+		for i, e := range nw.elems {
+			if i != nw.source && i != nw.load {
+				stamp(y, e.branches, d[i], 1)
 			}
 		}
-	}
-	for i := range 2 {
+		fa, err := y.factor()
+		if err != nil {
+			return fmt.Errorf("two-port at %g Hz: %w", f, err)
+		}
 		for j := range 2 {
-			if !finite(p.Z[i][j]) {
-				return p, fmt.Errorf("two-port at %g Hz: %w", f, errSingular)
+			if !has[j] {
+				continue
+			}
+			clear(rhs)
+			rhs[nodes[j]] = 1
+			fa.solveInto(x, rhs)
+			for i := range 2 {
+				if has[i] {
+					p.Z[i][j] = x[nodes[i]]
+				}
 			}
 		}
+		for i := range 2 {
+			for j := range 2 {
+				if !finite(p.Z[i][j]) {
+					return fmt.Errorf("two-port at %g Hz: %w", f, errSingular)
+				}
+			}
+		}
+		if err := fn(p); err != nil {
+			return err
+		}
 	}
-	return p, nil
+	return nil
 }

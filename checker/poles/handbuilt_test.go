@@ -204,4 +204,3 @@ func indexOf(s, sub string) int {
 	}
 	return -1
 }
-

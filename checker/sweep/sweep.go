@@ -13,6 +13,7 @@
 package sweep
 
 import (
+	"errors"
 	"fmt"
 	"math"
 	"math/cmplx"
@@ -68,6 +69,8 @@ type Result struct {
 	ReMin, ReMinHz float64
 }
 
+var errNoPort = errors.New("no port")
+
 // Grid is the sweep's frequencies, ascending: PerDecade points per decade
 // from a decade below the band's lowest frequency to twice the highest
 // transistor fT (ten times the band's highest frequency when there is no
@@ -97,12 +100,10 @@ func Run(c *circuit.Circuit, r *ac.Result) (*Result, error) {
 // RunAt sweeps r over the given frequencies.
 func RunAt(r *ac.Result, freqs []float64) (*Result, error) {
 	res := &Result{Points: make([]Point, 0, len(freqs)), MuMin: math.Inf(1), ReMin: math.Inf(1)}
-	for i, f := range freqs {
-		pp, err := r.Ports(f)
-		if err != nil {
-			return nil, err
-		}
-		if i == 0 {
+	first := true
+	err := r.PortsEach(freqs, func(pp ac.PortPoint) error {
+		if first {
+			first = false
 			switch {
 			case pp.HasIn && pp.HasOut:
 				res.TwoPort = true
@@ -111,17 +112,24 @@ func RunAt(r *ac.Result, freqs []float64) (*Result, error) {
 			case pp.HasOut:
 				res.OnePort = "out"
 			default:
-				return res, nil
+				return errNoPort
 			}
 		}
 		pt := point(pp, res.TwoPort, res.OnePort)
 		if res.TwoPort && pt.Mu < res.MuMin {
-			res.MuMin, res.MuMinHz = pt.Mu, f
+			res.MuMin, res.MuMinHz = pt.Mu, pp.Frequency
 		}
 		if re := real(pt.PortZ); re < res.ReMin {
-			res.ReMin, res.ReMinHz = re, f
+			res.ReMin, res.ReMinHz = re, pp.Frequency
 		}
 		res.Points = append(res.Points, pt)
+		return nil
+	})
+	if err == errNoPort {
+		return &Result{}, nil
+	}
+	if err != nil {
+		return nil, err
 	}
 	if math.IsInf(res.MuMin, 1) {
 		res.MuMin = 0
