@@ -67,8 +67,8 @@ func runStabilityUnconditional(p *engine.Pass) error {
 				quantity.Approx(sw.MuMin, quantity.Ratio), quantity.Approx(sw.MuMinHz, quantity.Hertz),
 				quantity.Approx(at.K, quantity.Ratio), quantity.Approx(at.Delta, quantity.Ratio), quantity.Approx(minMu, quantity.Ratio))
 			if lo > 0 {
-				msg += fmt.Sprintf("; μ is below %s from %s to %s: some passive source or load there makes the stage oscillate",
-					quantity.Approx(minMu, quantity.Ratio), quantity.Approx(lo, quantity.Hertz), quantity.Approx(hi, quantity.Hertz))
+				msg += fmt.Sprintf("; μ is below %s %s: some passive source or load there makes the stage oscillate",
+					quantity.Approx(minMu, quantity.Ratio), rangeText(lo, hi))
 				msg += noRBNote(c)
 			}
 			return msg
@@ -88,8 +88,8 @@ func runStabilityUnconditional(p *engine.Pass) error {
 			msg := fmt.Sprintf("one port only (%s): the least resistance looking into it over the sweep is %s at %s",
 				port.Name, quantity.Approx(sw.ReMin, quantity.Ohm), quantity.Approx(sw.ReMinHz, quantity.Hertz))
 			if lo > 0 {
-				msg += fmt.Sprintf("; it is negative from %s to %s: a reactive termination there makes the stage oscillate",
-					quantity.Approx(lo, quantity.Hertz), quantity.Approx(hi, quantity.Hertz))
+				msg += fmt.Sprintf("; it is negative %s: a reactive termination there makes the stage oscillate",
+					rangeText(lo, hi))
 				msg += noRBNote(c)
 			}
 			return msg
@@ -122,4 +122,12 @@ func failRange(sw *sweep.Result, bad func(sweep.Point) bool) (float64, float64) 
 		}
 	}
 	return lo, hi
+}
+
+// rangeText is "from 32.4 MHz to 102 MHz", or "at 34.3 MHz" for one point.
+func rangeText(lo, hi float64) string {
+	if lo == hi {
+		return "at " + quantity.Approx(lo, quantity.Hertz)
+	}
+	return "from " + quantity.Approx(lo, quantity.Hertz) + " to " + quantity.Approx(hi, quantity.Hertz)
 }

@@ -195,7 +195,7 @@ func stabilityFix(p *engine.Pass, order []*circuit.Part, judge stableJudge, marg
 			"look for the feedback path (a coupling or supply loop, an unbypassed emitter, a tank on both sides) and break it."
 	}
 	return "Add " + strings.Join(out, "; or ") + ". Each was put into the circuit and the whole case analysed again " +
-		"(DC, poles and sweep) before it is offered; place it at the transistor's pin."
+		"(DC, poles and sweep) before it is offered. A stopper belongs right at the transistor's base pin."
 }
 
 // firstPassing finds the first candidate (they are ordered weakest first)
