@@ -182,3 +182,46 @@ func TestGrid(t *testing.T) {
 		}
 	}
 }
+
+// TestMuAgreesWithKAndDelta: μ > 1 alone is equivalent to K > 1 with
+// |Δ| < 1 (REFERENCES-2 §1.1, Edwards–Sinsky), and μ > 1 ⇔ μ' > 1; checked on
+// every point of the shipped examples' sweeps and of the hybrid-π two-port
+// over rb and frequency.
+func TestMuAgreesWithKAndDelta(t *testing.T) {
+	check := func(where string, s [2][2]complex128) {
+		mu, mup, k, d := Figures(s)
+		if math.Abs(mu-1) < 1e-9 || math.Abs(k-1) < 1e-9 || math.Abs(d-1) < 1e-9 {
+			return // on a boundary: rounding decides
+		}
+		if (mu > 1) != (k > 1 && d < 1) || (mu > 1) != (mup > 1) {
+			t.Errorf("%s: μ %g μ' %g K %g |Δ| %g", where, mu, mup, k, d)
+		}
+	}
+	files, _ := filepath.Glob("../../testdata/circuits/*.toml")
+	n := 0
+	for _, f := range files {
+		c, err := circuit.Load(f, circuit.Options{})
+		if err != nil {
+			t.Fatal(err)
+		}
+		r, err := Run(c, analysis.Run(c, nil).AC)
+		if err != nil {
+			t.Fatal(err)
+		}
+		for _, p := range r.Points {
+			if r.TwoPort {
+				check(f, p.S)
+				n++
+			}
+		}
+	}
+	for _, rb := range []float64{0, 3, 10, 30, 100} {
+		for f := 1e5; f < 2e9; f *= 1.1 {
+			check("hybrid-π", ToS(hybridPi(f, rb), 50, 50))
+			n++
+		}
+	}
+	if n < 300 {
+		t.Errorf("only %d points", n)
+	}
+}
