@@ -96,7 +96,10 @@ func TestSweepAgainstReference(t *testing.T) {
 			}
 			p := sw.Points[i]
 			rel := func(a, b float64) float64 { return math.Abs(a-b) / math.Max(1, math.Abs(b)) }
-			if rel(p.Mu, mu) > 1e-5 || rel(p.Delta, d) > 1e-5 || (math.Abs(k) < 1e6 && rel(p.K, k) > 1e-5) ||
+			// K divides by |S12·S21|: below about −80 dB of gain through the
+			// two-port its numerator is a difference of near-equal terms and
+			// carries only a few digits in either implementation.
+			if rel(p.Mu, mu) > 1e-5 || rel(p.Delta, d) > 1e-5 || (math.Abs(k) < 1e6 && g > -80 && rel(p.K, k) > 1e-5) ||
 				(p.GainDB != nil && g > -200 && math.Abs(*p.GainDB-g) > 1e-5) {
 				t.Errorf("seed %d at %g Hz: sweep μ %g K %g |Δ| %g gain %v; reference μ %g K %g |Δ| %g gain %g",
 					seed, f, p.Mu, p.K, p.Delta, p.GainDB, mu, k, d, g)
