@@ -40,8 +40,8 @@ var StabilityOscillation = &engine.Rule{
 }
 
 func runStabilityOscillation(p *engine.Pass) error {
-	if p.A.AC == nil {
-		return nil
+	if p.A.AC == nil || len(bjts(p)) == 0 {
+		return nil // a passive network cannot oscillate
 	}
 	r, err := poles.Find(p.Circuit, p.A.AC)
 	if err != nil {
