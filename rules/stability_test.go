@@ -1,6 +1,7 @@
 package rules_test
 
 import (
+	"os"
 	"regexp"
 	"strconv"
 	"strings"
@@ -10,57 +11,16 @@ import (
 	"headroom/rules"
 )
 
-// colpittsSrc is the common-base Colpitts stage of the golden archives
-// (testdata/rules/stability.oscillation-fires.txtar: tank 5.279 MHz, loop
-// gain about 2.5 with RL 4k7), with room for extra parts.
-func colpittsSrc(extra string) string {
-	return `[circuit]
-name = "colpitts"
-band = ["5MHz", "5.5MHz"]
-ambient = "25C"
-
-[supplies.vcc]
-volts = "12V"
-
-[parts]
-R1 = { kind = "resistor", value = "10k", nets = ["vcc", "base"] }
-R2 = { kind = "resistor", value = "4k7", nets = ["base", "gnd"] }
-CB = { kind = "capacitor", value = "100n", nets = ["base", "gnd"] }
-Q1 = { kind = "npn", device = "2N3904", nets = { collector = "coll", base = "BASEPIN", emitter = "emit" } }
-RE = { kind = "resistor", value = "6k8", nets = ["emit", "gnd"] }
-L1 = { kind = "inductor", value = "1u", resistance = "0.5", nets = ["coll", "vcc"] }
-RL = { kind = "resistor", value = "4k7", nets = ["coll", "vcc"] }
-C1 = { kind = "capacitor", value = "1n", nets = ["coll", "emit"] }
-C2 = { kind = "capacitor", value = "10n", nets = ["emit", "gnd"] }
-` + extra
-}
-
-// followerSrc is an emitter follower with a 1 nF emitter load fed from a
-// 1 µH source inductance (the capacitive-load parasitic, REFERENCES-2 §1.3):
-// one port only.
-func followerOscSrc(extra string) string {
-	return `[circuit]
-name = "follower"
-band = ["7MHz", "7.3MHz"]
-ambient = "25C"
-
-[supplies.vcc]
-volts = "12V"
-
-[ports.in]
-net = "src"
-direction = "in"
-impedance = "50"
-
-[parts]
-CC = { kind = "capacitor", value = "100n", nets = ["src", "x"] }
-L1 = { kind = "inductor", value = "1u", nets = ["x", "base"] }
-R1 = { kind = "resistor", value = "10k", nets = ["vcc", "base"] }
-R2 = { kind = "resistor", value = "10k", nets = ["base", "gnd"] }
-Q1 = { kind = "npn", device = "2N3904", nets = { collector = "vcc", base = "BASEPIN", emitter = "emit" } }
-RE = { kind = "resistor", value = "470", nets = ["emit", "gnd"] }
-CE = { kind = "capacitor", value = "1n", nets = ["emit", "gnd"] }
-` + extra
+// stabStage returns a filler for a circuit template of testdata/stability
+// (shared with checker/poles): the net Q1's base pin is on, and extra parts.
+func stabStage(t *testing.T, name string) func(base, extra string) string {
+	b, err := os.ReadFile("../testdata/stability/" + name + ".toml.in")
+	if err != nil {
+		t.Fatal(err)
+	}
+	return func(base, extra string) string {
+		return strings.NewReplacer("{{BASE}}", base, "{{EXTRA}}", extra, "{{FEEDBACK}}", "emit", "{{RLOAD}}", "4k7").Replace(string(b))
+	}
 }
 
 var (
@@ -81,12 +41,12 @@ func failingOne(t *testing.T, fs []engine.Finding) *engine.Finding {
 // withAdvice builds the circuit text the advice describes: a stopper as a
 // resistor from the base net to a new pin net, a swamping resistor between
 // two nets.
-func withStopper(src func(string) string, v string) string {
-	return strings.Replace(src(`RX = { kind = "resistor", value = "`+v+`", nets = ["base", "pin"] }`), "BASEPIN", "pin", 1)
+func withStopper(src func(string, string) string, v string) string {
+	return src("pin", `RX = { kind = "resistor", value = "`+v+`", nets = ["base", "pin"] }`)
 }
 
-func withSwampR(src func(string) string, v, a, b string) string {
-	return strings.Replace(src(`RX = { kind = "resistor", value = "`+v+`", nets = ["`+a+`", "`+b+`"] }`), "BASEPIN", "base", 1)
+func withSwampR(src func(string, string) string, v, a, b string) string {
+	return src("base", `RX = { kind = "resistor", value = "`+v+`", nets = ["`+a+`", "`+b+`"] }`)
 }
 
 func half(v string) string {
@@ -105,9 +65,9 @@ func half(v string) string {
 func TestOscillationFixesHold(t *testing.T) {
 	for _, c := range []struct {
 		name string
-		src  func(string) string
-	}{{"colpitts", colpittsSrc}, {"follower", followerOscSrc}} {
-		base := strings.Replace(c.src(""), "BASEPIN", "base", 1)
+		src  func(string, string) string
+	}{{"colpitts", stabStage(t, "colpitts")}, {"follower", stabStage(t, "follower")}} {
+		base := c.src("base", "")
 		f := failingOne(t, judgeRule(t, rules.StabilityOscillation, base, nil, false))
 		if f == nil {
 			t.Fatalf("%s: no growing pole", c.name)
@@ -146,7 +106,8 @@ func TestOscillationFixesHold(t *testing.T) {
 // below fT, −ωT/(ω²·CE)) for any base stopper up to 1 kΩ, and its collector
 // sits on the supply: the rule says no stopper or swamping resistor helps.
 func TestUnconditionalOnePort(t *testing.T) {
-	base := strings.Replace(ceInductiveSrc(""), "BASEPIN", "base", 1)
+	ce := stabStage(t, "ce-inductive")
+	base := ce("base", "")
 	f := failingOne(t, judgeRule(t, rules.StabilityUnconditional, base, nil, false))
 	if f == nil || f.Unit != "ohm" || f.Part != "in" || f.Measured >= 0 || f.Limit != 0 || f.AtHz <= 0 {
 		t.Fatalf("finding %+v", f)
@@ -155,13 +116,13 @@ func TestUnconditionalOnePort(t *testing.T) {
 	applied := 0
 	if m := stopperRe.FindStringSubmatch(f.Fix); m != nil {
 		applied++
-		if g := failingOne(t, judgeRule(t, rules.StabilityUnconditional, withStopper(ceInductiveSrc, m[1]+m[2]), nil, false)); g != nil {
+		if g := failingOne(t, judgeRule(t, rules.StabilityUnconditional, withStopper(ce, m[1]+m[2]), nil, false)); g != nil {
 			t.Errorf("stopper %s%s leaves %s", m[1], m[2], g.Message)
 		}
 	}
 	if m := swampRe.FindStringSubmatch(f.Fix); m != nil {
 		applied++
-		if g := failingOne(t, judgeRule(t, rules.StabilityUnconditional, withSwampR(ceInductiveSrc, m[1]+m[2], m[3], m[4]), nil, false)); g != nil {
+		if g := failingOne(t, judgeRule(t, rules.StabilityUnconditional, withSwampR(ce, m[1]+m[2], m[3], m[4]), nil, false)); g != nil {
 			t.Errorf("swamp %s%s leaves %s", m[1], m[2], g.Message)
 		}
 	}
@@ -169,38 +130,8 @@ func TestUnconditionalOnePort(t *testing.T) {
 		t.Errorf("no fix offered: %s", f.Fix)
 	}
 
-	f = failingOne(t, judgeRule(t, rules.StabilityUnconditional, strings.Replace(followerOscSrc(""), "BASEPIN", "base", 1), nil, false))
+	f = failingOne(t, judgeRule(t, rules.StabilityUnconditional, stabStage(t, "follower")("base", ""), nil, false))
 	if f == nil || f.Measured >= 0 || !strings.HasPrefix(f.Fix, "No base stopper") {
 		t.Errorf("follower: %+v", f)
 	}
-}
-
-// ceInductiveSrc is a common-emitter stage with an inductive collector
-// load and an in port only: the collector–base capacitance feeds the
-// inductive load back as a negative input resistance (REFERENCES-2 §1.3:
-// 2N3904 at 10 mA with 1 µH at 14 MHz gives −23.6 Ω at the base with rb 0,
-// and a 47 Ω stopper turns it positive).
-func ceInductiveSrc(extra string) string {
-	return `[circuit]
-name = "ce, inductive load"
-band = ["14MHz", "14.35MHz"]
-ambient = "25C"
-
-[supplies.vcc]
-volts = "12V"
-
-[ports.in]
-net = "src"
-direction = "in"
-impedance = "50"
-
-[parts]
-C1 = { kind = "capacitor", value = "100n", nets = ["src", "base"] }
-R1 = { kind = "resistor", value = "10k", nets = ["vcc", "base"] }
-R2 = { kind = "resistor", value = "2k2", nets = ["base", "gnd"] }
-Q1 = { kind = "npn", device = "2N3904", nets = { collector = "coll", base = "BASEPIN", emitter = "emit" } }
-RE = { kind = "resistor", value = "120", nets = ["emit", "gnd"] }
-CE = { kind = "capacitor", value = "100n", nets = ["emit", "gnd"] }
-L1 = { kind = "inductor", value = "1u", resistance = "0.2", nets = ["coll", "vcc"] }
-` + extra
 }

@@ -3,6 +3,8 @@ package poles
 import (
 	"math"
 	"math/cmplx"
+	"os"
+	"strings"
 	"testing"
 
 	"headroom/checker/analysis"
@@ -36,34 +38,32 @@ func find(t testing.TB, cs *analysis.Case) *Result {
 	return r
 }
 
-// colpitts is a common-base Colpitts stage: the base held at AC ground by
-// CB, the tank L1 from the collector to the supply, C1 from the collector to
-// the emitter and C2 from the emitter to gnd feeding back. Tank frequency
-// 1/(2π·√(L1·C1·C2/(C1 + C2))) = 5.542 MHz (1 µH, 1 nF in series with
-// 4.7 nF = 824.6 pF). The feedback-broken variant moves C1 to gnd.
-const colpitts = `
-[circuit]
-name = "colpitts"
-band = ["5MHz", "6MHz"]
-ambient = "25C"
+// template reads a circuit template of testdata/stability and fills it in:
+// kv holds name, value pairs; names left over read as the plain stage (base
+// net "base", nothing extra).
+func template(t testing.TB, name string, kv ...string) string {
+	t.Helper()
+	b, err := os.ReadFile("../../testdata/stability/" + name + ".toml.in")
+	if err != nil {
+		t.Fatal(err)
+	}
+	var pairs []string
+	for i := 0; i+1 < len(kv); i += 2 {
+		pairs = append(pairs, "{{"+kv[i]+"}}", kv[i+1])
+	}
+	pairs = append(pairs, "{{BASE}}", "base", "{{EXTRA}}", "")
+	return strings.NewReplacer(pairs...).Replace(string(b))
+}
 
-[supplies.vcc]
-volts = "12V"
-
-[parts]
-R1 = { kind = "resistor", value = "10k", nets = ["vcc", "base"] }
-R2 = { kind = "resistor", value = "4k7", nets = ["base", "gnd"] }
-CB = { kind = "capacitor", value = "100n", nets = ["base", "gnd"] }
-Q1 = { kind = "npn", device = "2N3904", nets = { collector = "coll", base = "base", emitter = "emit" } }
-RE = { kind = "resistor", value = "6k8", nets = ["emit", "gnd"] }
-L1 = { kind = "inductor", value = "1u", resistance = "0.5", nets = ["coll", "vcc"] }
-RL = { kind = "resistor", value = "RLOAD", nets = ["coll", "vcc"] }
-C1 = { kind = "capacitor", value = "1n", nets = ["coll", "FEEDBACK"] }
-C2 = { kind = "capacitor", value = "10n", nets = ["emit", "gnd"] }
-`
+// colpitts is testdata/stability/colpitts.toml.in: a common-base Colpitts
+// stage, tank 5.279 MHz, with the feedback capacitor C1 to feedback and the
+// tank loaded by RL = rload.
+func colpitts(t testing.TB, feedback, rload string) string {
+	return template(t, "colpitts", "FEEDBACK", feedback, "RLOAD", rload)
+}
 
 func TestColpittsOscillatesAtTank(t *testing.T) {
-	cs := analyse(t, replace(replace(colpitts, "FEEDBACK", "emit"), "RLOAD", "4k7"), nil)
+	cs := analyse(t, colpitts(t, "emit", "4k7"), nil)
 	r := find(t, cs)
 	g := r.Growing()
 	if len(g) == 0 {
@@ -91,7 +91,7 @@ func TestColpittsOscillatesAtTank(t *testing.T) {
 }
 
 func TestColpittsBrokenFeedbackIsStable(t *testing.T) {
-	cs := analyse(t, replace(replace(colpitts, "FEEDBACK", "gnd"), "RLOAD", "4k7"), nil)
+	cs := analyse(t, colpitts(t, "gnd", "4k7"), nil)
 	r := find(t, cs)
 	if g := r.Growing(); len(g) > 0 {
 		t.Fatalf("growing pole %+v with the feedback broken", g)
@@ -99,37 +99,13 @@ func TestColpittsBrokenFeedbackIsStable(t *testing.T) {
 	t.Logf("least damped %+v", r.Poles[0])
 }
 
-// follower is an emitter follower driving a capacitive load (CE 1 nF) from
-// an inductive source (L1 1 µH in series with the 50 Ω port): the
-// capacitive emitter load reflects a negative resistance into the base,
-// about −ωT/(ω²·CE) where β(f) ≫ 1 (REFERENCES-2 §1.1), which the source
-// inductance tunes.
-const follower = `
-[circuit]
-name = "follower"
-band = ["7MHz", "7.3MHz"]
-ambient = "25C"
-
-[supplies.vcc]
-volts = "12V"
-
-[ports.in]
-net = "src"
-direction = "in"
-impedance = "50"
-
-[parts]
-CC = { kind = "capacitor", value = "100n", nets = ["src", "x"] }
-L1 = { kind = "inductor", value = "1u", nets = ["x", "base"] }
-R1 = { kind = "resistor", value = "10k", nets = ["vcc", "base"] }
-R2 = { kind = "resistor", value = "10k", nets = ["base", "gnd"] }
-Q1 = { kind = "npn", device = "2N3904", nets = { collector = "vcc", base = "base", emitter = "emit" } }
-RE = { kind = "resistor", value = "470", nets = ["emit", "gnd"] }
-CE = { kind = "capacitor", value = "1n", nets = ["emit", "gnd"] }
-`
+// follower is testdata/stability/follower.toml.in: an emitter follower
+// driving a capacitive load (CE 1 nF) from an inductive source (1 µH in
+// series with the 50 Ω port).
+func follower(t testing.TB) string { return template(t, "follower") }
 
 func TestFollowerCapacitiveLoadOscillates(t *testing.T) {
-	r := find(t, analyse(t, follower, nil))
+	r := find(t, analyse(t, follower(t), nil))
 	g := r.Growing()
 	if len(g) == 0 {
 		t.Fatalf("no growing pole; poles %+v", r.Poles)
@@ -142,7 +118,7 @@ func TestFollowerCapacitiveLoadOscillates(t *testing.T) {
 		rb     float64
 		stable bool
 	}{{10, false}, {10 + 470, true}} {
-		r = find(t, analyse(t, follower, map[string]float64{"Q1": c.rb}))
+		r = find(t, analyse(t, follower(t), map[string]float64{"Q1": c.rb}))
 		if got := len(r.Growing()) == 0; got != c.stable {
 			t.Errorf("rb %g Ω: stable %v, want %v (poles %+v)", c.rb, got, c.stable, r.Poles[:2])
 		}
@@ -182,25 +158,4 @@ C1 = { kind = "capacitor", value = "1n", nets = ["b", "gnd"] }
 	if len(got) != 1 || cmplx.Abs(got[0].S-want) > 1e-6*cmplx.Abs(want) {
 		t.Fatalf("poles %+v, want one at %v", r.Poles, want)
 	}
-}
-
-func replace(s, old, new string) string {
-	out := ""
-	for {
-		i := indexOf(s, old)
-		if i < 0 {
-			return out + s
-		}
-		out += s[:i] + new
-		s = s[i+len(old):]
-	}
-}
-
-func indexOf(s, sub string) int {
-	for i := 0; i+len(sub) <= len(s); i++ {
-		if s[i:i+len(sub)] == sub {
-			return i
-		}
-	}
-	return -1
 }
