@@ -166,23 +166,36 @@ func collectorLoad(c *circuit.Circuit, q *circuit.Part) (a, b, name string, ok b
 func stabilityFix(p *engine.Pass, order []*circuit.Part, judge stableJudge, margin func(r float64, stopper bool) float64) string {
 	c := p.Circuit
 	base := bandGain(p.A)
-	var out []string
+	// A candidate must also keep every transistor's collector current
+	// within maxBiasShift of the case's: a fix that moves the bias trades
+	// one problem for another.
+	ok := func(d *circuit.Circuit) bool {
+		cs := analysis.Run(d, nil)
+		return cs.AC != nil && judge(cs) && biasKept(p.A, cs)
+	}
+	type option struct {
+		text string
+		cost float64 // dB of gain lost at the band's centre (0 when unknown)
+	}
+	var out []option
 	for _, q := range order {
 		if len(q.Nets) != 3 {
 			continue
 		}
-		var opts []string
-		stop := func(r float64) bool { d, _, _ := withStopper(c, q.Ref, r); return passes(d, judge) }
-		if r, ok := firstPassing(stopperValues, stop, func(r float64) float64 { return margin(r, true) }); ok {
+		var opts []option
+		stop := func(r float64) bool { d, _, _ := withStopper(c, q.Ref, r); return ok(d) }
+		if r, found := firstPassing(stopperValues, stop, func(r float64) float64 { return margin(r, true) }); found {
 			d, ref, net := withStopper(c, q.Ref, r)
-			opts = append(opts, fmt.Sprintf("a %s base stopper %s in series with %s's base (from net %s to %s's base pin, on a new net %s), %s",
-				quantity.Approx(r, quantity.Ohm), ref, q.Ref, q.Nets[1], q.Ref, net, gainCost(base, d)))
+			text, cost := gainCost(base, d)
+			opts = append(opts, option{fmt.Sprintf("a %s base stopper %s in series with %s's base (from net %s to %s's base pin, on a new net %s), %s",
+				quantity.Approx(r, quantity.Ohm), ref, q.Ref, q.Nets[1], q.Ref, net, text), cost})
 		}
-		if a, b, name, ok := collectorLoad(c, q); ok {
-			swamp := func(r float64) bool { return passes(withSwamp(c, a, b, r), judge) }
-			if r, ok := firstPassing(swampValues, swamp, func(r float64) float64 { return margin(r, false) }); ok {
-				opts = append(opts, fmt.Sprintf("a %s swamping resistor across %s's collector load %s (between nets %s and %s), %s",
-					quantity.Approx(r, quantity.Ohm), q.Ref, name, a, b, gainCost(base, withSwamp(c, a, b, r))))
+		if a, b, name, found := collectorLoad(c, q); found {
+			swamp := func(r float64) bool { return ok(withSwamp(c, a, b, r)) }
+			if r, found := firstPassing(swampValues, swamp, func(r float64) float64 { return margin(r, false) }); found {
+				text, cost := gainCost(base, withSwamp(c, a, b, r))
+				opts = append(opts, option{fmt.Sprintf("a %s swamping resistor across %s's collector load %s (between nets %s and %s), %s",
+					quantity.Approx(r, quantity.Ohm), q.Ref, name, a, b, text), cost})
 			}
 		}
 		if len(opts) > 0 {
@@ -191,11 +204,43 @@ func stabilityFix(p *engine.Pass, order []*circuit.Part, judge stableJudge, marg
 		}
 	}
 	if len(out) == 0 {
-		return "No base stopper up to 1 kohm and no swamping resistor down to 10 ohm makes the stage stable at this case: " +
-			"look for the feedback path (a coupling or supply loop, an unbypassed emitter, a tank on both sides) and break it."
+		return "No base stopper up to 1 kohm and no swamping resistor down to 10 ohm makes the stage stable at this case " +
+			"without moving its bias: look for the feedback path (a coupling or supply loop, an unbypassed emitter, a tank " +
+			"on both sides) and break it."
 	}
-	return "Add " + strings.Join(out, "; or ") + ". Each was put into the circuit and the whole case analysed again " +
-		"(DC, poles and sweep) before it is offered. A stopper belongs right at the transistor's base pin."
+	// The cheaper in gain first.
+	if len(out) == 2 && out[1].cost < out[0].cost {
+		out[0], out[1] = out[1], out[0]
+	}
+	texts := make([]string, len(out))
+	for i, o := range out {
+		texts[i] = o.text
+	}
+	return "Add " + strings.Join(texts, "; or ") + ". Each was put into the circuit and the whole case analysed again " +
+		"(DC, poles and sweep) before it is offered, and keeps every collector current within 10 % of the case's. " +
+		"A stopper belongs right at the transistor's base pin."
+}
+
+// maxBiasShift is how far a fix may move a transistor's collector current,
+// as a fraction of the case's.
+const maxBiasShift = 0.1
+
+// biasKept reports whether every transistor of the case cs keeps its
+// collector current within maxBiasShift in got, the case with a fix.
+func biasKept(cs, got *analysis.Case) bool {
+	if cs.OP == nil {
+		return true
+	}
+	if got.OP == nil {
+		return false
+	}
+	for ref, b := range cs.OP.BJTs {
+		n := got.OP.BJTs[ref]
+		if n == nil || math.Abs(n.IC-b.IC) > maxBiasShift*math.Abs(b.IC) {
+			return false
+		}
+	}
+	return true
 }
 
 // firstPassing finds the first candidate (they are ordered weakest first)
@@ -228,12 +273,6 @@ func firstPassing(values []float64, ok func(float64) bool, margin func(float64) 
 	return 0, false
 }
 
-// passes analyses c afresh and judges it.
-func passes(c *circuit.Circuit, judge stableJudge) bool {
-	cs := analysis.Run(c, nil)
-	return cs.AC != nil && judge(cs)
-}
-
 // bandGain is the transducer gain at the band's centre, and its frequency;
 // nil when the circuit has none.
 func bandGain(cs *analysis.Case) *[2]float64 {
@@ -243,20 +282,22 @@ func bandGain(cs *analysis.Case) *[2]float64 {
 	return &[2]float64{*cs.AC.Band[1].GainDB, cs.AC.Band[1].Frequency}
 }
 
-// gainCost states what a fix costs in gain at the band's centre.
-func gainCost(before *[2]float64, c *circuit.Circuit) string {
+// gainCost states what a fix costs in gain at the band's centre, and the
+// cost in dB (0 when it cannot be stated).
+func gainCost(before *[2]float64, c *circuit.Circuit) (string, float64) {
 	after := bandGain(analysis.Run(c, nil))
 	if before == nil || after == nil {
-		return "whose cost in gain is not stated: the circuit has no in and out port"
+		return "whose cost in gain is not stated: the circuit has no in and out port", 0
 	}
 	d := before[0] - after[0]
-	if math.Abs(d) < 0.05 {
-		return "which costs less than 0.1 dB of gain at " + quantity.Approx(before[1], quantity.Hertz)
+	at := quantity.Approx(before[1], quantity.Hertz)
+	switch {
+	case math.Abs(d) < 0.05:
+		return "which costs less than 0.05 dB of gain at " + at, d
+	case d < 0:
+		return fmt.Sprintf("which adds %s dB of gain at %s", quantity.Approx(-d, quantity.Ratio), at), d
 	}
-	if d < 0 {
-		return fmt.Sprintf("which adds %s dB of gain at %s", quantity.Approx(-d, quantity.Ratio), quantity.Approx(before[1], quantity.Hertz))
-	}
-	return fmt.Sprintf("which costs %s dB of gain at %s", quantity.Approx(d, quantity.Ratio), quantity.Approx(before[1], quantity.Hertz))
+	return fmt.Sprintf("which costs %s dB of gain at %s", quantity.Approx(d, quantity.Ratio), at), d
 }
 
 // sweepOf and polesOf analyse a case, reporting false when they cannot.
