@@ -61,4 +61,30 @@ func TestPencilAgreesWithBand(t *testing.T) {
 		}
 		t.Logf("%s: %d unknowns, least damped %+v", filepath.Base(f), pr.pen.n, pr.Poles[:min(3, len(pr.Poles))])
 	}
+	// rb on both sides: the stability templates with rb 0 and 33 Ω set in
+	// Go (the pencil's b' node against the band analysis's).
+	for _, name := range []string{"colpitts", "follower", "ce-inductive"} {
+		for _, rb := range []float64{0, 33} {
+			cs := analyse(t, template(t, name, "FEEDBACK", "emit", "RLOAD", "4k7"), map[string]float64{"Q1": rb})
+			pr := find(t, cs)
+			for _, hz := range []float64{2e5, 7e6, 55e6, 400e6} {
+				for _, net := range cs.Circuit.Nets() {
+					if pr.pen.node[net] == ground {
+						continue
+					}
+					want, err := cs.AC.Impedance(hz, net, circuit.Gnd)
+					if err != nil {
+						t.Fatal(err)
+					}
+					got, err := pr.Impedance(complex(0, 2*math.Pi*hz), net)
+					if err != nil {
+						t.Fatal(err)
+					}
+					if d := cmplx.Abs(got[0][0] - want); d > 1e-7*cmplx.Abs(want)+1e-9 {
+						t.Errorf("%s rb %g %s at %g Hz: pencil %v, band analysis %v", name, rb, net, hz, got[0][0], want)
+					}
+				}
+			}
+		}
+	}
 }
