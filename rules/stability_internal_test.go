@@ -35,3 +35,14 @@ func TestE12Candidates(t *testing.T) {
 		t.Errorf("swamps %v", swampValues)
 	}
 }
+
+// TestWithArticle: English articles before numbers read aloud (common
+// practice, no published source).
+func TestWithArticle(t *testing.T) {
+	for v, want := range map[string]string{"82 ohm": "an", "8.2 kohm": "an", "18 ohm": "an", "180 ohm": "a",
+		"1 kohm": "a", "11 ohm": "an", "1.8 kohm": "a", "560 ohm": "a"} {
+		if got := withArticle(v); got != want+" "+v {
+			t.Errorf("%q: %q", v, got)
+		}
+	}
+}

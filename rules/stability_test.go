@@ -24,8 +24,8 @@ func stabStage(t *testing.T, name string) func(base, extra string) string {
 }
 
 var (
-	stopperRe = regexp.MustCompile(`a ([0-9.]+) (k?)ohm base stopper`)
-	swampRe   = regexp.MustCompile(`a ([0-9.]+) (k?)ohm swamping resistor across Q1's collector load \S+ \(between nets (\S+) and (\S+)\)`)
+	stopperRe = regexp.MustCompile(`an? ([0-9.]+) (k?)ohm base stopper`)
+	swampRe   = regexp.MustCompile(`an? ([0-9.]+) (k?)ohm swamping resistor across Q1's collector load \S+ \(between nets (\S+) and (\S+)\)`)
 )
 
 func failingOne(t *testing.T, fs []engine.Finding) *engine.Finding {

@@ -187,15 +187,15 @@ func stabilityFix(p *engine.Pass, order []*circuit.Part, judge stableJudge, marg
 		if r, found := firstPassing(stopperValues, stop, func(r float64) float64 { return margin(r, true) }); found {
 			d, ref, net := withStopper(c, q.Ref, r)
 			text, cost := gainCost(base, d)
-			opts = append(opts, option{fmt.Sprintf("a %s base stopper %s in series with %s's base (from net %s to %s's base pin, on a new net %s), %s",
-				quantity.Approx(r, quantity.Ohm), ref, q.Ref, q.Nets[1], q.Ref, net, text), cost})
+			opts = append(opts, option{fmt.Sprintf("%s base stopper %s in series with %s's base (from net %s to %s's base pin, on a new net %s), %s",
+				withArticle(quantity.Approx(r, quantity.Ohm)), ref, q.Ref, q.Nets[1], q.Ref, net, text), cost})
 		}
 		if a, b, name, found := collectorLoad(c, q); found {
 			swamp := func(r float64) bool { return ok(withSwamp(c, a, b, r)) }
 			if r, found := firstPassing(swampValues, swamp, func(r float64) float64 { return margin(r, false) }); found {
 				text, cost := gainCost(base, withSwamp(c, a, b, r))
-				opts = append(opts, option{fmt.Sprintf("a %s swamping resistor across %s's collector load %s (between nets %s and %s), %s",
-					quantity.Approx(r, quantity.Ohm), q.Ref, name, a, b, text), cost})
+				opts = append(opts, option{fmt.Sprintf("%s swamping resistor across %s's collector load %s (between nets %s and %s), %s",
+					withArticle(quantity.Approx(r, quantity.Ohm)), q.Ref, name, a, b, text), cost})
 			}
 		}
 		if len(opts) > 0 {
@@ -309,4 +309,18 @@ func sweepOf(cs *analysis.Case) (*sweep.Result, bool) {
 func polesOf(cs *analysis.Case) (*poles.Result, bool) {
 	r, err := poles.Find(cs.Circuit, cs.AC)
 	return r, err == nil
+}
+
+// withArticle puts "a" or "an" before a value as it is read aloud: "an 82
+// ohm", "an 18 ohm", "an 11 kohm", "a 180 ohm".
+func withArticle(v string) string {
+	digits := strings.IndexFunc(v, func(r rune) bool { return (r < '0' || r > '9') && r != '.' })
+	if digits < 0 {
+		digits = len(v)
+	}
+	n := v[:digits]
+	if strings.HasPrefix(n, "8") || n == "11" || n == "18" || strings.HasPrefix(n, "11.") || strings.HasPrefix(n, "18.") {
+		return "an " + v
+	}
+	return "a " + v
 }
