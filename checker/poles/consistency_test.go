@@ -1,6 +1,7 @@
 package poles
 
 import (
+	"fmt"
 	"math"
 	"math/cmplx"
 	"path/filepath"
@@ -41,24 +42,7 @@ func TestPencilAgreesWithBand(t *testing.T) {
 		if err != nil {
 			t.Fatalf("%s: %v", f, err)
 		}
-		for _, hz := range []float64{1e5, 3.3e6, cs.Circuit.Band[0], 47e6, 210e6} {
-			for _, net := range cs.Circuit.Nets() {
-				if pr.pen.node[net] == ground {
-					continue
-				}
-				want, err := cs.AC.Impedance(hz, net, circuit.Gnd)
-				if err != nil {
-					t.Fatal(err)
-				}
-				got, err := pr.Impedance(complex(0, 2*math.Pi*hz), net)
-				if err != nil {
-					t.Fatal(err)
-				}
-				if d := cmplx.Abs(got[0][0] - want); d > 1e-7*cmplx.Abs(want)+1e-9 {
-					t.Errorf("%s %s at %g Hz: pencil %v, band analysis %v", filepath.Base(f), net, hz, got[0][0], want)
-				}
-			}
-		}
+		agree(t, filepath.Base(f), cs, pr, 1e5, 3.3e6, cs.Circuit.Band[0], 47e6, 210e6)
 		t.Logf("%s: %d unknowns, least damped %+v", filepath.Base(f), pr.pen.n, pr.Poles[:min(3, len(pr.Poles))])
 	}
 	// rb on both sides: the stability templates with rb 0 and 33 Ω set in
@@ -67,23 +51,30 @@ func TestPencilAgreesWithBand(t *testing.T) {
 		for _, rb := range []float64{0, 33} {
 			cs := analyse(t, template(t, name, "FEEDBACK", "emit", "RLOAD", "4k7"), map[string]float64{"Q1": rb})
 			pr := find(t, cs)
-			for _, hz := range []float64{2e5, 7e6, 55e6, 400e6} {
-				for _, net := range cs.Circuit.Nets() {
-					if pr.pen.node[net] == ground {
-						continue
-					}
-					want, err := cs.AC.Impedance(hz, net, circuit.Gnd)
-					if err != nil {
-						t.Fatal(err)
-					}
-					got, err := pr.Impedance(complex(0, 2*math.Pi*hz), net)
-					if err != nil {
-						t.Fatal(err)
-					}
-					if d := cmplx.Abs(got[0][0] - want); d > 1e-7*cmplx.Abs(want)+1e-9 {
-						t.Errorf("%s rb %g %s at %g Hz: pencil %v, band analysis %v", name, rb, net, hz, got[0][0], want)
-					}
-				}
+			agree(t, fmt.Sprintf("%s rb %g", name, rb), cs, pr, 2e5, 7e6, 55e6, 400e6)
+		}
+	}
+}
+
+// agree compares the pencil at s = jω with the band analysis's impedance at
+// every net against gnd, at each frequency.
+func agree(t *testing.T, label string, cs *analysis.Case, pr *Result, freqs ...float64) {
+	t.Helper()
+	for _, hz := range freqs {
+		for _, net := range cs.Circuit.Nets() {
+			if pr.pen.node[net] == ground {
+				continue
+			}
+			want, err := cs.AC.Impedance(hz, net, circuit.Gnd)
+			if err != nil {
+				t.Fatal(err)
+			}
+			got, err := pr.Impedance(complex(0, 2*math.Pi*hz), net)
+			if err != nil {
+				t.Fatal(err)
+			}
+			if d := cmplx.Abs(got[0][0] - want); d > 1e-7*cmplx.Abs(want)+1e-9 {
+				t.Errorf("%s %s at %g Hz: pencil %v, band analysis %v", label, net, hz, got[0][0], want)
 			}
 		}
 	}
