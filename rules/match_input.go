@@ -20,8 +20,9 @@ var MatchInput = &engine.Rule{
 	Doc: engine.Doc{
 		Title: "the input must match its source across the band",
 		Why: "A preamp or buffer is driven from an antenna, a filter or a previous stage designed for one " +
-			"impedance. A mismatch wastes signal, detunes the filter in front and, where the input resistance is " +
-			"negative, warns that the stage may oscillate.",
+			"impedance. A mismatch wastes signal and detunes the filter in front. A negative input resistance is " +
+			"the worst match of all (more power comes back than goes in); whether the stage oscillates is judged " +
+			"by stability.oscillation and stability.unconditional, not here.",
 		Formula: "for an in port not marked matched = false: the smallest return loss −20·log10|Γ|, " +
 			"Γ = (Zin − RS)/(Zin + RS), at the band's lowest, centre and highest frequencies, >= min_db; unit dB. " +
 			"The finding's part is the port's name.",
@@ -29,7 +30,8 @@ var MatchInput = &engine.Rule{
 			"1.92); the 10 dB threshold is common practice, no published source",
 		Fix: "Advice: the input impedance found, at the worst frequency, and what sets it — the branches on the " +
 			"input net that carry most of the input admittance, and at a transistor's base the bias network and " +
-			"the transistor's own input. A negative input resistance is named: the stage may oscillate.",
+			"the transistor's own input. A negative input resistance is named as a poor match, with a pointer to " +
+			"the stability rules.",
 		Params: []engine.Param{
 			{Name: "min_db", Unit: quantity.Ratio, Help: "smallest input return loss over the band, dB"},
 		},
@@ -56,7 +58,8 @@ func runMatchInput(p *engine.Pass) error {
 		port.Name, m, quantity.Approx(b.Frequency, quantity.Hertz),
 		complexOhms(b.InputImpedance), quantity.Approx(port.Impedance, quantity.Ohm), l)
 	if real(b.InputImpedance) < 0 {
-		msg += fmt.Sprintf("; the input resistance is negative (%s): the stage may oscillate",
+		msg += fmt.Sprintf("; the input resistance is negative (%s), a poor match: whether the stage oscillates "+
+			"is judged by stability.oscillation and stability.unconditional",
 			quantity.Approx(real(b.InputImpedance), quantity.Ohm))
 	}
 	f := engine.Finding{Part: port.Name,
@@ -98,7 +101,8 @@ func matchAdvice(p *engine.Pass, port *circuit.Port, b ac.BandPoint) string {
 	fmt.Fprintf(&out, "Zin is %s at %s against the %s source", complexOhms(zin),
 		quantity.Approx(f, quantity.Hertz), quantity.Approx(rs, quantity.Ohm))
 	if real(zin) < 0 {
-		out.WriteString(" — a negative input resistance: the stage may oscillate. The usual causes are a " +
+		out.WriteString(" — a negative input resistance, a poor match (see stability.oscillation and " +
+			"stability.unconditional for whether the stage oscillates). The usual causes are a " +
 			"capacitive load on an emitter (well above the beta cut-off, beta times a capacitive emitter " +
 			"impedance is a negative resistance) and an inductive collector load fed back through the " +
 			"collector–base capacitance; damp it (a small resistor in series with the base or the emitter " +

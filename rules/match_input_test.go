@@ -3,6 +3,7 @@ package rules_test
 import (
 	"math"
 	"math/cmplx"
+	"strings"
 	"testing"
 
 	"headroom/rules"
@@ -89,7 +90,8 @@ nets = ["vcc", "gnd"]
 // form Zb = Zπ + (1 + gm·Zπ)·Ze (FORMAT.md §6: gm = IC/VT, rπ = β/gm,
 // Cπ = gm/(2π·ft) − Cμ) at the internal base, with Cμ, the shipped 10 Ω
 // rb, the divider and C1 around it, gives a negative input resistance; the
-// message says the stage may oscillate.
+// message reports it as a poor match and points to the stability rules, and
+// no longer says the stage may oscillate.
 func TestMatchInputNegativeResistance(t *testing.T) {
 	src := `[circuit]
 name = "6 m follower, capacitive load"
@@ -153,7 +155,8 @@ nets = ["emit", "gnd"]
 	if !within(f.Measured, worst, 0.005) || f.Measured >= 0 {
 		t.Errorf("return loss %g dB, closed form %g dB", f.Measured, worst)
 	}
-	if !contains(f.Message, "negative", "may oscillate") || !contains(f.Fix, "may oscillate") || len(f.Changes) != 0 {
+	if !contains(f.Message, "negative", "poor match", "stability.oscillation") || !contains(f.Fix, "stability.unconditional") ||
+		strings.Contains(f.Message+f.Fix, "may oscillate") || len(f.Changes) != 0 {
 		t.Errorf("message %q fix %q", f.Message, f.Fix)
 	}
 }

@@ -37,6 +37,8 @@ func All() []*engine.Rule {
 		NetConnectivity,
 		ResistorPower,
 		SafetyVoltage,
+		StabilityOscillation,
+		StabilityUnconditional,
 		ValuesPreferred,
 		WaiverExpired,
 		WaiverUnused,

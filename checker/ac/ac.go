@@ -175,6 +175,10 @@ func (r *Result) bandPoint(f float64) (BandPoint, error) {
 	return p, nil
 }
 
+// At is the circuit seen from its ports at any frequency f (Hz), computed as
+// the band points are.
+func (r *Result) At(f float64) (BandPoint, error) { return r.bandPoint(f) }
+
 // returnLoss is −20·log10|(z − rs)/(z + rs)| within ±MaxReturnLossDB.
 func returnLoss(z complex128, rs float64) float64 {
 	num := cmplx.Abs(z - complex(rs, 0))

@@ -55,12 +55,13 @@ type network struct {
 	hasOut bool
 	outNd  int
 	rl     float64 // the out port's impedance RL, Ω
+	load   int     // index in elems of RL to gnd (-1 when the out net is AC ground)
 	gains  bool    // exactly one in and one out port
 }
 
 // build turns a circuit and its operating point into a network.
 func build(c *circuit.Circuit, op *dc.Result) (*network, error) {
-	nw := &network{parts: make(map[string]int, len(c.Parts)), source: -1,
+	nw := &network{parts: make(map[string]int, len(c.Parts)), source: -1, load: -1,
 		elems: make([]element, 0, len(c.Supplies)+len(c.Ports)+len(c.Parts))}
 	acGround := map[string]bool{}
 	for _, s := range c.Supplies {
@@ -97,6 +98,9 @@ func build(c *circuit.Circuit, op *dc.Result) (*network, error) {
 		case p.Direction == "out" && outs == 0:
 			outs++
 			nw.hasOut, nw.outNd, nw.rl = true, node(p.Net), p.Impedance
+			if nw.outNd != ground {
+				nw.load = len(nw.elems)
+			}
 			nw.add("", br, conductance(1/p.Impedance))
 		default:
 			if p.Direction == "in" {

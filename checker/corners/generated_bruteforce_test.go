@@ -40,6 +40,12 @@ func TestGeneratedMatchBruteForce(t *testing.T) {
 		t.Fatal(err)
 	}
 	cfg := set.Config(all)
+	// The stability rules judge a minimum over a frequency sweep (μ) or over
+	// the poles (damping), whose frequency moves with the parameters: not
+	// monotonic, so the search's vertex is not promised to be the worst
+	// (docs/stability.md); and a sweep at each of up to 4096 vertices would
+	// triple this test's time. They are left out of the comparison.
+	cfg.Severity["stability.oscillation"], cfg.Severity["stability.unconditional"] = engine.Off, engine.Off
 	rng := rand.New(rand.NewPCG(16, 2026))
 	srcs := make([]string, *generated)
 	limits := make([]int, *generated)

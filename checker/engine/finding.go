@@ -53,6 +53,9 @@ type Finding struct {
 	// Absolute is the load against the part's absolute rating (margin rules);
 	// above 1 the finding is an error whatever the rule's severity.
 	Absolute float64
+	// AtHz is the frequency the finding is about, Hz (the stability rules:
+	// a growing pole's, or where μ is least); 0 when it is about none.
+	AtHz float64
 
 	Fix     string   // always present on a failing finding
 	Changes []Change // the file edits that make the fix, when it is concrete

@@ -62,6 +62,7 @@ type jsonFinding struct {
 	Limit      *float64           `json:"limit,omitempty"`
 	Comparison string             `json:"comparison,omitempty"`
 	Unit       string             `json:"unit,omitempty"`
+	AtHz       *float64           `json:"at_hz,omitempty"`
 	Corner     map[string]float64 `json:"corner"`
 	Fix        string             `json:"fix"`
 	Changes    []engine.Change    `json:"changes,omitempty"`
@@ -120,6 +121,10 @@ func findingJSON(path string, f engine.Finding) jsonFinding {
 	if f.HasMetric {
 		m, l := quantity.Finite(f.Measured), quantity.Finite(f.Limit)
 		j.Measured, j.Limit, j.Comparison, j.Unit = &m, &l, f.Comparison, f.Unit
+	}
+	if f.AtHz > 0 {
+		hz := quantity.Finite(f.AtHz)
+		j.AtHz = &hz
 	}
 	return j
 }

@@ -47,6 +47,8 @@ type jsonDoc struct {
 	Nets        map[string]float64        `json:"nets"`
 	Parts       map[string]map[string]any `json:"parts"`
 	Band        []jsonBand                `json:"band"`
+	Stability   *jsonStability            `json:"stability,omitempty"`
+	Sweep       []jsonSweep               `json:"sweep,omitempty"`
 }
 
 // JSON writes the report as FORMAT.md §5's document.
@@ -142,6 +144,7 @@ func (r *Report) JSON(w io.Writer) error {
 			doc.Band = append(doc.Band, jb)
 		}
 	}
+	doc.Stability, doc.Sweep = r.stabilityJSON()
 	enc := json.NewEncoder(w)
 	enc.SetIndent("", "  ")
 	enc.SetEscapeHTML(false)

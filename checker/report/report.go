@@ -7,6 +7,8 @@ package report
 import (
 	"headroom/checker/analysis"
 	"headroom/checker/circuit"
+	"headroom/checker/poles"
+	"headroom/checker/sweep"
 )
 
 // Report is everything `report` prints about one circuit.
@@ -16,6 +18,10 @@ type Report struct {
 	// Ranges holds, with worst-case corners, the [lo, hi] of each main figure
 	// over the box, keyed like "Q1.ic" or "band.0.gain_db"; nil for nominal.
 	Ranges map[string][2]float64
+
+	stabDone bool
+	poles    *poles.Result
+	sweep    *sweep.Result
 }
 
 // Quantities are the figures whose range over the box the report shows:

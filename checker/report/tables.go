@@ -108,7 +108,7 @@ func (r *Report) tables() []table {
 		band.rows = append(band.rows, row)
 	}
 	ts = append(ts, band)
-	return ts
+	return append(ts, r.stabilityTables()...)
 }
 
 // partRows gives one row per passive part, and one per transformer winding.

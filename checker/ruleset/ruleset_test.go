@@ -118,6 +118,11 @@ func TestErrorsHavePositions(t *testing.T) {
 		"not toml":      "[rules\n",
 		"missing file":  "extends = \"nowhere.toml\"\n",
 		"negative":      "[rules.\"coupling.reactance\"]\nmax_ohms = -5\n",
+		"min_mu text":   "[rules.\"stability.unconditional\"]\nmin_mu = \"abc\"\n",
+		"min_mu < 0":    "[rules.\"stability.unconditional\"]\nmin_mu = -1\n",
+		"min_mu nan":    "[rules.\"stability.unconditional\"]\nmin_mu = nan\n",
+		"min_mu inf":    "[rules.\"stability.unconditional\"]\nmin_mu = inf\n",
+		"osc param":     "[rules.\"stability.oscillation\"]\nmin_mu = 1\n",
 	} {
 		l := &Loader{Rules: testRules(t), ReadFile: files(map[string]string{"a.toml": text})}
 		_, err := l.Load("a.toml")

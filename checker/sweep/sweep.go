@@ -1,0 +1,230 @@
+// Package sweep is the wide small-signal sweep the stability checks read: the
+// circuit between its in and out ports on a logarithmic grid from a decade
+// below the band to twice the fastest transistor's fT, as S-parameters
+// referred to the ports' own impedances, with the stability figures of each
+// frequency (Edwards–Sinsky μ and μ', Rollett K, |Δ|). Oscillation is seldom
+// in band: a stage that behaves at its three band frequencies can still be
+// potentially unstable a decade above them, where the transistor still has
+// gain and the bias network presents whatever it happens to be.
+//
+// Each frequency is assembled and factorised afresh through ac.Result.Ports,
+// which keeps nothing, so a sweep inside the worst-case search does not grow
+// the band analysis's per-frequency cache.
+package sweep
+
+import (
+	"errors"
+	"fmt"
+	"math"
+	"math/cmplx"
+	"slices"
+
+	"headroom/checker/ac"
+	"headroom/checker/circuit"
+)
+
+// PerDecade is the grid's density: points per decade of frequency.
+const PerDecade = 40
+
+// Cap bounds μ, μ' and K where their denominators vanish (a unilateral or
+// isolated two-port): above it a figure means "as stable as it gets", and
+// the cap keeps every output number finite.
+const Cap = 1e9
+
+// Point is the circuit at one frequency of the sweep.
+type Point struct {
+	Frequency float64 // Hz
+	// S is the scattering matrix referred to RS at the in port (index 0)
+	// and RL at the out port (index 1); only S[0][0] or S[1][1] means
+	// something in the one-port form.
+	S [2][2]complex128
+	// Mu and MuPrime are Edwards–Sinsky's load- and source-side μ, K is
+	// Rollett's stability factor and Delta is |S11·S22 − S12·S21|; all zero
+	// in the one-port form. Mu, MuPrime and K are capped at Cap.
+	Mu, MuPrime, K, Delta float64
+	// GainDB is the transducer gain 20·log10|S21| between RS and RL, nil
+	// in the one-port form or where no signal gets through.
+	GainDB *float64
+	// ReturnLossDB is −20·log10|S11| (the in port, the out port loaded by
+	// RL), within ±ac.MaxReturnLossDB; in the one-port form, of the port
+	// there is against its own impedance.
+	ReturnLossDB float64
+	// PortZ is the impedance looking into the port from its termination
+	// (the in port with the out port loaded; the out port in the one-port
+	// form when there is no in port), Ω.
+	PortZ complex128
+}
+
+// Result is one sweep.
+type Result struct {
+	// TwoPort: the circuit has an in and an out port, neither AC ground, and
+	// μ, K and |Δ| are computed. Otherwise OnePort names the port judged
+	// ("in" or "out"), or is "" when there is none.
+	TwoPort bool
+	OnePort string
+	Points  []Point
+	// MuMin is the least μ over the sweep and MuMinHz where (two-port).
+	MuMin, MuMinHz float64
+	// ReMin is the least Re PortZ over the sweep and ReMinHz where (both forms).
+	ReMin, ReMinHz float64
+}
+
+var errNoPort = errors.New("no port")
+
+// Grid is the sweep's frequencies, ascending: PerDecade points per decade
+// from a decade below the band's lowest frequency to twice the highest
+// transistor fT (ten times the band's highest frequency when there is no
+// transistor, or when that is higher), plus the band's three points.
+func Grid(c *circuit.Circuit) []float64 {
+	lo, hi := c.Band[0]/10, 10*c.Band[1]
+	for _, p := range c.Parts {
+		if p.Kind.IsBJT() && p.BJT != nil && p.BJT.FT > 0 && !math.IsInf(p.BJT.FT, 0) {
+			hi = math.Max(hi, 2*p.BJT.FT)
+		}
+	}
+	n := int(math.Ceil(PerDecade * math.Log10(hi/lo)))
+	fs := make([]float64, 0, n+4)
+	for k := 0; k <= n; k++ {
+		fs = append(fs, lo*math.Pow(hi/lo, float64(k)/float64(n)))
+	}
+	fs = append(fs, c.Band[0], math.Sqrt(c.Band[0]*c.Band[1]), c.Band[1])
+	slices.Sort(fs)
+	return slices.Compact(fs)
+}
+
+// Run sweeps r (the band analysis of c) over Grid(c).
+func Run(c *circuit.Circuit, r *ac.Result) (*Result, error) {
+	return RunAt(r, Grid(c))
+}
+
+// RunAt sweeps r over the given frequencies.
+func RunAt(r *ac.Result, freqs []float64) (*Result, error) {
+	res := &Result{Points: make([]Point, 0, len(freqs)), MuMin: math.Inf(1), ReMin: math.Inf(1)}
+	first := true
+	err := r.PortsEach(freqs, func(pp ac.PortPoint) error {
+		if first {
+			first = false
+			switch {
+			case pp.HasIn && pp.HasOut:
+				res.TwoPort = true
+			case pp.HasIn:
+				res.OnePort = "in"
+			case pp.HasOut:
+				res.OnePort = "out"
+			default:
+				return errNoPort
+			}
+		}
+		pt := point(pp, res.TwoPort, res.OnePort)
+		if res.TwoPort && pt.Mu < res.MuMin {
+			res.MuMin, res.MuMinHz = pt.Mu, pp.Frequency
+		}
+		if re := real(pt.PortZ); re < res.ReMin {
+			res.ReMin, res.ReMinHz = re, pp.Frequency
+		}
+		res.Points = append(res.Points, pt)
+		return nil
+	})
+	if err == errNoPort {
+		return &Result{}, nil
+	}
+	if err != nil {
+		return nil, err
+	}
+	if math.IsInf(res.MuMin, 1) {
+		res.MuMin = 0
+	}
+	if math.IsInf(res.ReMin, 1) {
+		res.ReMin = 0
+	}
+	return res, nil
+}
+
+// point turns one two-port into S-parameters and stability figures.
+func point(pp ac.PortPoint, two bool, one string) Point {
+	pt := Point{Frequency: pp.Frequency}
+	if !two {
+		z, z0 := pp.Z[0][0], pp.RS
+		if one == "out" {
+			z, z0 = pp.Z[1][1], pp.RL
+		}
+		pt.PortZ = z
+		g := (z - complex(z0, 0)) / (z + complex(z0, 0))
+		pt.S[0][0] = g
+		pt.ReturnLossDB = returnLoss(g)
+		return pt
+	}
+	pt.S = ToS(pp.Z, pp.RS, pp.RL)
+	s11, s21 := pt.S[0][0], pt.S[1][0]
+	pt.Mu, pt.MuPrime, pt.K, pt.Delta = Figures(pt.S)
+	pt.ReturnLossDB = returnLoss(s11)
+	if a := cmplx.Abs(s21); a > 0 {
+		g := 20 * math.Log10(a)
+		pt.GainDB = &g
+	}
+	// The in port's impedance with the out port loaded by RL.
+	z := pp.Z
+	pt.PortZ = z[0][0] - z[0][1]*z[1][0]/(z[1][1]+complex(pp.RL, 0))
+	return pt
+}
+
+// ToS converts an open-circuit impedance matrix to S-parameters referred to
+// real r1 at port 1 and r2 at port 2: with z = R^−½·Z·R^−½,
+// S = (z − I)(z + I)⁻¹ (the power-wave definition for real references).
+func ToS(z [2][2]complex128, r1, r2 float64) [2][2]complex128 {
+	a, b := complex(math.Sqrt(r1), 0), complex(math.Sqrt(r2), 0)
+	z11, z12, z21, z22 := z[0][0]/(a*a), z[0][1]/(a*b), z[1][0]/(a*b), z[1][1]/(b*b)
+	d := (z11+1)*(z22+1) - z12*z21
+	return [2][2]complex128{
+		{((z11-1)*(z22+1) - z12*z21) / d, 2 * z12 / d},
+		{2 * z21 / d, ((z11+1)*(z22-1) - z12*z21) / d},
+	}
+}
+
+// Figures returns μ, μ', K and |Δ| of a scattering matrix:
+// Δ = S11·S22 − S12·S21,
+// μ = (1 − |S11|²)/(|S22 − Δ·S11*| + |S12·S21|),
+// μ' = (1 − |S22|²)/(|S11 − Δ·S22*| + |S12·S21|),
+// K = (1 − |S11|² − |S22|² + |Δ|²)/(2·|S12·S21|), each capped at ±Cap.
+func Figures(s [2][2]complex128) (mu, muPrime, k, delta float64) {
+	s11, s12, s21, s22 := s[0][0], s[0][1], s[1][0], s[1][1]
+	d := s11*s22 - s12*s21
+	p := cmplx.Abs(s12 * s21)
+	a11, a22 := sq(cmplx.Abs(s11)), sq(cmplx.Abs(s22))
+	mu = ratio(1-a11, cmplx.Abs(s22-d*cmplx.Conj(s11))+p)
+	muPrime = ratio(1-a22, cmplx.Abs(s11-d*cmplx.Conj(s22))+p)
+	k = ratio(1-a11-a22+sq(cmplx.Abs(d)), 2*p)
+	return mu, muPrime, k, cmplx.Abs(d)
+}
+
+func ratio(num, den float64) float64 {
+	if den == 0 || math.Abs(num) > Cap*den {
+		switch {
+		case num > 0:
+			return Cap
+		case num < 0:
+			return -Cap
+		}
+		return 0
+	}
+	return num / den
+}
+
+func sq(x float64) float64 { return x * x }
+
+// returnLoss is −20·log10|g| within ±ac.MaxReturnLossDB.
+func returnLoss(g complex128) float64 {
+	a := cmplx.Abs(g)
+	if a == 0 || math.IsNaN(a) {
+		return ac.MaxReturnLossDB
+	}
+	return math.Max(-ac.MaxReturnLossDB, math.Min(ac.MaxReturnLossDB, -20*math.Log10(a)))
+}
+
+// String is a one-line summary for test failures.
+func (r *Result) String() string {
+	if r.TwoPort {
+		return fmt.Sprintf("two-port, %d points, μ min %.4g at %.4g Hz", len(r.Points), r.MuMin, r.MuMinHz)
+	}
+	return fmt.Sprintf("one-port %q, %d points, Re Z min %.4g Ω at %.4g Hz", r.OnePort, len(r.Points), r.ReMin, r.ReMinHz)
+}
