@@ -21,6 +21,9 @@ type FET struct {
 	// FT is gm/(2π·Ciss), Hz: where the current gain of the stage with its
 	// drain shorted falls to one (0 when ciss is not given).
 	FT float64
+	// Jac is the DC model's Jacobian at the operating point: rows the
+	// currents into drain, gate and gate 2, columns VDS, VGS and VG2S.
+	Jac [3][3]float64
 }
 
 // fetModel reads a FET's small-signal figures.
@@ -44,7 +47,7 @@ func fetModel(p *circuit.Part, op *dc.Result) (*FET, error) {
 			}
 		}
 	}
-	m := &FET{GM: q.Jac[0][1], GDS: q.Jac[0][0], Cgs: f.Cgs(), Cgd: f.Cgd(), Cds: f.Cds()}
+	m := &FET{GM: q.Jac[0][1], GDS: q.Jac[0][0], Cgs: f.Cgs(), Cgd: f.Cgd(), Cds: f.Cds(), Jac: q.Jac}
 	if f.Ciss > 0 {
 		m.FT = m.GM / (2 * math.Pi * f.Ciss)
 	}

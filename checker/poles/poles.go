@@ -324,6 +324,8 @@ func (p *pencil) part(part *circuit.Part, res *ac.Result, nd func(string) int) e
 		}
 	case circuit.NPN, circuit.PNP:
 		return p.bjt(part, res, nd)
+	case circuit.NJFET, circuit.PJFET, circuit.DualGateMOSFET:
+		return p.fet(part, res, nd)
 	default:
 		return fmt.Errorf("kind %q has no small-signal model", part.Kind)
 	}
@@ -368,6 +370,35 @@ func (p *pencil) bjt(part *circuit.Part, res *ac.Result, nd func(string) int) er
 	p.add(c, e, -h.GM, 0, part.Ref)
 	p.add(e, bi, -h.GM, 0, part.Ref)
 	p.add(e, e, h.GM, 0, part.Ref)
+	return nil
+}
+
+// fet stamps the linearised FET as the ac package does (docs/fet.md): the
+// DC Jacobian among the branches drain–source, gate–source and gate 2–source,
+// Cds and Cgs across the first two and Cgd from gate to drain.
+func (p *pencil) fet(part *circuit.Part, res *ac.Result, nd func(string) int) error {
+	m := res.FETs[part.Ref]
+	if m == nil {
+		return errors.New("no small-signal model for the FET")
+	}
+	d, g, s := nd(part.Nets[0]), nd(part.Nets[1]), nd(part.Nets[2])
+	g2 := ground
+	if part.Kind == circuit.DualGateMOSFET {
+		g2 = nd(part.Nets[3])
+	}
+	from, to := [3]int{d, g, g2}, [3]int{s, s, s}
+	for i := range 3 {
+		for j := range 3 {
+			y := m.Jac[i][j]
+			p.add(from[i], from[j], y, 0, part.Ref)
+			p.add(from[i], to[j], -y, 0, part.Ref)
+			p.add(to[i], from[j], -y, 0, part.Ref)
+			p.add(to[i], to[j], y, 0, part.Ref)
+		}
+	}
+	p.admit(d, s, 0, m.Cds, part.Ref)
+	p.admit(g, s, 0, m.Cgs, part.Ref)
+	p.admit(g, d, 0, m.Cgd, part.Ref)
 	return nil
 }
 
