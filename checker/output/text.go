@@ -63,7 +63,7 @@ func Text(w, errw io.Writer, results []check.Result, pal Palette) {
 		}
 		files++
 		for _, f := range r.Findings {
-			if f.Waived {
+			if f.Waived || f.Baselined {
 				continue
 			}
 			fmt.Fprintf(w, "%s:%d:%d: %s: %s %s\n", r.Path, f.Pos.Line, f.Pos.Col, pal.severity(f.Severity),
@@ -81,8 +81,12 @@ func Text(w, errw io.Writer, results []check.Result, pal Palette) {
 	if failed > 0 {
 		tail = fmt.Sprintf("; %s not checked (input errors)", plural(failed, "file"))
 	}
-	fmt.Fprintf(w, "%s, %s, %s, %d waived in %s%s\n", plural(s.Error, "error"), plural(s.Warning, "warning"),
-		plural(s.Info, "info"), s.Waived, plural(files, "circuit file"), tail)
+	baselined := ""
+	if s.Baselined > 0 {
+		baselined = fmt.Sprintf(", %d baselined", s.Baselined)
+	}
+	fmt.Fprintf(w, "%s, %s, %s, %d waived%s in %s%s\n", plural(s.Error, "error"), plural(s.Warning, "warning"),
+		plural(s.Info, "info"), s.Waived, baselined, plural(files, "circuit file"), tail)
 }
 
 // ErrorLine renders an input error in the GNU form, at 1:1 when it has no position.

@@ -1,0 +1,121 @@
+package main
+
+import (
+	"bytes"
+	"fmt"
+	"os"
+
+	"headroom/checker/baseline"
+	"headroom/checker/check"
+	"headroom/checker/circuit"
+	"headroom/checker/engine"
+	"headroom/checker/output"
+)
+
+// applyBaseline fingerprints every finding and, when a baseline is in force
+// (--baseline, or `baseline` in the file's rule set), marks the findings it
+// records and reports its entries that match no finding of a checked file.
+func (e *env) applyBaseline(runner *check.Runner, results []check.Result, inv output.Invocation, flagRef string,
+	read func(string) ([]byte, error)) error {
+	matchers := map[string]*baseline.Matcher{}
+	for i := range results {
+		r := &results[i]
+		if r.Skipped || r.Err != nil {
+			continue
+		}
+		rootPath := fingerprintPath(inv, r.Path)
+		r.Fingerprints = baseline.Fingerprints(rootPath, r.Findings)
+		ref := flagRef
+		set, err := runner.RuleSet(r.Path)
+		if ref == "" && err == nil {
+			ref = set.Baseline
+		}
+		if ref == "" {
+			continue
+		}
+		m, ok := matchers[ref]
+		if !ok {
+			data, err := read(ref)
+			if err != nil {
+				return fmt.Errorf("cannot read baseline %s: %v", ref, err)
+			}
+			f, err := baseline.Read(bytes.NewReader(data))
+			if err != nil {
+				return fmt.Errorf("baseline %s: %v", ref, err)
+			}
+			m = baseline.NewMatcher(f)
+			matchers[ref] = m
+		}
+		for j := range r.Findings {
+			f := &r.Findings[j]
+			if !f.Waived && m.Match(r.Fingerprints[j]) {
+				f.Baselined = true
+			}
+		}
+		sev := engine.Info
+		if err == nil {
+			sev = set.Severity["baseline.unused"]
+		}
+		stale := m.Unmatched(rootPath)
+		if sev == engine.Off || len(stale) == 0 {
+			continue
+		}
+		for _, s := range stale {
+			target := "the whole file"
+			if s.Part != "" {
+				target = s.Part
+			}
+			r.Findings = append(r.Findings, engine.Finding{Rule: "baseline.unused", Part: s.Part,
+				Pos: circuit.Pos{File: r.Path, Line: 1, Col: 1}, Severity: sev, Corner: map[string]float64{},
+				Message: fmt.Sprintf("baseline entry for %s on %s matches no finding (%s)", s.Rule, target, ref),
+				Fix:     "write the baseline again with --write-baseline, or delete the entry"})
+		}
+		engine.Sort(r.Findings)
+		r.Fingerprints = baseline.Fingerprints(rootPath, r.Findings)
+	}
+	return nil
+}
+
+// fingerprintPath is the path a fingerprint names: from the repository root,
+// or as given for standard input and files outside it.
+func fingerprintPath(inv output.Invocation, path string) string {
+	if path == "-" {
+		return path
+	}
+	p, _ := inv.FromRoot(path)
+	return p
+}
+
+// writeBaseline records every unwaived finding of the files checked. Input
+// errors write nothing: a baseline missing a broken file's findings would
+// let them through later.
+func (e *env) writeBaseline(file string, results []check.Result, inv output.Invocation) int {
+	var entries []baseline.Entry
+	for _, r := range results {
+		if r.Err != nil {
+			e.writeErrors(results)
+			return e.usageError("input errors: no baseline written")
+		}
+		for i, f := range r.Findings {
+			if f.Waived || f.Rule == "baseline.unused" {
+				continue
+			}
+			entries = append(entries, baseline.Entry{Fingerprint: r.Fingerprints[i], Rule: f.Rule,
+				Path: fingerprintPath(inv, r.Path), Part: f.Part, Message: f.Message})
+		}
+	}
+	var b bytes.Buffer
+	baseline.Write(&b, entries)
+	if err := os.WriteFile(file, b.Bytes(), 0o644); err != nil {
+		return e.usageError("%v", err)
+	}
+	fmt.Fprintf(e.stderr, "headroom: recorded %s in %s\n", plural(len(entries), "finding"), file)
+	return exitOK
+}
+
+func plural(n int, word string) string {
+	if n == 1 {
+		return fmt.Sprintf("%d %s", n, word)
+	}
+	return fmt.Sprintf("%d %ss", n, word)
+}
