@@ -144,9 +144,8 @@ func (e *env) run(args []string) int {
 // -h or --help (the command's usage on standard output), 2 after a bad flag.
 func (e *env) parse(fs *flag.FlagSet, args []string) ([]string, int, bool) {
 	fs.SetOutput(e.stderr)
-	fs.Usage = func() {
-		fmt.Fprintf(e.stderr, "run 'headroom %s --help' for the flags\n", fs.Name())
-	}
+	fs.Usage = func() {} // -h prints the usage on standard output below; a bad flag gets a hint
+
 	var pos []string
 	for {
 		if err := fs.Parse(args); err != nil {
@@ -154,6 +153,7 @@ func (e *env) parse(fs *flag.FlagSet, args []string) ([]string, int, bool) {
 				commandUsage(e.stdout, fs.Name(), fs)
 				return nil, exitOK, false
 			}
+			fmt.Fprintf(e.stderr, "run 'headroom %s --help' for the flags\n", fs.Name())
 			return nil, exitInput, false
 		}
 		args = fs.Args()

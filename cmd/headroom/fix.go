@@ -5,6 +5,7 @@ import (
 	"fmt"
 	"io"
 	"os"
+	"path/filepath"
 	"strings"
 
 	"headroom/checker/check"
@@ -73,10 +74,17 @@ func fixAll(runner *check.Runner, results []check.Result, write bool, stderr io.
 				results[i] = r
 				continue
 			}
-			fmt.Fprintf(stderr, "headroom: %s: applied %s\n", r.Path, plural(d.fixes, "fix"))
+			fmt.Fprintf(stderr, "headroom: %s: applied %s\n", r.Path, fixCount(d.fixes))
 		}
 	}
 	return results, diffs
+}
+
+func fixCount(n int) string {
+	if n == 1 {
+		return "1 fix"
+	}
+	return fmt.Sprintf("%d fixes", n)
 }
 
 func hasChanges(fs []engine.Finding) bool {
@@ -127,7 +135,8 @@ func (d fileDiff) unified() string {
 	a, b := splitLines(string(d.old)), splitLines(string(d.new))
 	ops := diffLines(a, b)
 	var out strings.Builder
-	fmt.Fprintf(&out, "--- %s\n+++ %s\n", d.path, d.path)
+	p := filepath.ToSlash(d.path)
+	fmt.Fprintf(&out, "--- a/%s\n+++ b/%s\n", p, p)
 	const context = 3
 	for i := 0; i < len(ops); {
 		if ops[i].kind == ' ' {
@@ -229,12 +238,12 @@ func diffLines(a, b []string) []diffOp {
 		case i < n && j < m && a[i] == b[j]:
 			ops = append(ops, diffOp{' ', a[i], i, j})
 			i, j = i+1, j+1
-		case j < m && (i == n || lcs[i][j+1] >= lcs[i+1][j]):
-			ops = append(ops, diffOp{'+', b[j], i, j})
-			j++
-		default:
+		case i < n && (j == m || lcs[i+1][j] >= lcs[i][j+1]):
 			ops = append(ops, diffOp{'-', a[i], i, j})
 			i++
+		default:
+			ops = append(ops, diffOp{'+', b[j], i, j})
+			j++
 		}
 	}
 	return ops
