@@ -439,3 +439,59 @@ func TestCommandHelp(t *testing.T) {
 		}
 	}
 }
+
+// A staged part library has the circuits that name it checked from the
+// index, and only those; a deleted rule set has the circuits below it checked.
+func TestHookChecksStagedLibraryAndDeletedRuleSet(t *testing.T) {
+	needGit(t)
+	bin := binary(t)
+	dir := gitRepo(t)
+	env := []string{"HEADROOM=" + bin}
+	if out, code := runIn(t, dir, env, bin, "hook", "install"); code != 0 {
+		t.Fatal(out)
+	}
+	// An invented club transistor (demo figures, not a real part).
+	lib := func(hfe string) string {
+		return `[transistors."CLUB-1"]
+polarity = "npn"
+ft = "250MHz"
+hfe = ` + hfe + `
+vbe = "0.66V"
+ic_ref = "10mA"
+pd = "500mW"
+tj_max = "150C"
+ic_max = "100mA"
+vceo = "30V"
+`
+	}
+	user := strings.Replace(closedCircuit, "band = [\"21MHz\", \"21.45MHz\"]\n", "band = [\"21MHz\", \"21.45MHz\"]\nlibrary = [\"../parts/club.toml\"]\n", 1)
+	write(t, dir, "parts/club.toml", lib("[80, 240]"))
+	write(t, dir, "boards/user.toml", user)
+	write(t, dir, "boards/stray.toml", openCircuit) // fails, and uses no library
+	git(t, dir, env, "add", ".")
+	if out, code := git(t, dir, env, "commit", "-q", "--no-verify", "-m", "start"); code != 0 {
+		t.Fatal(out)
+	}
+	write(t, dir, "parts/club.toml", lib("[100, 240]"))
+	git(t, dir, env, "add", "parts/club.toml")
+	if out, code := git(t, dir, env, "commit", "-q", "-m", "club library: hFE from the new batch"); code != 0 {
+		t.Fatalf("a sound library change must pass, and stray.toml (no library) must not be checked: %s", out)
+	}
+	write(t, dir, "parts/club.toml", lib("[240, 100]"))
+	git(t, dir, env, "add", "parts/club.toml")
+	out, code := git(t, dir, env, "commit", "-q", "-m", "club library typo")
+	if code == 0 || !strings.Contains(out, "parts/club.toml") || strings.Contains(out, "stray.toml") {
+		t.Fatalf("a broken staged library must stop the commit, naming it, and only its users are checked: exit %d\n%s", code, out)
+	}
+	git(t, dir, env, "reset", "-q", "--hard")
+
+	write(t, dir, "boards/.headroom.toml", "[rules.\"net.connectivity\"]\nseverity = \"off\"\n")
+	git(t, dir, env, "add", ".")
+	if out, code := git(t, dir, env, "commit", "-q", "-m", "house rules"); code != 0 {
+		t.Fatal(out)
+	}
+	git(t, dir, env, "rm", "-q", "boards/.headroom.toml")
+	if out, code := git(t, dir, env, "commit", "-q", "-m", "drop house rules"); code == 0 || !strings.Contains(out, "stray.toml") {
+		t.Fatalf("deleting the rule set that let stray.toml pass must stop the commit: exit %d\n%s", code, out)
+	}
+}

@@ -201,7 +201,13 @@ func (c *catFile) close() {
 // renamed) as repository paths, limited to the given paths when there are
 // any.
 func (x *indexReader) stagedFiles(paths []string) ([]string, error) {
-	out, err := gitOutput(x.top, "diff", "--cached", "--name-only", "--diff-filter=ACMR", "-z")
+	return x.changed(paths, "ACMR")
+}
+
+// changed lists the staged *.toml changes of the given kinds (git's
+// --diff-filter letters) under the paths, sorted.
+func (x *indexReader) changed(paths []string, filter string) ([]string, error) {
+	out, err := gitOutput(x.top, "diff", "--cached", "--name-only", "--diff-filter="+filter, "-z")
 	if err != nil {
 		return nil, err
 	}
@@ -214,7 +220,7 @@ func (x *indexReader) stagedFiles(paths []string) ([]string, error) {
 		if name == "" || !strings.HasSuffix(name, ".toml") || !under(name, limits) {
 			continue
 		}
-		if _, ok := x.entries[name]; ok {
+		if _, ok := x.entries[name]; ok || filter == "D" {
 			names = append(names, name)
 		}
 	}
@@ -245,12 +251,32 @@ func (x *indexReader) stagedCircuits(paths []string) (inputs []input, staged map
 	if err != nil {
 		return nil, nil, err
 	}
+	deleted, err := x.changed(paths, "D")
+	if err != nil {
+		return nil, nil, err
+	}
 	staged = map[string]bool{}
 	all := names
 	for _, name := range names {
 		staged[name] = true
 	}
+	// A deleted rule set changes what applies to every circuit below it; a
+	// deleted library breaks the circuits that name it (they record it in
+	// Uses when they fail to read it).
+	var removedSets []string
+	for _, name := range deleted {
+		staged[name] = true
+		if path.Base(name) == ".headroom.toml" {
+			removedSets = append(removedSets, path.Dir(name))
+		}
+	}
+	if len(deleted) > 0 {
+		all = x.indexTOML(paths)
+	}
 	for _, name := range names {
+		if len(deleted) > 0 {
+			break
+		}
 		data, err := x.blob(x.entries[name])
 		if err != nil {
 			return nil, nil, err
@@ -273,7 +299,7 @@ func (x *indexReader) stagedCircuits(paths []string) (inputs []input, staged map
 		if err != nil {
 			shown = abs
 		}
-		inputs = append(inputs, input{path: shown, data: data, walked: true, extra: !staged[name]})
+		inputs = append(inputs, input{path: shown, data: data, walked: true, extra: !staged[name] && !(len(removedSets) > 0 && under(name, removedSets))})
 	}
 	return inputs, staged, nil
 }

@@ -186,3 +186,7 @@ func TestSARIF(t *testing.T) {
 		t.Error("an input error must make the invocation unsuccessful with a notification")
 	}
 }
+
+func jsonschemaUnmarshal(s string) (any, error) {
+	return jsonschema.UnmarshalJSON(strings.NewReader(s))
+}
