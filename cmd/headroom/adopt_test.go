@@ -494,4 +494,10 @@ vceo = "30V"
 	if out, code := git(t, dir, env, "commit", "-q", "-m", "drop house rules"); code == 0 || !strings.Contains(out, "stray.toml") {
 		t.Fatalf("deleting the rule set that let stray.toml pass must stop the commit: exit %d\n%s", code, out)
 	}
+	git(t, dir, env, "reset", "-q", "--hard")
+	// Deleting a circuit touches no other circuit: stray.toml is not checked.
+	git(t, dir, env, "rm", "-q", "boards/user.toml")
+	if out, code := git(t, dir, env, "commit", "-q", "-m", "drop the user board"); code != 0 {
+		t.Fatalf("deleting a circuit must not check the others: %s", out)
+	}
 }

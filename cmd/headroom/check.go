@@ -142,17 +142,28 @@ func (e *env) invocation(runner *check.Runner) output.Invocation {
 	if r, err := filepath.EvalSymlinks(wd); err == nil {
 		wd = r
 	}
-	root := wd
-	if top, err := gitOutput("", "rev-parse", "--show-toplevel"); err == nil {
-		if r, err := filepath.EvalSymlinks(strings.TrimSpace(top)); err == nil {
-			root = r
-		}
-	}
+	root := workTreeTop(wd)
 	inv := output.Invocation{Root: root, WD: wd, Version: version, Rules: rules.All(), Help: ruleHelp()}
 	if set, err := runner.RuleSet(filepath.Join(wd, "circuit.toml")); err == nil {
 		inv.Severity = set.Severity
 	}
 	return inv
+}
+
+// workTreeTop is the nearest folder at or above dir that holds .git (a
+// folder, or the file of a linked work tree), else dir: found on disk, as
+// rule-set discovery finds the repository root, without starting git.
+func workTreeTop(dir string) string {
+	for d := dir; ; {
+		if _, err := os.Lstat(filepath.Join(d, ".git")); err == nil {
+			return d
+		}
+		parent := filepath.Dir(d)
+		if parent == d {
+			return dir
+		}
+		d = parent
+	}
 }
 
 // ruleHelp renders a rule's explain documentation for SARIF's help.

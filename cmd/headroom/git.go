@@ -197,35 +197,44 @@ func (c *catFile) close() {
 	c.cmd.Wait()
 }
 
-// stagedFiles lists the staged *.toml files (added, copied, modified or
-// renamed) as repository paths, limited to the given paths when there are
-// any.
-func (x *indexReader) stagedFiles(paths []string) ([]string, error) {
-	return x.changed(paths, "ACMR")
-}
-
-// changed lists the staged *.toml changes of the given kinds (git's
-// --diff-filter letters) under the paths, sorted.
-func (x *indexReader) changed(paths []string, filter string) ([]string, error) {
-	out, err := gitOutput(x.top, "diff", "--cached", "--name-only", "--diff-filter="+filter, "-z")
+// stagedChanges lists the staged *.toml files under the paths, sorted, in
+// one `git diff --cached --raw -z`: those added, copied, modified or renamed
+// (as they are in the index), and those deleted or renamed away that were
+// not circuits (a rule set or library whose loss touches other circuits;
+// a deleted circuit touches none).
+func (x *indexReader) stagedChanges(paths []string) (present, deleted []string, err error) {
+	out, err := gitOutput(x.top, "diff", "--cached", "--raw", "--no-renames", "--no-abbrev", "-z")
 	if err != nil {
-		return nil, err
+		return nil, nil, err
 	}
 	limits, err := x.limits(paths)
 	if err != nil {
-		return nil, err
+		return nil, nil, err
 	}
-	var names []string
-	for _, name := range strings.Split(out, "\x00") {
-		if name == "" || !strings.HasSuffix(name, ".toml") || !under(name, limits) {
+	// Records: ":MODE MODE OLD NEW STATUS" then the path, each ended by NUL.
+	fields := strings.Split(out, "\x00")
+	for i := 0; i+1 < len(fields); i += 2 {
+		meta, name := strings.Fields(fields[i]), fields[i+1]
+		if len(meta) != 5 || !strings.HasSuffix(name, ".toml") || !under(name, limits) {
 			continue
 		}
-		if _, ok := x.entries[name]; ok || filter == "D" {
-			names = append(names, name)
+		switch status := meta[4]; {
+		case strings.HasPrefix(status, "D"):
+			if path.Base(name) != ".headroom.toml" {
+				if old, err := x.blob(meta[2]); err == nil && circuitHeader.Match(old) {
+					continue
+				}
+			}
+			deleted = append(deleted, name)
+		default:
+			if _, ok := x.entries[name]; ok {
+				present = append(present, name)
+			}
 		}
 	}
-	sort.Strings(names)
-	return names, nil
+	sort.Strings(present)
+	sort.Strings(deleted)
+	return present, deleted, nil
 }
 
 func (x *indexReader) limits(paths []string) ([]string, error) {
@@ -247,11 +256,7 @@ func (x *indexReader) limits(paths []string) ([]string, error) {
 // which of the extra files to keep after checking: those whose rule set or
 // libraries include a staged file.
 func (x *indexReader) stagedCircuits(paths []string) (inputs []input, staged map[string]bool, err error) {
-	names, err := x.stagedFiles(paths)
-	if err != nil {
-		return nil, nil, err
-	}
-	deleted, err := x.changed(paths, "D")
+	names, deleted, err := x.stagedChanges(paths)
 	if err != nil {
 		return nil, nil, err
 	}
