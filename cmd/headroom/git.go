@@ -27,6 +27,7 @@ type indexReader struct {
 	top     string            // the repository's top folder, absolute
 	wd      string            // the working folder, absolute
 	entries map[string]string // repository path (slash-separated) -> object id, stage 0
+	diff    string            // `git diff --cached --raw -z`: the staged changes
 
 	mu    sync.Mutex // guards the batch process and the cache
 	batch *catFile
@@ -45,12 +46,32 @@ func newIndexReader() (*indexReader, error) {
 	top, _ := filepath.EvalSymlinks(strings.TrimSpace(out))
 	wd, _ = filepath.EvalSymlinks(wd)
 	x := &indexReader{top: top, wd: wd, entries: map[string]string{}, blobs: map[string][]byte{}}
-	ls, err := gitOutput(top, "ls-files", "-s", "-z")
-	if err != nil {
+	// The index listing, the staged changes and the batch process start
+	// together: on a busy machine each git start costs more than its work.
+	diff := make(chan gitResult, 1)
+	go func() {
+		out, err := gitOutput(top, "diff", "--cached", "--raw", "--no-renames", "--no-abbrev", "-z")
+		diff <- gitResult{out, err}
+	}()
+	if x.batch, err = startCatFile(top); err != nil {
 		return nil, err
 	}
-	x.entries = parseLsFiles(ls)
+	ls, err := gitOutput(top, "ls-files", "-s", "-z")
+	d := <-diff
+	if err == nil {
+		err = d.err
+	}
+	if err != nil {
+		x.Close()
+		return nil, err
+	}
+	x.entries, x.diff = parseLsFiles(ls), d.out
 	return x, nil
+}
+
+type gitResult struct {
+	out string
+	err error
 }
 
 // parseLsFiles reads `git ls-files -s -z`: "MODE OID STAGE\tPATH\x00" per
@@ -203,10 +224,7 @@ func (c *catFile) close() {
 // not circuits (a rule set or library whose loss touches other circuits;
 // a deleted circuit touches none).
 func (x *indexReader) stagedChanges(paths []string) (present, deleted []string, err error) {
-	out, err := gitOutput(x.top, "diff", "--cached", "--raw", "--no-renames", "--no-abbrev", "-z")
-	if err != nil {
-		return nil, nil, err
-	}
+	out := x.diff
 	limits, err := x.limits(paths)
 	if err != nil {
 		return nil, nil, err
