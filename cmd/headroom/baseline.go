@@ -109,13 +109,6 @@ func (e *env) writeBaseline(file string, results []check.Result, inv output.Invo
 	if err := os.WriteFile(file, b.Bytes(), 0o644); err != nil {
 		return e.usageError("%v", err)
 	}
-	fmt.Fprintf(e.stderr, "headroom: recorded %s in %s\n", plural(len(entries), "finding"), file)
+	fmt.Fprintf(e.stderr, "headroom: recorded %s in %s\n", output.Plural(len(entries), "finding"), file)
 	return exitOK
-}
-
-func plural(n int, word string) string {
-	if n == 1 {
-		return fmt.Sprintf("%d %s", n, word)
-	}
-	return fmt.Sprintf("%d %ss", n, word)
 }

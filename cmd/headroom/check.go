@@ -125,6 +125,7 @@ func (e *env) check(args []string) int {
 		output.JSON(e.stdout, results, nil)
 	case "sarif":
 		e.writeErrors(results)
+		inv.Help = ruleHelp()
 		output.SARIF(e.stdout, results, inv)
 	case "github":
 		output.GitHub(e.stdout, results, inv)
@@ -143,7 +144,7 @@ func (e *env) invocation(runner *check.Runner) output.Invocation {
 		wd = r
 	}
 	root := workTreeTop(wd)
-	inv := output.Invocation{Root: root, WD: wd, Version: version, Rules: rules.All(), Help: ruleHelp()}
+	inv := output.Invocation{Root: root, WD: wd, Version: version, Rules: rules.All()}
 	if set, err := runner.RuleSet(filepath.Join(wd, "circuit.toml")); err == nil {
 		inv.Severity = set.Severity
 	}

@@ -283,7 +283,7 @@ func (x *indexReader) stagedCircuits(paths []string) (inputs []input, staged map
 	for _, name := range names {
 		staged[name] = true
 	}
-	// A deleted rule set changes what applies to every circuit below it; a
+	// A deleted rule set changes what applies to each circuit below it; a
 	// deleted library breaks the circuits that name it (they record it in
 	// Uses when they fail to read it).
 	var removedSets []string
@@ -305,7 +305,7 @@ func (x *indexReader) stagedCircuits(paths []string) (inputs []input, staged map
 			return nil, nil, err
 		}
 		if path.Base(name) == ".headroom.toml" || !circuitHeader.Match(data) {
-			all = x.indexTOML(paths) // a rule set or library changed: every circuit may be touched
+			all = x.indexTOML(paths) // a rule set or library changed: any circuit may be touched
 			break
 		}
 	}
