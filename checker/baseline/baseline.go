@@ -10,12 +10,15 @@
 package baseline
 
 import (
+	"bytes"
 	"crypto/sha256"
 	"encoding/hex"
 	"encoding/json"
+	"errors"
 	"fmt"
 	"io"
 	"sort"
+	"unicode/utf8"
 
 	"headroom/checker/engine"
 )
@@ -59,24 +62,51 @@ type File struct {
 	Findings []Entry `json:"findings"`
 }
 
-// Read parses a baseline file. Errors name what is wrong; the caller adds
-// the path.
-func Read(r io.Reader) (*File, error) {
+// Error is a problem in a baseline file, at a line and column (code
+// points, from 1).
+type Error struct {
+	Line, Col int
+	Msg       string
+}
+
+func (e *Error) Error() string { return fmt.Sprintf("%d:%d: %s", e.Line, e.Col, e.Msg) }
+
+// Read parses a baseline file; a problem is an *Error with its position.
+func Read(data []byte) (*File, error) {
 	var f File
-	dec := json.NewDecoder(r)
+	dec := json.NewDecoder(bytes.NewReader(data))
 	dec.DisallowUnknownFields()
 	if err := dec.Decode(&f); err != nil {
-		return nil, fmt.Errorf("not a baseline file: %v", err)
+		off := dec.InputOffset()
+		var se *json.SyntaxError
+		var te *json.UnmarshalTypeError
+		switch {
+		case errors.As(err, &se):
+			off = se.Offset
+		case errors.As(err, &te):
+			off = te.Offset
+		}
+		line, col := position(data, off)
+		return nil, &Error{line, col, "not a baseline file: " + err.Error()}
 	}
 	if f.Version != Version {
-		return nil, fmt.Errorf("baseline version %d, this headroom reads version %d", f.Version, Version)
+		return nil, &Error{1, 1, fmt.Sprintf("baseline version %d, this headroom reads version %d", f.Version, Version)}
 	}
 	for i, e := range f.Findings {
 		if e.Fingerprint == "" || e.Path == "" {
-			return nil, fmt.Errorf("entry %d has no fingerprint or path", i+1)
+			return nil, &Error{1, 1, fmt.Sprintf("entry %d of findings has no fingerprint or no path", i+1)}
 		}
 	}
 	return &f, nil
+}
+
+// position turns a byte offset into a line and a code-point column.
+func position(data []byte, off int64) (line, col int) {
+	off = max(0, min(off, int64(len(data))))
+	before := data[:off]
+	line = bytes.Count(before, []byte("\n")) + 1
+	col = utf8.RuneCount(before[bytes.LastIndexByte(before, '\n')+1:]) + 1
+	return line, col
 }
 
 // Write writes entries sorted by path, rule and part, so that a rewritten

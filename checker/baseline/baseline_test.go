@@ -54,7 +54,7 @@ func TestBaselineRoundTripAndMatch(t *testing.T) {
 	if err := Write(&buf, entries); err != nil {
 		t.Fatal(err)
 	}
-	f, err := Read(&buf)
+	f, err := Read(buf.Bytes())
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -74,8 +74,42 @@ func TestBaselineRoundTripAndMatch(t *testing.T) {
 	}
 	for _, bad := range []string{`{"version": 2, "findings": []}`, `{"version": 1, "findings": [{"rule": "x"}]}`,
 		`{"version": 1, "findings": [], "extra": 1}`, `[]`} {
-		if _, err := Read(strings.NewReader(bad)); err == nil {
+		if _, err := Read([]byte(bad)); err == nil {
 			t.Errorf("accepted %s", bad)
 		}
 	}
+	_, err = Read([]byte("{\n  \"version\": 1,\n  \"findings\": [\n    {\"fingerprint\": 7}\n  ]\n}\n"))
+	if e, ok := err.(*Error); !ok || e.Line != 4 || e.Col < 5 {
+		t.Errorf("a wrong type must be placed on its line: %v", err)
+	}
+	_, err = Read([]byte("{\"version\": 1,\n \"findings\": [}"))
+	if e, ok := err.(*Error); !ok || e.Line != 2 {
+		t.Errorf("a syntax error must be placed on its line: %v", err)
+	}
+}
+
+// FuzzRead: no input makes Read panic, and what it accepts writes back to
+// an equal file.
+func FuzzRead(f *testing.F) {
+	f.Add([]byte(`{"version": 1, "findings": []}`))
+	f.Add([]byte(`{"version": 1, "findings": [{"fingerprint": "aa", "rule": "r.x", "path": "a.toml", "part": "R1", "message": "m"}]}`))
+	f.Add([]byte(`{"version": 2}`))
+	f.Add([]byte("{\n\"version\": 1,\n\"findings\": [{\"fingerprint\": 1e400}]}"))
+	f.Fuzz(func(t *testing.T, data []byte) {
+		b, err := Read(data)
+		if err != nil {
+			if e, ok := err.(*Error); !ok || e.Line < 1 || e.Col < 1 {
+				t.Fatalf("error without a position: %v", err)
+			}
+			return
+		}
+		var out bytes.Buffer
+		if err := Write(&out, b.Findings); err != nil {
+			t.Fatal(err)
+		}
+		again, err := Read(out.Bytes())
+		if err != nil || len(again.Findings) != len(b.Findings) {
+			t.Fatalf("written baseline does not read back: %v", err)
+		}
+	})
 }

@@ -2,7 +2,9 @@ package main
 
 import (
 	"bytes"
+	"errors"
 	"fmt"
+	"io/fs"
 	"os"
 
 	"headroom/checker/baseline"
@@ -37,11 +39,12 @@ func (e *env) applyBaseline(runner *check.Runner, results []check.Result, inv ou
 		if !ok {
 			data, err := read(ref)
 			if err != nil {
-				return fmt.Errorf("cannot read baseline %s: %v", ref, err)
+				return &circuit.InputError{Pos: circuit.Pos{File: ref, Line: 1, Col: 1}, Msg: "cannot read the baseline: " + reasonOf(err)}
 			}
-			f, err := baseline.Read(bytes.NewReader(data))
+			f, err := baseline.Read(data)
 			if err != nil {
-				return fmt.Errorf("baseline %s: %v", ref, err)
+				be := err.(*baseline.Error)
+				return &circuit.InputError{Pos: circuit.Pos{File: ref, Line: be.Line, Col: be.Col}, Msg: be.Msg}
 			}
 			m = baseline.NewMatcher(f)
 			matchers[ref] = m
@@ -111,4 +114,13 @@ func (e *env) writeBaseline(file string, results []check.Result, inv output.Invo
 	}
 	fmt.Fprintf(e.stderr, "headroom: recorded %s in %s\n", output.Plural(len(entries), "finding"), file)
 	return exitOK
+}
+
+// reasonOf drops the path a file error repeats.
+func reasonOf(err error) string {
+	var pe *fs.PathError
+	if errors.As(err, &pe) {
+		return pe.Err.Error()
+	}
+	return err.Error()
 }

@@ -2,6 +2,7 @@ package main
 
 import (
 	"flag"
+	"fmt"
 	"io"
 	"io/fs"
 	"os"
@@ -97,7 +98,8 @@ func (e *env) check(args []string) int {
 		results, diffs = fixAll(runner, results, !*diff, e.stderr)
 	}
 	if err := e.applyBaseline(runner, results, inv, *baselineRef, read); err != nil {
-		return e.usageError("%v", err)
+		fmt.Fprintln(e.stderr, output.ErrorLine("", err))
+		return exitInput
 	}
 	if *writeBaseline != "" {
 		return e.writeBaseline(*writeBaseline, results, inv)
