@@ -269,45 +269,38 @@ func (x *indexReader) limits(paths []string) ([]string, error) {
 
 // stagedCircuits is what `check --staged` checks: every staged TOML file
 // (rule sets and other TOML are skipped later, as in a working-tree check)
-// and, when a rule set or part library is staged, every TOML file in the
-// index, so that the circuits using it are checked too. dependsOnStaged says
-// which of the extra files to keep after checking: those whose rule set or
-// libraries include a staged file.
+// and, when a rule set or part library is staged or deleted, every TOML file
+// in the index, marked extra: after checking, keepTouched keeps those whose
+// rule sets or libraries include a staged file (staged, by repository path),
+// and those below a deleted rule set.
 func (x *indexReader) stagedCircuits(paths []string) (inputs []input, staged map[string]bool, err error) {
 	names, deleted, err := x.stagedChanges(paths)
 	if err != nil {
 		return nil, nil, err
 	}
 	staged = map[string]bool{}
-	all := names
+	touchesOthers := len(deleted) > 0
 	for _, name := range names {
 		staged[name] = true
-	}
-	// A deleted rule set changes what applies to each circuit below it; a
-	// deleted library breaks the circuits that name it (they record it in
-	// Uses when they fail to read it).
-	var removedSets []string
-	for _, name := range deleted {
-		staged[name] = true
-		if path.Base(name) == ".headroom.toml" {
-			removedSets = append(removedSets, path.Dir(name))
-		}
-	}
-	if len(deleted) > 0 {
-		all = x.indexTOML(paths)
-	}
-	for _, name := range names {
-		if len(deleted) > 0 {
-			break
+		if touchesOthers {
+			continue
 		}
 		data, err := x.blob(x.entries[name])
 		if err != nil {
 			return nil, nil, err
 		}
-		if path.Base(name) == ".headroom.toml" || !circuitHeader.Match(data) {
-			all = x.indexTOML(paths) // a rule set or library changed: any circuit may be touched
-			break
+		touchesOthers = path.Base(name) == ".headroom.toml" || !circuitHeader.Match(data)
+	}
+	var removedSets []string // folders whose rule set was deleted
+	for _, name := range deleted {
+		staged[name] = true // a circuit that named a deleted library records it in Uses
+		if path.Base(name) == ".headroom.toml" {
+			removedSets = append(removedSets, path.Dir(name))
 		}
+	}
+	all := names
+	if touchesOthers {
+		all = x.indexTOML(paths)
 	}
 	for _, name := range all {
 		if path.Base(name) == ".headroom.toml" {
@@ -322,7 +315,8 @@ func (x *indexReader) stagedCircuits(paths []string) (inputs []input, staged map
 		if err != nil {
 			shown = abs
 		}
-		inputs = append(inputs, input{path: shown, data: data, walked: true, extra: !staged[name] && !(len(removedSets) > 0 && under(name, removedSets))})
+		belowRemoved := len(removedSets) > 0 && under(name, removedSets)
+		inputs = append(inputs, input{path: shown, data: data, walked: true, extra: !staged[name] && !belowRemoved})
 	}
 	return inputs, staged, nil
 }
