@@ -368,6 +368,27 @@ func TestBaselineAdoption(t *testing.T) {
 	if code != 1 || rulesOf(doc) != want {
 		t.Fatalf("only the new problem may fail: exit %d\n got %s\nwant %s", code, rulesOf(doc), want)
 	}
+	// In SARIF the recorded findings are unchanged and suppressed, the new one new.
+	sarif, _ := runIn(t, dir, nil, bin, "check", "--format", "sarif", "designs")
+	sarif = sarif[strings.Index(sarif, "{"):] // runIn mixes in standard error, which is empty here
+	validate(t, compileSchema(t, sarifSchema), []byte(sarif))
+	var log struct {
+		Runs []struct {
+			Results []struct {
+				BaselineState string
+				Suppressions  []struct{ Kind string }
+				Properties    struct{ Part string }
+			}
+		}
+	}
+	json.Unmarshal([]byte(sarif), &log)
+	var states []string
+	for _, r := range log.Runs[0].Results {
+		states = append(states, fmt.Sprintf("%s:%s:%d", r.Properties.Part, r.BaselineState, len(r.Suppressions)))
+	}
+	if got := strings.Join(states, " "); got != "R1:unchanged:1 R1:unchanged:1 R7:new:0 R1:unchanged:1" {
+		t.Errorf("SARIF baseline states: %s", got)
+	}
 	// Fixing an old design leaves its entry stale, reported like an unused waiver.
 	write(t, dir, "designs/old3.toml", closedCircuit)
 	write(t, dir, "designs/old2.toml", strings.Replace(openCircuit, "15 m bias board", "old board 2", 1))

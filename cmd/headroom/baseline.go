@@ -17,8 +17,9 @@ import (
 // applyBaseline fingerprints every finding and, when a baseline is in force
 // (--baseline, or `baseline` in the file's rule set), marks the findings it
 // records and reports its entries that match no finding of a checked file.
+// It reports whether a baseline was in force.
 func (e *env) applyBaseline(runner *check.Runner, results []check.Result, inv output.Invocation, flagRef string,
-	read func(string) ([]byte, error)) error {
+	read func(string) ([]byte, error)) (bool, error) {
 	matchers := map[string]*baseline.Matcher{}
 	for i := range results {
 		r := &results[i]
@@ -39,12 +40,12 @@ func (e *env) applyBaseline(runner *check.Runner, results []check.Result, inv ou
 		if !ok {
 			data, err := read(ref)
 			if err != nil {
-				return &circuit.InputError{Pos: circuit.Pos{File: ref, Line: 1, Col: 1}, Msg: "cannot read the baseline: " + reasonOf(err)}
+				return false, &circuit.InputError{Pos: circuit.Pos{File: ref, Line: 1, Col: 1}, Msg: "cannot read the baseline: " + reasonOf(err)}
 			}
 			f, err := baseline.Read(data)
 			if err != nil {
 				be := err.(*baseline.Error)
-				return &circuit.InputError{Pos: circuit.Pos{File: ref, Line: be.Line, Col: be.Col}, Msg: be.Msg}
+				return false, &circuit.InputError{Pos: circuit.Pos{File: ref, Line: be.Line, Col: be.Col}, Msg: be.Msg}
 			}
 			m = baseline.NewMatcher(f)
 			matchers[ref] = m
@@ -76,7 +77,7 @@ func (e *env) applyBaseline(runner *check.Runner, results []check.Result, inv ou
 		engine.Sort(r.Findings)
 		r.Fingerprints = baseline.Fingerprints(rootPath, r.Findings)
 	}
-	return nil
+	return len(matchers) > 0, nil
 }
 
 // fingerprintPath is the path a fingerprint names: from the repository root,

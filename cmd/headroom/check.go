@@ -97,7 +97,9 @@ func (e *env) check(args []string) int {
 	if *fix || *diff {
 		results, diffs = fixAll(runner, results, !*diff, e.stderr)
 	}
-	if err := e.applyBaseline(runner, results, inv, *baselineRef, read); err != nil {
+	used, err := e.applyBaseline(runner, results, inv, *baselineRef, read)
+	inv.Baseline = used
+	if err != nil {
 		fmt.Fprintln(e.stderr, output.ErrorLine("", err))
 		return exitInput
 	}
