@@ -133,7 +133,15 @@ func TestSARIF(t *testing.T) {
 			OriginalURIBaseIDs map[string]struct{ URI string } `json:"originalUriBaseIds"`
 			Tool               struct {
 				Driver struct {
-					Rules []struct{ ID string }
+					Rules []struct {
+						ID                   string
+						FullDescription      struct{ Text string }
+						Help                 struct{ Text, Markdown string }
+						DefaultConfiguration struct {
+							Enabled bool
+							Level   string
+						}
+					}
 				}
 			}
 			Results []struct {
@@ -144,9 +152,11 @@ func TestSARIF(t *testing.T) {
 						ArtifactLocation struct{ URI, URIBaseID string }
 					}
 				}
-				Suppressions []struct{ Kind, Justification string }
+				Suppressions        []struct{ Kind, Justification string }
+				PartialFingerprints map[string]string
 			}
 			Invocations []struct {
+				ExitCode            int
 				ExecutionSuccessful bool
 				Notifications       []any `json:"toolExecutionNotifications"`
 			}
@@ -181,6 +191,21 @@ func TestSARIF(t *testing.T) {
 	}
 	if !suppressed {
 		t.Error("the waived finding must appear as an inSource suppression with its reason")
+	}
+	for _, r := range run.Tool.Driver.Rules {
+		// The help is the explain text (its first line names the rule), in text and Markdown.
+		if !strings.HasPrefix(r.Help.Text, r.ID+": ") || !strings.Contains(r.Help.Markdown, "**"+r.ID+"**") ||
+			r.FullDescription.Text == "" || r.DefaultConfiguration.Level == "" {
+			t.Errorf("rule %s: help, full description or default configuration missing", r.ID)
+		}
+	}
+	for _, r := range run.Results {
+		if len(r.PartialFingerprints["headroomFinding/v1"]) != 32 {
+			t.Errorf("result %s: no fingerprint", r.RuleID)
+		}
+	}
+	if inv := run.Invocations; len(inv) != 1 || inv[0].ExitCode != exitInput {
+		t.Errorf("the invocation must record exit status 2 for a corpus with an input error")
 	}
 	if inv := run.Invocations; len(inv) != 1 || inv[0].ExecutionSuccessful || len(inv[0].Notifications) == 0 {
 		t.Error("an input error must make the invocation unsuccessful with a notification")
