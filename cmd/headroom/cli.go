@@ -62,7 +62,7 @@ const usage = `usage:
                    [--corners worst|nominal] [--color auto|always|never] [--staged]
                    [--fix] [--diff] [--baseline FILE] [--write-baseline FILE]
                    [--stdin-filename NAME] [PATH ...]
-  headroom report  [--format text|markdown|json] [--corners worst|nominal] FILE
+  headroom report  [--format text|markdown|json] [--corners worst|nominal] [--rules FILE|NAME] FILE
   headroom rules   [--rules FILE|NAME] [--format text|json]
   headroom explain RULE
   headroom hook    install [--force] | uninstall
