@@ -522,3 +522,29 @@ vceo = "30V"
 		t.Fatalf("deleting a circuit must not check the others: %s", out)
 	}
 }
+
+// --staged in process, so that the race detector sees the index reader
+// shared by the parallel checks (go test -race).
+func TestStagedInProcess(t *testing.T) {
+	needGit(t)
+	dir := gitRepo(t)
+	for i := range 6 {
+		write(t, dir, fmt.Sprintf("boards/b%d.toml", i), openCircuit)
+	}
+	write(t, dir, "parts/lib.toml", "[cores.\"demo-core\"]\nmu = 100\nal = \"20nH\"\n")
+	write(t, dir, ".headroom.toml", "library = [\"parts/lib.toml\"]\n")
+	git(t, dir, nil, "add", ".")
+	t.Chdir(filepath.Join(dir, "boards"))
+	var stdout, stderr strings.Builder
+	e := &env{stdin: strings.NewReader(""), stdout: &stdout, stderr: &stderr, getenv: func(string) string { return "" }}
+	if code := e.run([]string{"check", "--staged", "--corners", "nominal", "--format", "json"}); code != 1 {
+		t.Fatalf("exit %d\n%s", code, stderr.String())
+	}
+	var doc jsonOut
+	if err := json.Unmarshal([]byte(stdout.String()), &doc); err != nil {
+		t.Fatal(err)
+	}
+	if len(doc.Findings) != 6 || doc.Findings[0].Path != "b0.toml" {
+		t.Fatalf("want the six staged boards, named from the working folder: %s", stdout.String())
+	}
+}
