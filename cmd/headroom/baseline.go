@@ -4,7 +4,6 @@ import (
 	"bytes"
 	"errors"
 	"fmt"
-	"io/fs"
 	"os"
 
 	"headroom/checker/baseline"
@@ -40,7 +39,7 @@ func (e *env) applyBaseline(runner *check.Runner, results []check.Result, inv ou
 		if !ok {
 			data, err := read(ref)
 			if err != nil {
-				return false, &circuit.InputError{Pos: circuit.Pos{File: ref, Line: 1, Col: 1}, Msg: "cannot read the baseline: " + reasonOf(err)}
+				return false, &circuit.InputError{Pos: circuit.Pos{File: ref, Line: 1, Col: 1}, Msg: "cannot read the baseline: " + withoutPath(err)}
 			}
 			f, err := baseline.Read(data)
 			if err != nil {
@@ -117,11 +116,10 @@ func (e *env) writeBaseline(file string, results []check.Result, inv output.Invo
 	return exitOK
 }
 
-// reasonOf drops the path a file error repeats.
-func reasonOf(err error) string {
-	var pe *fs.PathError
-	if errors.As(err, &pe) {
-		return pe.Err.Error()
+// withoutPath drops the path a file error repeats (the message names it).
+func withoutPath(err error) string {
+	if inner := errors.Unwrap(err); inner != nil {
+		return inner.Error()
 	}
 	return err.Error()
 }
