@@ -132,6 +132,7 @@ func (e *env) check(args []string) int {
 		inv.Help = ruleHelp()
 		output.SARIF(e.stdout, results, inv)
 	case "github":
+		e.writeErrors(results)
 		output.GitHub(e.stdout, results, inv)
 	default:
 		output.Text(e.stdout, e.stderr, results, output.NewPalette(e.colour(*colorFlag)))
