@@ -18,7 +18,7 @@ var BiasRegion = &engine.Rule{
 			"every other bias and margin figure is meaningless until the operating point is in the active region. " +
 			"When no operating point can be found at all (no convergence, a singular network) the reason is reported here.",
 		Formula: "cut off: IC < min_ic (tested first; measured IC, >=, unit A); saturated: VCE < min_vce (measured VCE, >=, unit V)",
-		Source:  "the definition of the forward-active region (Ebers–Moll model, FORMAT.md §6)",
+		Source:  "the definition of the forward-active region in the Ebers–Moll model (J. J. Ebers and J. L. Moll, \"Large-signal behavior of junction transistors\", Proc. IRE 42(12), 1954, from memory; the model is in docs/model.md)",
 		Fix: "Cut off: raise the base voltage (upper divider leg smaller, or lower leg larger) or lower the emitter resistance. " +
 			"Saturated: lower the collector-feed resistance, raise the emitter resistance, or lower the base voltage.",
 		Params: []engine.Param{
@@ -35,7 +35,7 @@ func runBiasRegion(p *engine.Pass) error {
 		part := ""
 		if f, ok := cs.OPErr.(*dc.Failure); ok {
 			if f.Cause == dc.Connectivity && len(p.A.Topo.Problems) > 0 {
-				return nil // a wiring fault: net.connectivity reports it (FORMAT.md §6)
+				return nil // a wiring fault: net.connectivity reports it (docs/model.md)
 			}
 			part = f.Part
 		}

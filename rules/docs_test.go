@@ -51,8 +51,8 @@ func TestEveryRuleDocumented(t *testing.T) {
 			}
 			names[p.Name] = true
 		}
-		if r.Run == nil && !strings.HasPrefix(r.ID, "waiver.") {
-			t.Errorf("%s: no run function (only the waiver rules are judged by the driver)", r.ID)
+		if r.Run == nil && !strings.HasPrefix(r.ID, "waiver.") && r.ID != "baseline.unused" {
+			t.Errorf("%s: no run function (only the waiver and baseline rules are judged by the driver)", r.ID)
 		}
 	}
 }

@@ -26,8 +26,8 @@ var FETBiasSpread = &engine.Rule{
 		Formula: "ID at the case judged ÷ ID at nominal (IDSS and VP typical, every other value nominal) >= min_ratio and " +
 			"<= max_ratio (unit ratio; one item per bound, the finding reports the one violated). With corners the case " +
 			"moves IDSS and VP together to either end of their ranges (docs/fet.md) with the rest of the box.",
-		Source: "self bias VGS = −ID·RS and the Shockley square law (REFERENCES-2.md §5.1, TBC 991 Ex 7.7); the pitfall of " +
-			"the spread, REFERENCES-2.md §5.4; the 0.5–2× window is common practice, no published source",
+		Source: "self bias VGS = −ID·RS and the Shockley square law (D. De, Basic Electronics, 2010, ch. 7); IDSS and VP spread " +
+			"2.5–10:1 within one type (makers' datasheets, e.g. the J310's 24–60 mA); the 0.5–2× window is common practice, no published source",
 		Fix: "advice: a larger source resistor (with a divider raising the gate so the nominal current stays) narrows the " +
 			"spread; or select parts by measured IDSS",
 		Params: []engine.Param{

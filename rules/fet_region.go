@@ -20,7 +20,7 @@ var FETRegion = &engine.Rule{
 		Formula: "three bounds, one item each (the finding reports the one violated): cut off: ID >= min_id (unit A); " +
 			"saturation margin: VDS − (VGS − VP) >= min_margin (unit V; n-channel signs, a p-channel part mirrored; a dual " +
 			"gate: the smaller of its two halves' margins); gate: max(VGS, VGD) <= max_gate_bias (unit V; JFETs only)",
-		Source: "the regions of the square-law model (Shockley; REFERENCES-2.md §5.1, docs/fet.md); the 1 V margin and the " +
+		Source: "the regions of the square-law model (Shockley; D. De, Basic Electronics, 2010, ch. 7; docs/fet.md); the 1 V margin and the " +
 			"0 V gate limit are common practice, no published source",
 		Fix: "Cut off or too close to the triode edge: lower the source resistor (more current) or the drain resistance, or " +
 			"raise the supply. Gate forward: return the gate to the source side (gate resistor to gnd with the source " +

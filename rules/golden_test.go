@@ -140,6 +140,7 @@ func runGolden(t *testing.T, path string) {
 	}
 	output.Text(&txt, &errs, results, output.NewPalette(false))
 	txt.Write(errs.Bytes())
+	validateSARIF(t, results)
 	got := map[string][]byte{"want.json": js.Bytes(), "want.txt": txt.Bytes()}
 	for name, b := range got {
 		// FORMAT.md §6: no number is ever printed as Inf or NaN.

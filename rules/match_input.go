@@ -26,8 +26,8 @@ var MatchInput = &engine.Rule{
 		Formula: "for an in port not marked matched = false: the smallest return loss −20·log10|Γ|, " +
 			"Γ = (Zin − RS)/(Zin + RS), at the band's lowest, centre and highest frequencies, >= min_db; unit dB. " +
 			"The finding's part is the port's name.",
-		Source: "the definitions of reflection coefficient and return loss (REFERENCES.md §12: 10 dB is a VSWR of " +
-			"1.92); the 10 dB threshold is common practice, no published source",
+		Source: "the definitions of reflection coefficient and return loss (T. S. Bird, \"Definition and Misuse of Return Loss\", IEEE " +
+			"Antennas and Propagation Magazine 51(2), 2009, from memory; 10 dB is a VSWR of 1.92); the 10 dB threshold is common practice, no published source",
 		Fix: "Advice: the input impedance found, at the worst frequency, and what sets it — the branches on the " +
 			"input net that carry most of the input admittance, and at a transistor's base the bias network and " +
 			"the transistor's own input. A negative input resistance is named as a poor match, with a pointer to " +

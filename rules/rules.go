@@ -22,6 +22,7 @@ func All() []*engine.Rule {
 		BJTDissipation,
 		BJTFtHeadroom,
 		BJTVoltage,
+		BaselineUnused,
 		BypassReactance,
 		CapacitorVoltage,
 		ChokeReactance,

@@ -22,7 +22,7 @@ var SafetyVoltage = &engine.Rule{
 			"case judged, so within its range in the worst case), <= max_volts; unit V. The finding names the " +
 			"supply with the largest nominal |EMF|.",
 		Source: "IEC 60950-1 (withdrawn, replaced by IEC 62368-1), SELV circuit: at most 60 V DC in normal " +
-			"operation (REFERENCES.md §8, seen in a public summary); the same 60 V DC is the limit of the lowest " +
+			"operation (seen in a public summary of the standard); the same 60 V DC is the limit of the lowest " +
 			"energy class, ES1, of IEC 62368-1:2018 (from memory, not checked against the standard)",
 		Fix: "Advice: no value change makes a circuit safe. Bring every rail within max_volts of every other, or " +
 			"treat the circuit as hazardous: follow local codes and licensed practice.",

@@ -29,7 +29,7 @@ var StabilityOscillation = &engine.Rule{
 			"|Im s|/2π, its growth 20·log10(e)·Re s in dB/µs and the parts that take part most (each part's share " +
 			"of |∂s/∂α| when its admittance is scaled by 1 + α). The finding's at_hz is that frequency. See docs/stability.md.",
 		Source: "natural frequencies and stability of a linear network (any circuit-theory text: a right-half-plane " +
-			"root of the network determinant is a growing response); REFERENCES-2 §1.1, §1.6",
+			"root of the network determinant is a growing response)",
 		Fix: "The smallest E12 base stopper (1 ohm–1 kohm, in series with the base of the transistor that takes part " +
 			"most) or the largest E12 swamping resistor (10 kohm–10 ohm, across its collector load) with which the case " +
 			"has no growing pole, and none either with half the stopper or twice the swamping resistor (the margin); " +

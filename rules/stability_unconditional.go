@@ -27,7 +27,7 @@ var StabilityUnconditional = &engine.Rule{
 			"The finding's at_hz is where the least value is; the message names the range where it fails. See " +
 			"docs/stability.md.",
 		Source: "μ: M. L. Edwards and J. H. Sinsky, necessary and sufficient for unconditional stability with " +
-			"μ > 1 alone, and larger μ means more margin (REFERENCES-2 §1.1); min_mu 1 is the criterion, 1.1 in the " +
+			"μ > 1 alone, and larger μ means more margin (IEEE Trans. Microwave Theory Tech. 40(12), 1992, 2303–2311); min_mu 1 is the criterion, 1.1 in the " +
 			"strict set is common practice, no published source",
 		Fix: "The smallest E12 base stopper (1 ohm–1 kohm) or the largest E12 swamping resistor (10 kohm–10 ohm, " +
 			"across the collector load) with which the least μ over the sweep reaches min_mu at the case judged " +

@@ -24,7 +24,7 @@ var ValuesPreferred = &engine.Rule{
 			"distance |v − n| ÷ n to the nearest value n of the series for its tolerance (≤ 1 % E96, ≤ 2 % E48, " +
 			"≤ 5 % E24, ≤ 10 % E12, else E6) or of any coarser series, <= max_deviation; unit fraction",
 		Source: "IEC 60063:2015, preferred number series for resistors and capacitors (E3–E24 Table 1, E48–E192 " +
-			"Table 2), with the conventional pairing of series and tolerance (REFERENCES.md §1)",
+			"Table 2), with the conventional pairing of series and tolerance (common practice, no published source)",
 		Fix: "The nearer of the two neighbouring series values (the smaller change: which side is safe depends " +
 			"on the part's job, which this rule does not know), naming both neighbours.",
 		Params: []engine.Param{

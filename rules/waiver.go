@@ -25,3 +25,16 @@ var WaiverUnused = &engine.Rule{
 		Fix:     "Remove the waiver, or correct the rule or part it names.",
 	},
 }
+
+// BaselineUnused is judged by the command line after the check, against the
+// baseline file, like an unused waiver; it has no Run.
+var BaselineUnused = &engine.Rule{
+	ID: "baseline.unused",
+	Doc: engine.Doc{
+		Title:   "a baseline entry matches no finding",
+		Why:     "A baseline records the findings a design had when the team adopted the check. An entry whose finding is gone (fixed, or its part renamed) should leave the baseline, or it would hide the same problem when it comes back.",
+		Formula: "the entry's fingerprint (rule, part, bound, path from the repository root) matches no finding of a file that was checked",
+		Source:  "project policy",
+		Fix:     "Write the baseline again with --write-baseline, or delete the entry.",
+	},
+}

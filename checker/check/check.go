@@ -47,15 +47,23 @@ type Result struct {
 	Findings []engine.Finding
 	Err      error // an input error: no findings are reported for the file
 	Skipped  bool  // not a circuit file
+	// Uses lists the files the check read besides the circuit: the rule-set
+	// files and every part library, so that a change to one of them can be
+	// traced to the circuits it touches.
+	Uses []string
+	// Fingerprints name each finding independently of its line (see package
+	// baseline); filled by the command line, nil when not computed.
+	Fingerprints []string
 }
 
 // Runner checks files, caching rule sets between them. File may be called
 // from several goroutines at once.
 type Runner struct {
-	mu     sync.Mutex // guards sets
+	mu     sync.Mutex // guards sets and found
 	opt    Options
 	loader *ruleset.Loader
 	sets   map[string]*ruleset.Set
+	found  map[string]string // folder -> discovered rule-set reference
 }
 
 // NewRunner prepares a run.
@@ -70,7 +78,7 @@ func NewRunner(opt Options) *Runner {
 		opt.Today = time.Now().Format("2006-01-02")
 	}
 	return &Runner{opt: opt, loader: &ruleset.Loader{Rules: opt.Rules, ReadFile: opt.ReadFile},
-		sets: map[string]*ruleset.Set{}}
+		sets: map[string]*ruleset.Set{}, found: map[string]string{}}
 }
 
 // RuleSet resolves the rule set that applies to a circuit file at path,
@@ -83,7 +91,12 @@ func (r *Runner) RuleSet(path string) (*ruleset.Set, error) {
 	defer r.mu.Unlock()
 	ref := r.opt.RulesRef
 	if ref == "" {
-		ref = ruleset.Discover(filepath.Dir(path), r.opt.Exists)
+		dir := filepath.Dir(path)
+		var ok bool
+		if ref, ok = r.found[dir]; !ok {
+			ref = ruleset.Discover(dir, r.opt.Exists)
+			r.found[dir] = ref
+		}
 	}
 	set, ok := r.sets[ref]
 	if !ok {
@@ -117,7 +130,12 @@ func (r *Runner) File(path string, data []byte) Result {
 		res.Err = err
 		return res
 	}
-	c, err := circuit.LoadBytes(path, data, circuit.Options{ReadFile: r.opt.ReadFile, Libraries: set.Libraries})
+	res.Uses = append(res.Uses, set.Files...)
+	read := func(p string) ([]byte, error) { // the loader reads libraries one at a time
+		res.Uses = append(res.Uses, p)
+		return r.opt.ReadFile(p)
+	}
+	c, err := circuit.LoadBytes(path, data, circuit.Options{ReadFile: read, Libraries: set.Libraries})
 	if errors.Is(err, circuit.ErrNotCircuit) {
 		res.Skipped = true
 		return res

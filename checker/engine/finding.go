@@ -69,6 +69,7 @@ type Finding struct {
 	Corner     map[string]float64 // the values that differ from nominal
 	CornerText string             // the same, for people: "Q1 hFE 100, vcc 13.8 V, R1 -5 %"
 	Waived     bool
+	Baselined  bool   // recorded in the baseline file: reported, never failing
 	Reason     string // the waiver's reason, when waived
 }
 

@@ -20,6 +20,8 @@ type Summary struct {
 	Warning int `json:"warning"`
 	Info    int `json:"info"`
 	Waived  int `json:"waived"`
+	// Baselined counts findings recorded in the baseline (shown only when some are).
+	Baselined int `json:"baselined,omitempty"`
 }
 
 // Summarize counts the findings of every file.
@@ -30,6 +32,8 @@ func Summarize(results []check.Result) Summary {
 			switch {
 			case f.Waived:
 				s.Waived++
+			case f.Baselined:
+				s.Baselined++
 			case f.Severity == engine.Error:
 				s.Error++
 			case f.Severity == engine.Warning:
@@ -67,6 +71,9 @@ type jsonFinding struct {
 	Fix        string             `json:"fix"`
 	Changes    []engine.Change    `json:"changes,omitempty"`
 	Waived     bool               `json:"waived"`
+	Baselined  bool               `json:"baselined,omitempty"`
+	// Fingerprint names the finding apart from its line (package baseline).
+	Fingerprint string `json:"fingerprint,omitempty"`
 }
 
 type jsonError struct {
@@ -97,8 +104,12 @@ func JSON(w io.Writer, results []check.Result, extra []error) error {
 		}
 		doc.Files = append(doc.Files, jsonFile{Path: r.Path, Circuit: r.Circuit, RuleSet: r.RuleSet,
 			Corners: r.Corners, FailOn: r.FailOn.String()})
-		for _, f := range r.Findings {
-			doc.Findings = append(doc.Findings, findingJSON(r.Path, f))
+		for i, f := range r.Findings {
+			j := findingJSON(r.Path, f)
+			if i < len(r.Fingerprints) {
+				j.Fingerprint = r.Fingerprints[i]
+			}
+			doc.Findings = append(doc.Findings, j)
 		}
 	}
 	for _, e := range extra {
@@ -114,7 +125,7 @@ func JSON(w io.Writer, results []check.Result, extra []error) error {
 func findingJSON(path string, f engine.Finding) jsonFinding {
 	j := jsonFinding{Rule: f.Rule, Severity: f.Severity.String(), Path: path, Line: f.Pos.Line,
 		Column: f.Pos.Col, Part: f.Part, Message: f.Message, Corner: f.Corner, Fix: f.Fix,
-		Changes: f.Changes, Waived: f.Waived}
+		Changes: f.Changes, Waived: f.Waived, Baselined: f.Baselined}
 	if j.Corner == nil {
 		j.Corner = map[string]float64{}
 	}

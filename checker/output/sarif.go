@@ -4,10 +4,10 @@ import (
 	"encoding/json"
 	"io"
 	"net/url"
-	"os"
 	"path/filepath"
 	"strings"
 
+	"headroom/checker/baseline"
 	"headroom/checker/check"
 	"headroom/checker/engine"
 	"headroom/checker/quantity"
@@ -46,12 +46,22 @@ type sarifText struct {
 	Text string `json:"text"`
 }
 
+type sarifMessage struct {
+	Text     string `json:"text"`
+	Markdown string `json:"markdown,omitempty"`
+}
+
+type sarifConfig struct {
+	Enabled bool   `json:"enabled"`
+	Level   string `json:"level"`
+}
+
 type sarifRule struct {
-	ID                   string            `json:"id"`
-	ShortDescription     sarifText         `json:"shortDescription"`
-	FullDescription      sarifText         `json:"fullDescription"`
-	Help                 sarifText         `json:"help"`
-	DefaultConfiguration map[string]string `json:"defaultConfiguration,omitempty"`
+	ID                   string       `json:"id"`
+	ShortDescription     sarifText    `json:"shortDescription"`
+	FullDescription      sarifText    `json:"fullDescription"`
+	Help                 sarifMessage `json:"help"`
+	DefaultConfiguration *sarifConfig `json:"defaultConfiguration,omitempty"`
 }
 
 type sarifArtifactLoc struct {
@@ -79,13 +89,15 @@ type sarifSuppression struct {
 }
 
 type sarifResult struct {
-	RuleID       string             `json:"ruleId"`
-	RuleIndex    int                `json:"ruleIndex"`
-	Level        string             `json:"level"`
-	Message      sarifText          `json:"message"`
-	Locations    []sarifLocation    `json:"locations"`
-	Suppressions []sarifSuppression `json:"suppressions,omitempty"`
-	Properties   map[string]any     `json:"properties,omitempty"`
+	RuleID              string             `json:"ruleId"`
+	RuleIndex           int                `json:"ruleIndex"`
+	Level               string             `json:"level"`
+	Message             sarifText          `json:"message"`
+	Locations           []sarifLocation    `json:"locations"`
+	PartialFingerprints map[string]string  `json:"partialFingerprints,omitempty"`
+	BaselineState       string             `json:"baselineState,omitempty"`
+	Suppressions        []sarifSuppression `json:"suppressions,omitempty"`
+	Properties          map[string]any     `json:"properties,omitempty"`
 }
 
 type sarifNotification struct {
@@ -95,6 +107,7 @@ type sarifNotification struct {
 }
 
 type sarifInvocation struct {
+	ExitCode                   int                 `json:"exitCode"`
 	ExecutionSuccessful        bool                `json:"executionSuccessful"`
 	ToolExecutionNotifications []sarifNotification `json:"toolExecutionNotifications,omitempty"`
 }
@@ -112,41 +125,76 @@ func level(s engine.Severity) string {
 	return "note"
 }
 
+// Invocation describes one run of `check` for the machine-readable formats.
+type Invocation struct {
+	Root     string                     // SRCROOT: the repository's top (or the working folder), absolute
+	WD       string                     // the working folder, absolute: result paths are relative to it
+	Version  string                     // the tool's version
+	Rules    []*engine.Rule             // every known rule
+	Severity map[string]engine.Severity // the effective rule set's severities, for defaultConfiguration
+	// Help renders a rule's explain documentation as plain text and Markdown.
+	Help     func(r *engine.Rule) (text, markdown string)
+	ExitCode int
+	Baseline bool // a baseline was in use: results carry baselineState
+}
+
 // SARIF writes the check results as a SARIF 2.1.0 log.
-func SARIF(w io.Writer, results []check.Result, rules []*engine.Rule, version string) error {
+func SARIF(w io.Writer, results []check.Result, inv Invocation) error {
 	index := map[string]int{}
-	driver := sarifDriver{Name: "headroom", Version: version, Rules: []sarifRule{}}
-	for i, r := range rules {
+	driver := sarifDriver{Name: "headroom", Version: inv.Version, Rules: []sarifRule{}}
+	for i, r := range inv.Rules {
 		index[r.ID] = i
 		full := strings.TrimSpace(r.Doc.Why + " Metric: " + r.Doc.Formula)
-		driver.Rules = append(driver.Rules, sarifRule{ID: r.ID,
-			ShortDescription: sarifText{r.Doc.Title}, FullDescription: sarifText{full},
-			Help: sarifText{r.Doc.Fix}})
+		rule := sarifRule{ID: r.ID, ShortDescription: sarifText{r.Doc.Title}, FullDescription: sarifText{full},
+			Help: sarifMessage{Text: r.Doc.Fix}}
+		if inv.Help != nil {
+			rule.Help.Text, rule.Help.Markdown = inv.Help(r)
+		}
+		if inv.Severity != nil {
+			sev := inv.Severity[r.ID]
+			cfg := &sarifConfig{Enabled: sev != engine.Off, Level: level(sev)}
+			if sev == engine.Off {
+				cfg.Level = "none"
+			}
+			rule.DefaultConfiguration = cfg
+		}
+		driver.Rules = append(driver.Rules, rule)
 	}
 	run := sarifRun{Tool: sarifTool{driver}, ColumnKind: "unicodeCodePoints", Results: []sarifResult{}}
-	if wd, err := os.Getwd(); err == nil {
-		u := url.URL{Scheme: "file", Path: filepath.ToSlash(wd) + "/"}
-		run.OriginalURIBaseIDs = map[string]sarifArtifactLoc{baseID: {URI: u.String()}}
+	if inv.Root != "" {
+		run.OriginalURIBaseIDs = map[string]sarifArtifactLoc{baseID: {URI: fileURI(inv.Root) + "/"}}
 	}
-	inv := sarifInvocation{ExecutionSuccessful: true}
+	invocation := sarifInvocation{ExitCode: inv.ExitCode, ExecutionSuccessful: true}
 	for _, r := range results {
 		if r.Skipped {
 			continue
 		}
 		if r.Err != nil {
 			j := errorJSON(r.Path, r.Err)
-			inv.ExecutionSuccessful = false
-			inv.ToolExecutionNotifications = append(inv.ToolExecutionNotifications, sarifNotification{
+			invocation.ExecutionSuccessful = false
+			invocation.ToolExecutionNotifications = append(invocation.ToolExecutionNotifications, sarifNotification{
 				Level: "error", Message: sarifText{j.Message},
-				Locations: []sarifLocation{location(j.Path, j.Line, j.Column)}})
+				Locations: []sarifLocation{inv.location(j.Path, j.Line, j.Column)}})
 			continue
 		}
-		for _, f := range r.Findings {
+		for i, f := range r.Findings {
 			res := sarifResult{RuleID: f.Rule, RuleIndex: index[f.Rule], Level: level(f.Severity),
 				Message:   sarifText{f.Message + ". Fix: " + f.Fix},
-				Locations: []sarifLocation{location(r.Path, f.Pos.Line, f.Pos.Col)}}
+				Locations: []sarifLocation{inv.location(r.Path, f.Pos.Line, f.Pos.Col)}}
+			if i < len(r.Fingerprints) {
+				res.PartialFingerprints = map[string]string{baseline.FingerprintKey: r.Fingerprints[i]}
+			}
+			if inv.Baseline {
+				res.BaselineState = "new"
+				if f.Baselined {
+					res.BaselineState = "unchanged"
+				}
+			}
 			if f.Waived {
-				res.Suppressions = []sarifSuppression{{Kind: "inSource", Justification: f.Reason}}
+				res.Suppressions = append(res.Suppressions, sarifSuppression{Kind: "inSource", Justification: f.Reason})
+			}
+			if f.Baselined {
+				res.Suppressions = append(res.Suppressions, sarifSuppression{Kind: "external", Justification: "recorded in the baseline file"})
 			}
 			props := map[string]any{}
 			if f.Part != "" {
@@ -165,7 +213,7 @@ func SARIF(w io.Writer, results []check.Result, rules []*engine.Rule, version st
 			run.Results = append(run.Results, res)
 		}
 	}
-	run.Invocations = []sarifInvocation{inv}
+	run.Invocations = []sarifInvocation{invocation}
 	log := sarifLog{Schema: "https://json.schemastore.org/sarif-2.1.0.json", Version: "2.1.0", Runs: []sarifRun{run}}
 	enc := json.NewEncoder(w)
 	enc.SetIndent("", "  ")
@@ -173,17 +221,40 @@ func SARIF(w io.Writer, results []check.Result, rules []*engine.Rule, version st
 	return enc.Encode(log)
 }
 
-// location is a physical location relative to the base id: a relative path
-// with forward slashes, escaped as a URI reference.
-func location(path string, line, col int) sarifLocation {
-	p := filepath.ToSlash(filepath.Clean(path))
-	if path == "-" {
-		p = "stdin"
+// FromRoot returns path (relative to the working folder, or absolute) as a
+// slash-separated path from the root, and false when it lies outside it.
+func (inv Invocation) FromRoot(path string) (string, bool) {
+	abs := path
+	if !filepath.IsAbs(abs) {
+		abs = filepath.Join(inv.WD, path)
 	}
-	u := (&url.URL{Path: p}).String()
-	loc := sarifArtifactLoc{URI: u}
-	if !filepath.IsAbs(path) {
-		loc.URIBaseID = baseID
+	rel, err := filepath.Rel(inv.Root, filepath.Clean(abs))
+	if err != nil || rel == ".." || strings.HasPrefix(rel, ".."+string(filepath.Separator)) {
+		return filepath.ToSlash(abs), false
+	}
+	return filepath.ToSlash(rel), true
+}
+
+// location is a physical location: relative to SRCROOT with forward slashes
+// when the file lies under it, an absolute file: URI otherwise.
+func (inv Invocation) location(path string, line, col int) sarifLocation {
+	var loc sarifArtifactLoc
+	if path == "-" {
+		loc = sarifArtifactLoc{URI: "stdin"}
+	} else if rel, ok := inv.FromRoot(path); ok {
+		loc = sarifArtifactLoc{URI: (&url.URL{Path: rel}).String(), URIBaseID: baseID}
+	} else {
+		loc = sarifArtifactLoc{URI: fileURI(rel)}
 	}
 	return sarifLocation{sarifPhysical{ArtifactLocation: loc, Region: sarifRegion{StartLine: max(line, 1), StartColumn: max(col, 1)}}}
+}
+
+// fileURI is an absolute path as a file: URI (RFC 8089), a drive letter
+// getting its leading slash.
+func fileURI(abs string) string {
+	p := filepath.ToSlash(abs)
+	if !strings.HasPrefix(p, "/") {
+		p = "/" + p
+	}
+	return (&url.URL{Scheme: "file", Path: p}).String()
 }

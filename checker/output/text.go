@@ -63,7 +63,7 @@ func Text(w, errw io.Writer, results []check.Result, pal Palette) {
 		}
 		files++
 		for _, f := range r.Findings {
-			if f.Waived {
+			if f.Waived || f.Baselined {
 				continue
 			}
 			fmt.Fprintf(w, "%s:%d:%d: %s: %s %s\n", r.Path, f.Pos.Line, f.Pos.Col, pal.severity(f.Severity),
@@ -79,10 +79,14 @@ func Text(w, errw io.Writer, results []check.Result, pal Palette) {
 	s := Summarize(results)
 	tail := ""
 	if failed > 0 {
-		tail = fmt.Sprintf("; %s not checked (input errors)", plural(failed, "file"))
+		tail = fmt.Sprintf("; %s not checked (input errors)", Plural(failed, "file"))
 	}
-	fmt.Fprintf(w, "%s, %s, %s, %d waived in %s%s\n", plural(s.Error, "error"), plural(s.Warning, "warning"),
-		plural(s.Info, "info"), s.Waived, plural(files, "circuit file"), tail)
+	baselined := ""
+	if s.Baselined > 0 {
+		baselined = fmt.Sprintf(", %d baselined", s.Baselined)
+	}
+	fmt.Fprintf(w, "%s, %s, %s, %d waived%s in %s%s\n", Plural(s.Error, "error"), Plural(s.Warning, "warning"),
+		Plural(s.Info, "info"), s.Waived, baselined, Plural(files, "circuit file"), tail)
 }
 
 // ErrorLine renders an input error in the GNU form, at 1:1 when it has no position.
@@ -91,7 +95,8 @@ func ErrorLine(path string, err error) string {
 	return fmt.Sprintf("%s:%d:%d: error: %s", j.Path, j.Line, j.Column, j.Message)
 }
 
-func plural(n int, word string) string {
+// Plural writes a count with its word: "1 error", "2 errors", "3 info".
+func Plural(n int, word string) string {
 	if n == 1 || word == "info" {
 		return fmt.Sprintf("%d %s", n, word)
 	}

@@ -52,6 +52,34 @@ func Explain(r *engine.Rule, def, strict *ruleset.Set) string {
 	return b.String()
 }
 
+// Markdown is Explain as Markdown, for SARIF's help.markdown (code-scanning
+// services show it beside an alert).
+func Markdown(r *engine.Rule, def, strict *ruleset.Set) string {
+	var b strings.Builder
+	d := r.Doc
+	fmt.Fprintf(&b, "**%s**: %s\n\n", r.ID, d.Title)
+	fmt.Fprintf(&b, "Severity: %s by default, %s in strict.\n\n", def.Severity[r.ID], strict.Severity[r.ID])
+	mdSection(&b, "Why it matters", d.Why)
+	mdSection(&b, "What it measures", d.Formula)
+	if len(d.Params) > 0 {
+		b.WriteString("#### Parameters\n\n| parameter | default | strict | meaning |\n|---|---|---|---|\n")
+		for _, p := range d.Params {
+			fmt.Fprintf(&b, "| `%s` | %s | %s | %s |\n", p.Name, Value(def.Params[r.ID][p.Name], p.Unit),
+				Value(strict.Params[r.ID][p.Name], p.Unit), p.Help)
+		}
+		b.WriteString("\n")
+	}
+	mdSection(&b, "Source", d.Source)
+	mdSection(&b, "How to fix a finding", d.Fix)
+	return strings.TrimRight(b.String(), "\n") + "\n"
+}
+
+func mdSection(b *strings.Builder, head, text string) {
+	if text != "" {
+		fmt.Fprintf(b, "#### %s\n\n%s\n\n", head, text)
+	}
+}
+
 func section(b *strings.Builder, head, text string) {
 	if text == "" {
 		return

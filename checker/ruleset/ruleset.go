@@ -26,6 +26,8 @@ type Set struct {
 	FailOn    engine.Severity
 	Corners   string   // "worst" or "nominal"
 	Libraries []string // resolved paths, in the order they are merged
+	Files     []string // the rule-set files read, this one and those it extends
+	Baseline  string   // the baseline file's path, resolved; "" = none
 	Severity  map[string]engine.Severity
 	Params    map[string]map[string]float64
 }
@@ -90,7 +92,7 @@ func (l *Loader) load(ref string, seen []string) (*Set, error) {
 	}
 	root := doc.Root
 	root.What = "rule set"
-	root.Allow("name", "extends", "fail_on", "corners", "library", "rules")
+	root.Allow("name", "extends", "fail_on", "corners", "library", "baseline", "rules")
 	if err := doc.Err(); err != nil {
 		return nil, err
 	}
@@ -125,6 +127,9 @@ func (l *Loader) load(ref string, seen []string) (*Set, error) {
 		set.Name = ""
 	}
 	set.Source = file
+	if !builtin {
+		set.Files = append(set.Files, key)
+	}
 	l.apply(root, set, filepath.Dir(key))
 	if err := doc.Err(); err != nil {
 		return nil, err
@@ -138,6 +143,7 @@ func (l *Loader) load(ref string, seen []string) (*Set, error) {
 func (s *Set) clone() *Set {
 	d := *s
 	d.Libraries = append([]string(nil), s.Libraries...)
+	d.Files = append([]string(nil), s.Files...)
 	d.Severity = map[string]engine.Severity{}
 	for k, v := range s.Severity {
 		d.Severity[k] = v
@@ -170,6 +176,15 @@ func (l *Loader) apply(root *tomlfile.Table, set *Set, dir string) {
 			set.Corners = s
 		} else {
 			root.Errorf(root.ValPos("corners"), "corners must be \"worst\" or \"nominal\", not %q", s)
+		}
+	}
+	if s, ok := root.String("baseline", false); ok {
+		if s == "" {
+			set.Baseline = "" // an empty value turns off an inherited baseline
+		} else if filepath.IsAbs(s) {
+			set.Baseline = s
+		} else {
+			set.Baseline = filepath.Join(dir, s)
 		}
 	}
 	if libs, ok := root.Strings("library"); ok {

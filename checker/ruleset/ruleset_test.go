@@ -162,3 +162,24 @@ func FuzzRuleSet(f *testing.F) {
 		}
 	})
 }
+
+// A baseline path is relative to the rule set that names it, is inherited
+// through extends, and an empty value turns an inherited one off.
+func TestBaselineKey(t *testing.T) {
+	texts := map[string]string{
+		"team/base.toml":        "baseline = \"adopt/baseline.json\"\n",
+		"team/boards/kit.toml":  "extends = \"../base.toml\"\n",
+		"team/boards/none.toml": "extends = \"../base.toml\"\nbaseline = \"\"\n",
+	}
+	l := &Loader{Rules: testRules(t), ReadFile: files(texts)}
+	for path, want := range map[string]string{"team/base.toml": "team/adopt/baseline.json",
+		"team/boards/kit.toml": "team/adopt/baseline.json", "team/boards/none.toml": ""} {
+		s, err := l.Load(path)
+		if err != nil {
+			t.Fatalf("%s: %v", path, err)
+		}
+		if s.Baseline != want {
+			t.Errorf("%s: baseline %q, want %q", path, s.Baseline, want)
+		}
+	}
+}

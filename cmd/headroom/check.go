@@ -2,6 +2,7 @@ package main
 
 import (
 	"flag"
+	"fmt"
 	"io"
 	"io/fs"
 	"os"
@@ -12,45 +13,64 @@ import (
 	"sync"
 
 	"headroom/checker/check"
+	"headroom/checker/circuit/tomlfile"
 	"headroom/checker/corners"
 	"headroom/checker/engine"
 	"headroom/checker/output"
+	"headroom/checker/ruledoc"
 	"headroom/rules"
 )
 
 func (e *env) check(args []string) int {
 	fset := flag.NewFlagSet("check", flag.ContinueOnError)
 	rulesRef := fset.String("rules", "", "rule set: a file or a shipped name (default, strict)")
-	format := fset.String("format", "text", "output format: text, json or sarif")
+	format := fset.String("format", "text", "output format: text, json, sarif or github")
 	failOn := fset.String("fail-on", "", "lowest severity that fails the check: error, warning or info")
 	cornersFlag := fset.String("corners", "", "worst (the default) or nominal")
 	colorFlag := fset.String("color", "auto", "colour: auto, always or never")
 	staged := fset.Bool("staged", false, "check the staged (git index) version of every staged circuit file")
-	paths, ok := e.parse(fset, args)
+	fix := fset.Bool("fix", false, "apply every offered fix to the circuit files, then check again")
+	diff := fset.Bool("diff", false, "print the fixes as a unified diff instead of writing them")
+	baselineRef := fset.String("baseline", "", "`FILE` of recorded findings: they are reported as baselined and do not fail")
+	writeBaseline := fset.String("write-baseline", "", "record every unwaived finding in `FILE`, a new baseline")
+	stdinName := fset.String("stdin-filename", "", "the `NAME` of the circuit read from standard input (-), for messages, discovery and fingerprints")
+	paths, status, ok := e.parse(fset, args)
 	if !ok {
-		return exitInput
+		return status
+	}
+	stdinUsed := false
+	for _, p := range paths {
+		stdinUsed = stdinUsed || p == "-"
 	}
 	switch {
-	case !oneOf(*format, "text", "json", "sarif"):
-		return e.usageError("--format must be text, json or sarif, not %q", *format)
+	case !oneOf(*format, "text", "json", "sarif", "github"):
+		return e.usageError("--format must be text, json, sarif or github, not %q", *format)
 	case *failOn != "" && !oneOf(*failOn, "error", "warning", "info"):
 		return e.usageError("--fail-on must be error, warning or info, not %q", *failOn)
 	case *cornersFlag != "" && !oneOf(*cornersFlag, "worst", "nominal"):
 		return e.usageError("--corners must be worst or nominal, not %q", *cornersFlag)
 	case !oneOf(*colorFlag, "auto", "always", "never"):
 		return e.usageError("--color must be auto, always or never, not %q", *colorFlag)
+	case (*fix || *diff) && *staged:
+		return e.usageError("--fix and --diff change the working tree, so they do not go with --staged")
+	case (*fix || *diff) && stdinUsed:
+		return e.usageError("--fix and --diff change files, so they do not go with - (standard input)")
+	case *stdinName != "" && !stdinUsed:
+		return e.usageError("--stdin-filename names the circuit read from -, and no - was given")
 	}
 	opt := check.Options{Rules: rules.All(), RulesRef: *rulesRef, Corners: *cornersFlag, FailOn: *failOn,
 		Today: e.today, Worst: corners.Worst}
 	var inputs []input
+	var idx *indexReader
+	var stagedSet map[string]bool
 	if *staged {
-		idx, err := newIndexReader()
-		if err != nil {
+		var err error
+		if idx, err = newIndexReader(); err != nil {
 			return e.usageError("%v", err)
 		}
+		defer idx.Close()
 		opt.ReadFile, opt.Exists = idx.ReadFile, idx.Exists
-		inputs, err = idx.stagedCircuits(paths)
-		if err != nil {
+		if inputs, stagedSet, err = idx.stagedCircuits(paths); err != nil {
 			return e.usageError("%v", err)
 		}
 	} else {
@@ -58,13 +78,35 @@ func (e *env) check(args []string) int {
 			paths = []string{"."}
 		}
 		var err error
-		inputs, err = e.collect(paths)
-		if err != nil {
+		if inputs, err = e.collect(paths, *stdinName); err != nil {
 			return e.usageError("%v", err)
 		}
 	}
-	results := checkAll(check.NewRunner(opt), inputs)
-	status := exitOK
+	read := opt.ReadFile
+	if read == nil {
+		read = os.ReadFile
+	}
+	runner := check.NewRunner(opt)
+	results := checkAll(runner, inputs)
+	results = skipBrokenConfigs(inputs, results, read)
+	if idx != nil {
+		results = keepTouched(idx, inputs, results, stagedSet)
+	}
+	inv := e.invocation(runner)
+	var diffs []fileDiff
+	if *fix || *diff {
+		results, diffs = fixAll(runner, results, !*diff, e.stderr)
+	}
+	used, err := e.applyBaseline(runner, results, inv, *baselineRef, read)
+	inv.Baseline = used
+	if err != nil {
+		fmt.Fprintln(e.stderr, output.ErrorLine("", err))
+		return exitInput
+	}
+	if *writeBaseline != "" {
+		return e.writeBaseline(*writeBaseline, results, inv)
+	}
+	status = exitOK
 	for _, r := range results {
 		if r.Err != nil {
 			status = exitInput
@@ -73,24 +115,117 @@ func (e *env) check(args []string) int {
 	if status == exitOK && failing(results) {
 		status = exitFindings
 	}
+	inv.ExitCode = status
+	if *diff {
+		e.writeErrors(results)
+		for _, d := range diffs {
+			io.WriteString(e.stdout, d.unified())
+		}
+		return status
+	}
 	switch *format {
 	case "json":
 		e.writeErrors(results)
 		output.JSON(e.stdout, results, nil)
 	case "sarif":
 		e.writeErrors(results)
-		output.SARIF(e.stdout, results, rules.All(), version)
+		inv.Help = ruleHelp()
+		output.SARIF(e.stdout, results, inv)
+	case "github":
+		e.writeErrors(results)
+		output.GitHub(e.stdout, results, inv)
 	default:
 		output.Text(e.stdout, e.stderr, results, output.NewPalette(e.colour(*colorFlag)))
 	}
 	return status
 }
 
+// invocation describes this run for the machine-readable formats: SRCROOT is
+// the top of the git work tree around the working folder, else the working
+// folder; the rules' default levels come from the rule set found here.
+func (e *env) invocation(runner *check.Runner) output.Invocation {
+	wd, _ := os.Getwd()
+	if r, err := filepath.EvalSymlinks(wd); err == nil {
+		wd = r
+	}
+	root := workTreeTop(wd)
+	inv := output.Invocation{Root: root, WD: wd, Version: version, Rules: rules.All()}
+	if set, err := runner.RuleSet(filepath.Join(wd, "circuit.toml")); err == nil {
+		inv.Severity = set.Severity
+	}
+	return inv
+}
+
+// workTreeTop is the nearest folder at or above dir that holds .git (a
+// folder, or the file of a linked work tree), else dir: found on disk, as
+// rule-set discovery finds the repository root, without starting git.
+func workTreeTop(dir string) string {
+	for d := dir; ; {
+		if _, err := os.Lstat(filepath.Join(d, ".git")); err == nil {
+			return d
+		}
+		parent := filepath.Dir(d)
+		if parent == d {
+			return dir
+		}
+		d = parent
+	}
+}
+
+// ruleHelp renders a rule's explain documentation for SARIF's help.
+func ruleHelp() func(r *engine.Rule) (string, string) {
+	def, strict, err := ruledoc.Shipped(rules.All())
+	if err != nil {
+		return nil
+	}
+	return func(r *engine.Rule) (string, string) {
+		return ruledoc.Explain(r, def, strict), ruledoc.Markdown(r, def, strict)
+	}
+}
+
+// skipBrokenConfigs skips a file found by a folder walk or in the index that
+// does not parse as TOML and has no [circuit] header in its text: a broken
+// tool configuration, not a circuit, so it does not block a check of circuits.
+func skipBrokenConfigs(inputs []input, results []check.Result, read func(string) ([]byte, error)) []check.Result {
+	for i, r := range results {
+		if r.Err == nil || !inputs[i].walked {
+			continue
+		}
+		data := inputs[i].data
+		if data == nil {
+			var err error
+			if data, err = read(inputs[i].path); err != nil {
+				continue
+			}
+		}
+		if circuitHeader.Match(data) {
+			continue
+		}
+		if _, err := tomlfile.Parse(r.Path, data); err != nil {
+			results[i] = check.Result{Path: r.Path, Skipped: true}
+		}
+	}
+	return results
+}
+
+// keepTouched drops the files that were checked only because a rule set or
+// library was staged, unless they use one of the staged files.
+func keepTouched(idx *indexReader, inputs []input, results []check.Result, staged map[string]bool) []check.Result {
+	var out []check.Result
+	for i, r := range results {
+		if inputs[i].extra && !idx.usesStaged(r.Uses, staged) {
+			continue
+		}
+		out = append(out, r)
+	}
+	return out
+}
+
 // failing reports whether any unwaived finding reaches its file's fail-on severity.
 func failing(results []check.Result) bool {
 	for _, r := range results {
 		for _, f := range r.Findings {
-			if !f.Waived && f.Severity >= r.FailOn && f.Severity != engine.Off {
+			if !f.Waived && !f.Baselined && f.Severity >= r.FailOn && f.Severity != engine.Off {
 				return true
 			}
 		}
@@ -109,13 +244,15 @@ func (e *env) writeErrors(results []check.Result) {
 }
 
 type input struct {
-	path string
-	data []byte // nil: read from path
+	path   string
+	data   []byte // nil: read from path
+	walked bool   // found by a folder walk or in the index, not named
+	extra  bool   // --staged: not staged, checked for a staged rule set or library
 }
 
 // collect expands folders into their *.toml files (sorted, hidden folders
-// skipped) and reads "-" from standard input.
-func (e *env) collect(paths []string) ([]input, error) {
+// skipped) and reads "-" from standard input, named stdinName when given.
+func (e *env) collect(paths []string, stdinName string) ([]input, error) {
 	var out []input
 	for _, p := range paths {
 		if p == "-" {
@@ -123,7 +260,11 @@ func (e *env) collect(paths []string) ([]input, error) {
 			if err != nil {
 				return nil, err
 			}
-			out = append(out, input{path: "-", data: b})
+			name := "-"
+			if stdinName != "" {
+				name = stdinName
+			}
+			out = append(out, input{path: name, data: b})
 			continue
 		}
 		st, err := os.Stat(p)
@@ -149,7 +290,7 @@ func (e *env) collect(paths []string) ([]input, error) {
 		}
 		sort.Strings(found)
 		for _, f := range found {
-			out = append(out, input{path: f})
+			out = append(out, input{path: f, walked: true})
 		}
 	}
 	return out, nil

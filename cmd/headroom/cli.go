@@ -1,13 +1,53 @@
 package main
 
 import (
+	"errors"
 	"flag"
 	"fmt"
 	"io"
+	"runtime/debug"
 )
 
-// version is the program's version; set by the release build.
-var version = "0.1.0-dev"
+// version is the program's version: the module version and VCS revision
+// the Go toolchain recorded in the binary (see buildVersion).
+var version = buildVersion()
+
+// buildVersion reads the build information: the module version ("v1.2.0"
+// when installed by version, "(devel)" from a clone) followed by the VCS
+// revision and "+dirty" for uncommitted changes, when the build recorded them.
+func buildVersion() string {
+	info, ok := debug.ReadBuildInfo()
+	if !ok {
+		return "(devel)"
+	}
+	return versionOf(info)
+}
+
+func versionOf(info *debug.BuildInfo) string {
+	v := info.Main.Version
+	if v == "" {
+		v = "(devel)"
+	}
+	var rev, modified string
+	for _, s := range info.Settings {
+		switch s.Key {
+		case "vcs.revision":
+			rev = s.Value
+		case "vcs.modified":
+			modified = s.Value
+		}
+	}
+	if rev != "" && v == "(devel)" {
+		if len(rev) > 12 {
+			rev = rev[:12]
+		}
+		v += " " + rev
+		if modified == "true" {
+			v += "+dirty"
+		}
+	}
+	return v
+}
 
 type env struct {
 	stdin          io.Reader
@@ -18,14 +58,53 @@ type env struct {
 }
 
 const usage = `usage:
-  headroom check   [--rules FILE|NAME] [--format text|json|sarif] [--fail-on SEVERITY]
-                   [--corners worst|nominal] [--color auto|always|never] [--staged] [PATH ...]
-  headroom report  [--format text|markdown|json] [--corners worst|nominal] FILE
+  headroom check   [--rules FILE|NAME] [--format text|json|sarif|github] [--fail-on SEVERITY]
+                   [--corners worst|nominal] [--color auto|always|never] [--staged]
+                   [--fix] [--diff] [--baseline FILE] [--write-baseline FILE]
+                   [--stdin-filename NAME] [PATH ...]
+  headroom report  [--format text|markdown|json] [--corners worst|nominal] [--rules FILE|NAME] FILE
   headroom rules   [--rules FILE|NAME] [--format text|json]
   headroom explain RULE
   headroom hook    install [--force] | uninstall
   headroom version
+
+headroom COMMAND --help describes one command.
 `
+
+// commands holds each command's synopsis and purpose, for COMMAND --help.
+var commands = map[string][2]string{
+	"check":          {"[flags] [PATH ...]", "Checks circuit files (folders are searched for *.toml; - reads standard input) against their rule set."},
+	"report":         {"[flags] FILE", "Prints a circuit's computed operating point, impedances and dissipations."},
+	"rules":          {"[flags]", "Lists the rules of the rule set in force, with severities and parameters."},
+	"explain":        {"RULE", "Explains one rule: why it matters, what it measures, its parameters, its source and the fix."},
+	"hook":           {"install [--force] | uninstall", "Installs or removes the git pre-commit hook that runs check --staged."},
+	"hook install":   {"[--force]", "Installs the git pre-commit hook that runs check --staged; --force replaces another hook, keeping a backup."},
+	"hook uninstall": {"", "Removes the pre-commit hook, only if headroom wrote it and it is unchanged."},
+	"version":        {"", "Prints the version: module version and VCS revision of the build."},
+}
+
+// commandUsage prints one command's usage and flags on w.
+func commandUsage(w io.Writer, name string, fs *flag.FlagSet) {
+	c := commands[name]
+	fmt.Fprintf(w, "usage: headroom %s %s\n\n%s\n", name, c[0], c[1])
+	if fs == nil {
+		return
+	}
+	has := false
+	fs.VisitAll(func(*flag.Flag) { has = true })
+	if has {
+		fmt.Fprint(w, "\nflags:\n")
+		out := fs.Output()
+		fs.SetOutput(w)
+		fs.PrintDefaults()
+		fs.SetOutput(out)
+	}
+}
+
+// isHelp reports whether args ask for help (-h, --help, -help).
+func isHelp(args []string) bool {
+	return len(args) == 1 && oneOf(args[0], "-h", "--help", "-help")
+}
 
 func (e *env) run(args []string) int {
 	if len(args) == 0 {
@@ -45,6 +124,10 @@ func (e *env) run(args []string) int {
 	case "hook":
 		return e.hook(rest)
 	case "version", "--version":
+		if isHelp(rest) {
+			commandUsage(e.stdout, "version", nil)
+			return exitOK
+		}
 		fmt.Fprintf(e.stdout, "headroom %s\n", version)
 		return exitOK
 	case "help", "-h", "--help":
@@ -57,16 +140,25 @@ func (e *env) run(args []string) int {
 
 // parse reads flags wherever they stand among the arguments, as users type
 // them ("check board.toml --format json"). "-" is a positional argument.
-func (e *env) parse(fs *flag.FlagSet, args []string) ([]string, bool) {
+// When it returns false the command ends with the status returned: 0 after
+// -h or --help (the command's usage on standard output), 2 after a bad flag.
+func (e *env) parse(fs *flag.FlagSet, args []string) ([]string, int, bool) {
 	fs.SetOutput(e.stderr)
+	fs.Usage = func() {} // -h prints the usage on standard output below; a bad flag gets a hint
+
 	var pos []string
 	for {
 		if err := fs.Parse(args); err != nil {
-			return nil, false
+			if errors.Is(err, flag.ErrHelp) {
+				commandUsage(e.stdout, fs.Name(), fs)
+				return nil, exitOK, false
+			}
+			fmt.Fprintf(e.stderr, "run 'headroom %s --help' for the flags\n", fs.Name())
+			return nil, exitInput, false
 		}
 		args = fs.Args()
 		if len(args) == 0 {
-			return pos, true
+			return pos, 0, true
 		}
 		pos = append(pos, args[0])
 		args = args[1:]

@@ -78,8 +78,12 @@ func runCLI(t *testing.T, path string) {
 	e := &env{stdin: bytes.NewReader(stdin), stdout: &stdout, stderr: &stderr,
 		getenv: func(k string) string { return vars[k] }, today: today,
 		isTerminal: func(any) bool { return vars["TERMINAL"] == "1" }}
-	code := e.run(strings.Fields(dirs["args"]))
+	args := strings.Fields(dirs["args"])
+	code := e.run(args)
 	got := map[string][]byte{"stdout": stdout.Bytes(), "stderr": stderr.Bytes()}
+	if strings.Contains(" "+strings.Join(args, " ")+" ", " --format sarif ") {
+		validate(t, compileSchema(t, sarifSchema), stdout.Bytes()) // every SARIF golden is valid SARIF 2.1.0
+	}
 	if *update {
 		var keep []txtar.File
 		for _, f := range ar.Files {

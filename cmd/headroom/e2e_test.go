@@ -17,7 +17,7 @@ var (
 	buildErr  error
 )
 
-func binary(t *testing.T) string {
+func binary(t testing.TB) string {
 	t.Helper()
 	buildOnce.Do(func() {
 		dir, err := os.MkdirTemp("", "headroom-bin")
@@ -54,7 +54,7 @@ func runIn(t *testing.T, dir string, env []string, name string, args ...string) 
 	return string(out), 0
 }
 
-func write(t *testing.T, dir, name, text string) {
+func write(t testing.TB, dir, name, text string) {
 	t.Helper()
 	p := filepath.Join(dir, name)
 	os.MkdirAll(filepath.Dir(p), 0o755)

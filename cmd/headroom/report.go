@@ -20,9 +20,9 @@ func (e *env) report(args []string) int {
 	format := fset.String("format", "text", "text, markdown or json")
 	cornersFlag := fset.String("corners", "", "worst or nominal (default: the rule set's)")
 	rulesRef := fset.String("rules", "", "rule set for its library and corners (default: discovery)")
-	paths, ok := e.parse(fset, args)
+	paths, status, ok := e.parse(fset, args)
 	if !ok {
-		return exitInput
+		return status
 	}
 	switch {
 	case len(paths) != 1:

@@ -14,9 +14,9 @@ func (e *env) rules(args []string) int {
 	fset := flag.NewFlagSet("rules", flag.ContinueOnError)
 	ref := fset.String("rules", "", "rule set: a file or a shipped name (default: discovery from this folder)")
 	format := fset.String("format", "text", "text or json")
-	rest, ok := e.parse(fset, args)
+	rest, status, ok := e.parse(fset, args)
 	if !ok {
-		return exitInput
+		return status
 	}
 	if len(rest) > 0 {
 		return e.usageError("rules takes no arguments")
@@ -70,6 +70,10 @@ func (e *env) rules(args []string) int {
 }
 
 func (e *env) explain(args []string) int {
+	if isHelp(args) {
+		commandUsage(e.stdout, "explain", nil)
+		return exitOK
+	}
 	if len(args) != 1 {
 		return e.usageError("explain takes one rule id, e.g. headroom explain bias.divider-stiffness")
 	}

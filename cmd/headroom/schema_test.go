@@ -12,6 +12,10 @@ import (
 	"golang.org/x/tools/txtar"
 )
 
+// sarifSchema is the official SARIF 2.1.0 schema (OASIS; source in
+// testdata/schema/README.md).
+const sarifSchema = "sarif-schema-2.1.0.json"
+
 // compileSchema loads one of the schemas in testdata/schema.
 func compileSchema(t *testing.T, name string) *jsonschema.Schema {
 	t.Helper()
@@ -117,12 +121,11 @@ func TestCheckJSONSchema(t *testing.T) {
 	}
 }
 
-// TestSARIF validates `check --format sarif` against the subset of SARIF
-// 2.1.0 that headroom emits (testdata/schema/sarif-2.1.0-subset.schema.json,
-// written from the OASIS standard; the official schema is not shipped) and
-// checks the properties the standard requires of what we emit.
+// TestSARIF validates `check --format sarif` against the official OASIS
+// SARIF 2.1.0 schema (testdata/schema/sarif-schema-2.1.0.json, see the README
+// beside it) and checks the properties the standard requires of what we emit.
 func TestSARIF(t *testing.T) {
-	s := compileSchema(t, "sarif-2.1.0-subset.schema.json")
+	s := compileSchema(t, sarifSchema)
 	out := checkOutput(t, corpus(t), "sarif")
 	validate(t, s, out)
 	var log struct {
@@ -130,7 +133,15 @@ func TestSARIF(t *testing.T) {
 			OriginalURIBaseIDs map[string]struct{ URI string } `json:"originalUriBaseIds"`
 			Tool               struct {
 				Driver struct {
-					Rules []struct{ ID string }
+					Rules []struct {
+						ID                   string
+						FullDescription      struct{ Text string }
+						Help                 struct{ Text, Markdown string }
+						DefaultConfiguration struct {
+							Enabled bool
+							Level   string
+						}
+					}
 				}
 			}
 			Results []struct {
@@ -141,9 +152,11 @@ func TestSARIF(t *testing.T) {
 						ArtifactLocation struct{ URI, URIBaseID string }
 					}
 				}
-				Suppressions []struct{ Kind, Justification string }
+				Suppressions        []struct{ Kind, Justification string }
+				PartialFingerprints map[string]string
 			}
 			Invocations []struct {
+				ExitCode            int
 				ExecutionSuccessful bool
 				Notifications       []any `json:"toolExecutionNotifications"`
 			}
@@ -179,7 +192,26 @@ func TestSARIF(t *testing.T) {
 	if !suppressed {
 		t.Error("the waived finding must appear as an inSource suppression with its reason")
 	}
+	for _, r := range run.Tool.Driver.Rules {
+		// The help is the explain text (its first line names the rule), in text and Markdown.
+		if !strings.HasPrefix(r.Help.Text, r.ID+": ") || !strings.Contains(r.Help.Markdown, "**"+r.ID+"**") ||
+			r.FullDescription.Text == "" || r.DefaultConfiguration.Level == "" {
+			t.Errorf("rule %s: help, full description or default configuration missing", r.ID)
+		}
+	}
+	for _, r := range run.Results {
+		if len(r.PartialFingerprints["headroomFinding/v1"]) != 32 {
+			t.Errorf("result %s: no fingerprint", r.RuleID)
+		}
+	}
+	if inv := run.Invocations; len(inv) != 1 || inv[0].ExitCode != exitInput {
+		t.Errorf("the invocation must record exit status 2 for a corpus with an input error")
+	}
 	if inv := run.Invocations; len(inv) != 1 || inv[0].ExecutionSuccessful || len(inv[0].Notifications) == 0 {
 		t.Error("an input error must make the invocation unsuccessful with a notification")
 	}
+}
+
+func jsonschemaUnmarshal(s string) (any, error) {
+	return jsonschema.UnmarshalJSON(strings.NewReader(s))
 }
