@@ -1,7 +1,9 @@
 package main
 
 import (
+	"errors"
 	"flag"
+	"fmt"
 	"io"
 	"io/fs"
 	"os"
@@ -12,8 +14,10 @@ import (
 	"sync"
 
 	"headroom/checker/check"
+	"headroom/checker/circuit"
 	"headroom/checker/corners"
 	"headroom/checker/engine"
+	"headroom/checker/inputfile"
 	"headroom/checker/output"
 	"headroom/rules"
 )
@@ -43,6 +47,7 @@ func (e *env) check(args []string) int {
 	opt := check.Options{Rules: rules.All(), RulesRef: *rulesRef, Corners: *cornersFlag, FailOn: *failOn,
 		Today: e.today, Worst: corners.Worst}
 	var inputs []input
+	var skipped skips
 	if *staged {
 		idx, err := newIndexReader()
 		if err != nil {
@@ -58,7 +63,7 @@ func (e *env) check(args []string) int {
 			paths = []string{"."}
 		}
 		var err error
-		inputs, err = e.collect(paths)
+		inputs, skipped, err = e.collect(paths)
 		if err != nil {
 			return e.usageError("%v", err)
 		}
@@ -82,6 +87,9 @@ func (e *env) check(args []string) int {
 		output.SARIF(e.stdout, results, rules.All(), version)
 	default:
 		output.Text(e.stdout, e.stderr, results, output.NewPalette(e.colour(*colorFlag)))
+		if line := skipped.String(); line != "" {
+			fmt.Fprintln(e.stdout, line)
+		}
 	}
 	return status
 }
@@ -111,48 +119,101 @@ func (e *env) writeErrors(results []check.Result) {
 type input struct {
 	path string
 	data []byte // nil: read from path
+	err  error  // a folder that could not be read: reported as an input error of its own
 }
 
-// collect expands folders into their *.toml files (sorted, hidden folders
-// skipped) and reads "-" from standard input.
-func (e *env) collect(paths []string) ([]input, error) {
+// skips counts what a folder walk passed over, for the summary.
+type skips struct {
+	hidden, symlinked int
+}
+
+// String is the one short line the text summary ends with; "" when nothing was skipped.
+func (s skips) String() string {
+	var parts []string
+	if s.hidden > 0 {
+		parts = append(parts, plural(s.hidden, "hidden folder")+" (name starts with a dot)")
+	}
+	if s.symlinked > 0 {
+		parts = append(parts, plural(s.symlinked, "symlinked folder")+" (links inside a folder are not followed)")
+	}
+	if len(parts) == 0 {
+		return ""
+	}
+	return "skipped " + strings.Join(parts, ", ")
+}
+
+func plural(n int, what string) string {
+	if n == 1 {
+		return fmt.Sprintf("1 %s", what)
+	}
+	return fmt.Sprintf("%d %ss", n, what)
+}
+
+// readDir lists a folder; tests replace it to make a folder unreadable
+// (the tests may run as root, whom permissions do not stop).
+var readDir = os.ReadDir
+
+// collect expands folders into their *.toml files (sorted) and reads "-" from
+// standard input. A folder named on the command line is walked even when it
+// is a symlink; inside it, hidden folders and symlinked folders are skipped
+// (counted for the summary: a link may lead out of the tree or round in a
+// loop) and .git is passed over without a word. A folder that cannot be read
+// is an input error.
+func (e *env) collect(paths []string) ([]input, skips, error) {
 	var out []input
+	var sk skips
 	for _, p := range paths {
 		if p == "-" {
-			b, err := io.ReadAll(e.stdin)
+			b, err := inputfile.ReadAll(e.stdin)
 			if err != nil {
-				return nil, err
+				return nil, sk, fmt.Errorf("standard input: %w", err)
 			}
 			out = append(out, input{path: "-", data: b})
 			continue
 		}
-		st, err := os.Stat(p)
+		st, err := os.Stat(p) // follows a symlink named on the command line
 		if err != nil || !st.IsDir() {
 			out = append(out, input{path: p}) // an unreadable path is an input error of its own
 			continue
 		}
-		var found []string
-		err = filepath.WalkDir(p, func(path string, d fs.DirEntry, err error) error {
-			if err != nil {
-				return nil
-			}
-			if d.IsDir() && path != p && strings.HasPrefix(d.Name(), ".") {
-				return filepath.SkipDir
-			}
-			if !d.IsDir() && strings.HasSuffix(d.Name(), ".toml") && d.Name() != ".headroom.toml" {
-				found = append(found, path)
-			}
-			return nil
-		})
-		if err != nil {
-			return nil, err
+		var found []input
+		walk(p, &found, &sk)
+		sort.Slice(found, func(i, j int) bool { return found[i].path < found[j].path })
+		out = append(out, found...)
+	}
+	return out, sk, nil
+}
+
+// walk appends dir's circuit-file candidates and unreadable sub-folders to found.
+func walk(dir string, found *[]input, sk *skips) {
+	entries, err := readDir(dir)
+	if err != nil {
+		var pe *fs.PathError
+		if errors.As(err, &pe) {
+			err = pe.Err
 		}
-		sort.Strings(found)
-		for _, f := range found {
-			out = append(out, input{path: f})
+		*found = append(*found, input{path: dir, err: fmt.Errorf("cannot read folder: %v", err)})
+		return
+	}
+	for _, d := range entries {
+		path := filepath.Join(dir, d.Name())
+		switch {
+		case d.IsDir() && d.Name() == ".git":
+		case d.IsDir() && strings.HasPrefix(d.Name(), "."):
+			sk.hidden++
+		case d.IsDir():
+			walk(path, found, sk)
+		case d.Type()&fs.ModeSymlink != 0 && isDir(path):
+			sk.symlinked++
+		case strings.HasSuffix(d.Name(), ".toml") && d.Name() != ".headroom.toml":
+			*found = append(*found, input{path: path}) // not a regular file: refused when read
 		}
 	}
-	return out, nil
+}
+
+func isDir(p string) bool {
+	st, err := os.Stat(p)
+	return err == nil && st.IsDir()
 }
 
 // colour decides whether to colour: --color wins; with auto, only on a
@@ -188,6 +249,11 @@ func checkAll(runner *check.Runner, inputs []input) []check.Result {
 		go func() {
 			defer wg.Done()
 			for i := range next {
+				if err := inputs[i].err; err != nil {
+					results[i] = check.Result{Path: inputs[i].path, Err: &circuit.InputError{
+						Pos: circuit.Pos{File: inputs[i].path, Line: 1, Col: 1}, Msg: err.Error()}}
+					continue
+				}
 				results[i] = runner.File(inputs[i].path, inputs[i].data)
 			}
 		}()

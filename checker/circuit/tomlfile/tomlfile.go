@@ -12,6 +12,7 @@ import (
 	"errors"
 	"fmt"
 	"math"
+	"regexp"
 	"sort"
 	"strconv"
 	"strings"
@@ -70,9 +71,9 @@ func Parse(file string, data []byte) (*Doc, error) {
 	if _, err := toml.Decode(s, &m); err != nil {
 		var pe toml.ParseError
 		if errors.As(err, &pe) {
-			return nil, &Error{File: file, Pos: parseErrorPos(s, pe.Position), Msg: "not valid TOML: " + pe.Message}
+			return nil, &Error{File: file, Pos: parseErrorPos(s, pe.Position), Msg: "not valid TOML: " + redact(pe.Message)}
 		}
-		return nil, &Error{File: file, Pos: start, Msg: "not valid TOML: " + err.Error()}
+		return nil, &Error{File: file, Pos: start, Msg: "not valid TOML: " + redact(err.Error())}
 	}
 	if m == nil {
 		m = map[string]any{}
@@ -80,6 +81,20 @@ func Parse(file string, data []byte) (*Doc, error) {
 	d := &Doc{File: file, idx: idx}
 	d.Root = &Table{doc: d, m: m, Pos: start, What: "file"}
 	return d, nil
+}
+
+// quoted matches what the TOML parser quotes of the text in its messages.
+var quoted = regexp.MustCompile(`'[^'\n]*'|"(?:[^"\\\n]|\\.)*"`)
+
+// redact drops what a parser message quotes of the text: a file that is not
+// TOML may be anything (a credentials file named as a library), and its
+// content must not reach a CI log. The position says where to look.
+func redact(msg string) string {
+	msg = quoted.ReplaceAllString(msg, "…")
+	if r := []rune(msg); len(r) > 160 {
+		msg = string(r[:160]) + "…"
+	}
+	return msg
 }
 
 // parseErrorPos turns the parser's position into a line and code-point
