@@ -8,6 +8,7 @@ import (
 
 	"headroom/checker/check"
 	"headroom/checker/engine"
+	"headroom/checker/printable"
 )
 
 // Palette colours the text output; the zero value prints plain text.
@@ -66,13 +67,13 @@ func Text(w, errw io.Writer, results []check.Result, pal Palette) {
 			if f.Waived {
 				continue
 			}
-			fmt.Fprintf(w, "%s:%d:%d: %s: %s %s\n", r.Path, f.Pos.Line, f.Pos.Col, pal.severity(f.Severity),
-				f.Message, pal.paint(pal.rule, "["+f.Rule+"]"))
+			fmt.Fprintf(w, "%s:%d:%d: %s: %s %s\n", printable.String(r.Path), f.Pos.Line, f.Pos.Col, pal.severity(f.Severity),
+				printable.String(f.Message), pal.paint(pal.rule, "["+f.Rule+"]"))
 			if c := f.CornerText; c != "" {
-				fmt.Fprintf(w, "    %s %s\n", pal.paint(pal.faint, "worst case:"), c)
+				fmt.Fprintf(w, "    %s %s\n", pal.paint(pal.faint, "worst case:"), printable.String(c))
 			}
 			if f.Fix != "" {
-				fmt.Fprintf(w, "    %s %s\n", pal.paint(pal.faint, "fix:"), f.Fix)
+				fmt.Fprintf(w, "    %s %s\n", pal.paint(pal.faint, "fix:"), printable.String(f.Fix))
 			}
 		}
 	}
@@ -85,10 +86,11 @@ func Text(w, errw io.Writer, results []check.Result, pal Palette) {
 		plural(s.Info, "info"), s.Waived, plural(files, "circuit file"), tail)
 }
 
-// ErrorLine renders an input error in the GNU form, at 1:1 when it has no position.
+// ErrorLine renders an input error in the GNU form, at 1:1 when it has no
+// position, with control characters escaped: one error is one line.
 func ErrorLine(path string, err error) string {
 	j := errorJSON(path, err)
-	return fmt.Sprintf("%s:%d:%d: error: %s", j.Path, j.Line, j.Column, j.Message)
+	return fmt.Sprintf("%s:%d:%d: error: %s", printable.String(j.Path), j.Line, j.Column, printable.String(j.Message))
 }
 
 func plural(n int, word string) string {

@@ -4,6 +4,8 @@ import (
 	"flag"
 	"fmt"
 	"io"
+
+	"headroom/checker/printable"
 )
 
 // version is the program's version; set by the release build.
@@ -74,7 +76,7 @@ func (e *env) parse(fs *flag.FlagSet, args []string) ([]string, bool) {
 }
 
 func (e *env) usageError(format string, a ...any) int {
-	fmt.Fprintf(e.stderr, "headroom: "+format+"\n", a...)
+	fmt.Fprintf(e.stderr, "headroom: %s\n", printable.String(fmt.Sprintf(format, a...)))
 	return exitInput
 }
 
