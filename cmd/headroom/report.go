@@ -78,7 +78,7 @@ func (e *env) report(args []string) int {
 	default:
 		r.Text(e.stdout)
 	}
-	if r.Case.OP == nil {
+	if r.Case.OP == nil || r.Case.ACErr != nil { // nothing, or not everything, could be computed
 		return exitFindings
 	}
 	return exitOK
