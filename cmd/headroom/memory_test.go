@@ -40,37 +40,48 @@ func allocated(t *testing.T, dir string, args ...string) (uint64, int, string) {
 	return after.TotalAlloc - before.TotalAlloc, code, stderr.String()
 }
 
-// Memory grows linearly with the input: checking a 10 MB file, or a file
-// with an unknown key of 100,000 characters or of 10 MB, allocates at most a
-// fixed multiple of the file's size. (Before the spelling suggestions were
-// bounded, the 10 MB key cost about 800 MB: a full distance table per
-// candidate key.)
+// Memory grows linearly with the input: checking a 10 MB file, a net name
+// of 10 MB (its one connection asks for the closest net), an unknown rule id
+// of 100,000 characters in a rule set and a file missing a key beside a
+// 100,000-character one (both ask for the closest name) allocates at most a
+// fixed multiple of the input's size. Before the spelling suggestions were
+// bounded, each candidate cost a full distance table: 8 bytes × the length
+// of the name × the length of the candidate.
 func TestMemoryLinear(t *testing.T) {
-	// Measured: 7.5 bytes allocated per byte of input for the comments, 21–23
-	// for the keys; the old full distance table cost 80 per byte per candidate key.
+	// Measured after the fix: 7.5 bytes allocated per byte of input for the
+	// commented file, about 22 for the long names. The unknown rule id cost
+	// about 3,800 per byte before (twenty-odd rule ids of about 20 characters).
 	const perByte = 32
 	tenMB := 10 << 20
+	long := strings.Repeat("k", 100_000)
 	for _, c := range []struct {
-		name, text string
-		code       int
+		name, text, set string
+		code            int
 	}{
-		{"10 MB of comments", smallBoard + strings.Repeat("# "+strings.Repeat("x", 77)+"\n", tenMB/80), 0},
-		{"100,000-character key", strings.Replace(smallBoard, "[supplies.vcc]", strings.Repeat("k", 100_000)+" = 1\n\n[supplies.vcc]", 1), 2},
-		{"10 MB key", strings.Replace(smallBoard, "[supplies.vcc]", strings.Repeat("k", tenMB)+" = 1\n\n[supplies.vcc]", 1), 2},
+		{"10 MB of comments", smallBoard + strings.Repeat("# "+strings.Repeat("x", 77)+"\n", tenMB/80), "", 0},
+		{"10 MB net name", strings.Replace(smallBoard, `nets = ["vcc", "gnd"]`, `nets = ["vcc", "`+strings.Repeat("n", tenMB)+`"]`, 1), "", 1},
+		{"100,000-character rule id", smallBoard, "[rules." + long + "]\nseverity = \"off\"\n", 2},
+		{"100,000-character key, band missing", strings.Replace(smallBoard, `band = ["10.1MHz", "10.15MHz"]`, long+" = 1", 1), "", 2},
 	} {
 		t.Run(c.name, func(t *testing.T) {
 			dir := t.TempDir()
 			if err := os.WriteFile(filepath.Join(dir, "board.toml"), []byte(c.text), 0o644); err != nil {
 				t.Fatal(err)
 			}
-			got, code, stderr := allocated(t, dir, "check", "--corners", "nominal", "board.toml")
+			args := []string{"check", "--corners", "nominal", "board.toml"}
+			if c.set != "" {
+				os.WriteFile(filepath.Join(dir, "set.toml"), []byte(c.set), 0o644)
+				args = append(args, "--rules", "set.toml")
+			}
+			got, code, stderr := allocated(t, dir, args...)
 			if code != c.code {
 				t.Fatalf("exit %d, want %d; stderr %.200s", code, c.code, stderr)
 			}
-			limit := uint64(perByte*len(c.text)) + 64<<20 // plus a fixed allowance for the program itself
-			t.Logf("%s: %d bytes of input, %d allocated (%.1f per byte)", c.name, len(c.text), got, float64(got)/float64(len(c.text)))
+			size := len(c.text) + len(c.set)
+			limit := uint64(perByte*size) + 8<<20 // plus a fixed allowance for the program itself
+			t.Logf("%s: %d bytes of input, %d allocated (%.1f per byte)", c.name, size, got, float64(got)/float64(size))
 			if got > limit {
-				t.Errorf("allocated %d bytes for %d bytes of input: more than %d per byte", got, len(c.text), perByte)
+				t.Errorf("allocated %d bytes for %d bytes of input: more than %d per byte", got, size, perByte)
 			}
 		})
 	}
