@@ -124,7 +124,7 @@ type input struct {
 
 // skips counts what a folder walk passed over, for the summary.
 type skips struct {
-	hidden, symlinked int
+	hidden, symlinked, outside int
 }
 
 // String is the one short line the text summary ends with; "" when nothing was skipped.
@@ -135,6 +135,9 @@ func (s skips) String() string {
 	}
 	if s.symlinked > 0 {
 		parts = append(parts, plural(s.symlinked, "symlinked folder")+" (links inside a folder are not followed)")
+	}
+	if s.outside > 0 {
+		parts = append(parts, plural(s.outside, "symlinked file")+" (leads outside the repository)")
 	}
 	if len(parts) == 0 {
 		return ""
@@ -177,15 +180,18 @@ func (e *env) collect(paths []string) ([]input, skips, error) {
 			continue
 		}
 		var found []input
-		walk(p, &found, &sk)
+		scope, _ := inputfile.Scope(p)
+		walk(p, scope, &found, &sk)
 		sort.Slice(found, func(i, j int) bool { return found[i].path < found[j].path })
 		out = append(out, found...)
 	}
 	return out, sk, nil
 }
 
-// walk appends dir's circuit-file candidates and unreadable sub-folders to found.
-func walk(dir string, found *[]input, sk *skips) {
+// walk appends dir's circuit-file candidates and unreadable sub-folders to
+// found. A symlinked file that leads outside scope (the repository) is
+// skipped: a checkout must not make the checker read what it does not hold.
+func walk(dir, scope string, found *[]input, sk *skips) {
 	entries, err := readDir(dir)
 	if err != nil {
 		var pe *fs.PathError
@@ -202,9 +208,11 @@ func walk(dir string, found *[]input, sk *skips) {
 		case d.IsDir() && strings.HasPrefix(d.Name(), "."):
 			sk.hidden++
 		case d.IsDir():
-			walk(path, found, sk)
+			walk(path, scope, found, sk)
 		case d.Type()&fs.ModeSymlink != 0 && isDir(path):
 			sk.symlinked++
+		case d.Type()&fs.ModeSymlink != 0 && strings.HasSuffix(d.Name(), ".toml") && !inputfile.Inside(scope, path):
+			sk.outside++
 		case strings.HasSuffix(d.Name(), ".toml") && d.Name() != ".headroom.toml":
 			*found = append(*found, input{path: path}) // not a regular file: refused when read
 		}

@@ -198,9 +198,19 @@ func TestFolderWalk(t *testing.T) {
 	if code == exitInput || !strings.Contains(stdout, "in 1 circuit file\n") {
 		t.Errorf("symlinked folder: exit %d, stdout %q, stderr %q", code, stdout, stderr)
 	}
-	stdout, _, _ = runGuarded(t, dir, strings.NewReader(""), "check", "--corners", "nominal", "tree")
+	stdout, _, code = runGuarded(t, dir, strings.NewReader(""), "check", "--corners", "nominal", "tree")
 	if !strings.Contains(stdout, "in 1 circuit file\nskipped 1 hidden folder (name starts with a dot), 1 symlinked folder (links inside a folder are not followed)\n") {
 		t.Errorf("skips not said: %q", stdout)
+	}
+	// A symlinked file leading out of the repository is not read.
+	write(t, dir, ".git", "")
+	write(t, filepath.Dir(dir), "outside.toml", secret+"\n")
+	if err := os.Symlink(filepath.Join(filepath.Dir(dir), "outside.toml"), filepath.Join(dir, "tree", "leak.toml")); err != nil {
+		t.Fatal(err)
+	}
+	stdout, stderr, code = runGuarded(t, dir, strings.NewReader(""), "check", "--corners", "nominal", "tree")
+	if code == exitInput || strings.Contains(stdout+stderr, "hunter") || !strings.Contains(stdout, "1 symlinked file (leads outside the repository)") {
+		t.Errorf("symlinked file out of the repository: exit %d, stdout %q, stderr %q", code, stdout, stderr)
 	}
 	old := readDir
 	t.Cleanup(func() { readDir = old })
