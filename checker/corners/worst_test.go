@@ -214,7 +214,8 @@ func TestCornerListsOnlyMovers(t *testing.T) {
 }
 
 // BenchmarkWorst times the worst-case search with every rule of the default
-// set on amplifiers of about 10, 30, 100 and 300 parts.
+// set on amplifiers of about 10, 30, 100 and 300 parts, without and with the
+// local search (compare the pairs within one run).
 func BenchmarkWorst(b *testing.B) {
 	all := rules.All()
 	set, err := (&ruleset.Loader{Rules: all}).Load("default")
@@ -224,14 +225,16 @@ func BenchmarkWorst(b *testing.B) {
 	cfg := set.Config(all)
 	for _, stages := range []int{2, 5, 16, 50} {
 		c := testCircuit(stages)
-		b.Run(fmt.Sprintf("parts=%d", len(c.Parts)), func(b *testing.B) {
-			topo := topology.Analyze(c)
-			for b.Loop() {
-				if _, err := Worst(c, topo, analysis.Run(c, topo), cfg); err != nil {
-					b.Fatal(err)
+		for _, local := range []bool{false, true} {
+			b.Run(fmt.Sprintf("parts=%d/local=%v", len(c.Parts), local), func(b *testing.B) {
+				topo := topology.Analyze(c)
+				for b.Loop() {
+					if _, err := search(c, topo, analysis.Run(c, topo), cfg, local); err != nil {
+						b.Fatal(err)
+					}
 				}
-			}
-			b.ReportMetric(float64(len(Box(c))), "params")
-		})
+				b.ReportMetric(float64(len(Box(c))), "params")
+			})
+		}
 	}
 }
