@@ -93,6 +93,9 @@ func ErrorLine(path string, err error) string {
 	return fmt.Sprintf("%s:%d:%d: error: %s", printable.String(j.Path), j.Line, j.Column, printable.String(j.Message))
 }
 
+// Plural writes a count with its word, adding an s when it is not 1 ("info" never takes one).
+func Plural(n int, word string) string { return plural(n, word) }
+
 func plural(n int, word string) string {
 	if n == 1 || word == "info" {
 		return fmt.Sprintf("%d %s", n, word)

@@ -131,25 +131,18 @@ type skips struct {
 func (s skips) String() string {
 	var parts []string
 	if s.hidden > 0 {
-		parts = append(parts, plural(s.hidden, "hidden folder")+" (name starts with a dot)")
+		parts = append(parts, output.Plural(s.hidden, "hidden folder")+" (name starts with a dot)")
 	}
 	if s.symlinked > 0 {
-		parts = append(parts, plural(s.symlinked, "symlinked folder")+" (links inside a folder are not followed)")
+		parts = append(parts, output.Plural(s.symlinked, "symlinked folder")+" (links inside a folder are not followed)")
 	}
 	if s.outside > 0 {
-		parts = append(parts, plural(s.outside, "symlinked file")+" (leads outside the repository)")
+		parts = append(parts, output.Plural(s.outside, "symlinked file")+" (leads outside the repository)")
 	}
 	if len(parts) == 0 {
 		return ""
 	}
 	return "skipped " + strings.Join(parts, ", ")
-}
-
-func plural(n int, what string) string {
-	if n == 1 {
-		return fmt.Sprintf("1 %s", what)
-	}
-	return fmt.Sprintf("%d %ss", n, what)
 }
 
 // readDir lists a folder; tests replace it to make a folder unreadable
@@ -158,10 +151,10 @@ var readDir = os.ReadDir
 
 // collect expands folders into their *.toml files (sorted) and reads "-" from
 // standard input. A folder named on the command line is walked even when it
-// is a symlink; inside it, hidden folders and symlinked folders are skipped
-// (counted for the summary: a link may lead out of the tree or round in a
-// loop) and .git is passed over without a word. A folder that cannot be read
-// is an input error.
+// is a symlink; inside it, hidden folders, symlinked folders and symlinked
+// files leading out of the repository are skipped (counted for the summary:
+// a link may lead out of the tree or round in a loop) and .git is passed
+// over without a word. A folder that cannot be read is an input error.
 func (e *env) collect(paths []string) ([]input, skips, error) {
 	var out []input
 	var sk skips
