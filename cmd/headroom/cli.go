@@ -60,10 +60,15 @@ func (e *env) run(args []string) int {
 // parse reads flags wherever they stand among the arguments, as users type
 // them ("check board.toml --format json"). "-" is a positional argument.
 func (e *env) parse(fs *flag.FlagSet, args []string) ([]string, bool) {
-	fs.SetOutput(e.stderr)
+	fs.SetOutput(io.Discard) // the flag package would echo an unknown flag raw
 	var pos []string
 	for {
 		if err := fs.Parse(args); err != nil {
+			if err != flag.ErrHelp {
+				fmt.Fprintln(e.stderr, printable.String(err.Error()))
+			}
+			fs.SetOutput(e.stderr)
+			fs.Usage()
 			return nil, false
 		}
 		args = fs.Args()
