@@ -79,7 +79,8 @@ var (
 )
 
 // fuzzArgs reads the command line from an archive's comment; a command that
-// would touch a git repository is replaced by check, and colour is off.
+// would touch a git repository is replaced by check, paths that leave the
+// archive's folder are dropped, and colour is off.
 func fuzzArgs(comment []byte) (args []string, stdin string) {
 	for _, line := range strings.Split(string(comment), "\n") {
 		if v, ok := strings.CutPrefix(line, "args:"); ok {
@@ -94,7 +95,14 @@ func fuzzArgs(comment []byte) (args []string, stdin string) {
 	}
 	kept := args[:0]
 	for _, a := range args {
-		if a != "--staged" && a != "-staged" && !strings.HasPrefix(a, "--staged=") && !strings.HasPrefix(a, "-staged=") {
+		v := a
+		if strings.HasPrefix(a, "-") {
+			_, v, _ = strings.Cut(a, "=")
+		}
+		switch {
+		case strings.HasPrefix(strings.TrimLeft(a, "-"), "staged"):
+		case v != "" && v != "-" && !filepath.IsLocal(v): // "/" would walk the whole machine
+		default:
 			kept = append(kept, a)
 		}
 	}
