@@ -50,8 +50,9 @@ func (p Palette) severity(s engine.Severity) string {
 }
 
 // Text writes one GNU-style line per unwaived finding with indented detail
-// lines, then a summary line. Input errors are written to errw.
-func Text(w, errw io.Writer, results []check.Result, pal Palette) {
+// lines, then a summary line, which ends with the notes given (what a folder
+// walk skipped). Input errors are written to errw.
+func Text(w, errw io.Writer, results []check.Result, pal Palette, notes ...string) {
 	files, failed := 0, 0
 	for _, r := range results {
 		if r.Skipped {
@@ -81,6 +82,9 @@ func Text(w, errw io.Writer, results []check.Result, pal Palette) {
 	tail := ""
 	if failed > 0 {
 		tail = fmt.Sprintf("; %s not checked (input errors)", plural(failed, "file"))
+	}
+	for _, n := range notes {
+		tail += "; " + n
 	}
 	fmt.Fprintf(w, "%s, %s, %s, %d waived in %s%s\n", plural(s.Error, "error"), plural(s.Warning, "warning"),
 		plural(s.Info, "info"), s.Waived, plural(files, "circuit file"), tail)

@@ -86,10 +86,11 @@ func (e *env) check(args []string) int {
 		e.writeErrors(results)
 		output.SARIF(e.stdout, results, rules.All(), version)
 	default:
-		output.Text(e.stdout, e.stderr, results, output.NewPalette(e.colour(*colorFlag)))
-		if line := skipped.String(); line != "" {
-			fmt.Fprintln(e.stdout, line)
+		var notes []string
+		if s := skipped.String(); s != "" {
+			notes = append(notes, s)
 		}
+		output.Text(e.stdout, e.stderr, results, output.NewPalette(e.colour(*colorFlag)), notes...)
 	}
 	return status
 }
@@ -127,7 +128,7 @@ type skips struct {
 	hidden, symlinked, outside int
 }
 
-// String is the one short line the text summary ends with; "" when nothing was skipped.
+// String is what the text summary line ends with; "" when nothing was skipped.
 func (s skips) String() string {
 	var parts []string
 	if s.hidden > 0 {

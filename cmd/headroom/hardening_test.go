@@ -199,7 +199,7 @@ func TestFolderWalk(t *testing.T) {
 		t.Errorf("symlinked folder: exit %d, stdout %q, stderr %q", code, stdout, stderr)
 	}
 	stdout, _, code = runGuarded(t, dir, strings.NewReader(""), "check", "--corners", "nominal", "tree")
-	if !strings.Contains(stdout, "in 1 circuit file\nskipped 1 hidden folder (name starts with a dot), 1 symlinked folder (links inside a folder are not followed)\n") {
+	if !strings.Contains(stdout, "in 1 circuit file; skipped 1 hidden folder (name starts with a dot), 1 symlinked folder (links inside a folder are not followed)\n") {
 		t.Errorf("skips not said: %q", stdout)
 	}
 	// A symlinked file leading out of the repository is not read.
