@@ -16,7 +16,8 @@ var BiasRegion = &engine.Rule{
 		Title: "every transistor must be biased in its forward-active region",
 		Why: "A stage that is cut off passes nothing and one that is saturated clips everything; " +
 			"every other bias and margin figure is meaningless until the operating point is in the active region. " +
-			"When no operating point can be found at all (no convergence, a singular network) the reason is reported here.",
+			"When no operating point can be found at all (no convergence, a singular network) the reason is reported here, " +
+			"and so is a band analysis that cannot be computed: the rules judged at band frequencies would otherwise pass without a word.",
 		Formula: "cut off: IC < min_ic (tested first; measured IC, >=, unit A); saturated: VCE < min_vce (measured VCE, >=, unit V)",
 		Source:  "the definition of the forward-active region in the Ebers–Moll model (J. J. Ebers and J. L. Moll, \"Large-signal behavior of junction transistors\", Proc. IRE 42(12), 1954, from memory; the model is in docs/model.md)",
 		Fix: "Cut off: raise the base voltage (upper divider leg smaller, or lower leg larger) or lower the emitter resistance. " +
@@ -43,6 +44,13 @@ func runBiasRegion(p *engine.Pass) error {
 			Message: "no DC operating point: " + cs.OPErr.Error(),
 			Fix:     "check the wiring the reason names; a network without a solution usually has a short, a loop of ideal windings or a transistor with no bias path"})
 		return nil
+	}
+	if cs.ACErr != nil {
+		// Every rule judged at band frequencies (the reactance rules,
+		// match.input) has nothing to judge: a check must not pass on that.
+		p.Report(engine.Finding{
+			Message: "no band analysis, so the reactance and match rules were not judged: " + cs.ACErr.Error(),
+			Fix:     "look for a part value far outside its usual range or a network that has no solution at the frequency named"})
 	}
 	minIC, minVCE := p.Param("min_ic"), p.Param("min_vce")
 	for _, part := range bjts(p) {

@@ -15,6 +15,7 @@ import (
 	"headroom/checker/analysis"
 	"headroom/checker/circuit"
 	"headroom/checker/engine"
+	"headroom/checker/inputfile"
 	"headroom/checker/ruleset"
 	"headroom/checker/topology"
 )
@@ -69,7 +70,7 @@ type Runner struct {
 // NewRunner prepares a run.
 func NewRunner(opt Options) *Runner {
 	if opt.ReadFile == nil {
-		opt.ReadFile = os.ReadFile
+		opt.ReadFile = inputfile.Read
 	}
 	if opt.Exists == nil {
 		opt.Exists = func(p string) bool { _, err := os.Stat(p); return err == nil }
@@ -120,7 +121,7 @@ func (r *Runner) File(path string, data []byte) Result {
 	if data == nil {
 		b, err := r.opt.ReadFile(path)
 		if err != nil {
-			res.Err = &circuit.InputError{Pos: circuit.Pos{File: path, Line: 1, Col: 1}, Msg: fmt.Sprintf("cannot read file: %v", err)}
+			res.Err = &circuit.InputError{Pos: circuit.Pos{File: path, Line: 1, Col: 1}, Msg: "cannot read file: " + inputfile.Reason(err)}
 			return res
 		}
 		data = b

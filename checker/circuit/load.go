@@ -3,14 +3,13 @@ package circuit
 import (
 	"errors"
 	"fmt"
-	"io/fs"
-	"os"
 	"path/filepath"
 	"regexp"
 	"slices"
 	"strings"
 
 	"headroom/checker/circuit/tomlfile"
+	"headroom/checker/inputfile"
 	"headroom/checker/library"
 	"headroom/checker/quantity"
 )
@@ -32,7 +31,7 @@ func (e *InputError) Error() string {
 
 // Options are what the caller knows beyond the circuit file itself.
 type Options struct {
-	// ReadFile reads the circuit and every library file (nil = os.ReadFile),
+	// ReadFile reads the circuit and every library file (nil = inputfile.Read),
 	// so that a reader of the git index can be passed for staged checks.
 	ReadFile func(path string) ([]byte, error)
 	// Libraries are library paths from the rule set, already resolved; they
@@ -46,25 +45,16 @@ func (o Options) read(path string) ([]byte, error) {
 	if o.ReadFile != nil {
 		return o.ReadFile(path)
 	}
-	return os.ReadFile(path)
+	return inputfile.Read(path)
 }
 
 // Load reads and checks the circuit file at path.
 func Load(path string, opt Options) (*Circuit, error) {
 	data, err := opt.read(path)
 	if err != nil {
-		return nil, &InputError{Pos: Pos{File: path, Line: 1, Col: 1}, Msg: "cannot read the file: " + reason(err)}
+		return nil, &InputError{Pos: Pos{File: path, Line: 1, Col: 1}, Msg: "cannot read the file: " + inputfile.Reason(err)}
 	}
 	return LoadBytes(path, data, opt)
-}
-
-// reason drops the path an *fs.PathError repeats.
-func reason(err error) string {
-	var pe *fs.PathError
-	if errors.As(err, &pe) {
-		return pe.Err.Error()
-	}
-	return err.Error()
 }
 
 // LoadBytes checks a circuit file already read; path names it in errors and
@@ -193,7 +183,7 @@ func (ld *loader) libraries(opt Options) error {
 	for _, p := range opt.Libraries {
 		data, err := opt.read(p)
 		if err != nil {
-			return &InputError{Pos: Pos{File: p, Line: 1, Col: 1}, Msg: "cannot read the library named by the rule set: " + reason(err)}
+			return &InputError{Pos: Pos{File: p, Line: 1, Col: 1}, Msg: "cannot read the library named by the rule set: " + inputfile.Reason(err)}
 		}
 		l, err := library.Parse(p, data)
 		if err != nil {
@@ -201,14 +191,18 @@ func (ld *loader) libraries(opt Options) error {
 		}
 		lib.Merge(l)
 	}
+	root, repo := inputfile.Scope(filepath.Dir(ld.path))
 	for i, p := range ld.c.Libraries {
 		resolved := p
 		if !filepath.IsAbs(p) {
 			resolved = filepath.Join(filepath.Dir(ld.path), p)
 		}
+		if !inputfile.Inside(root, resolved) {
+			return &InputError{Pos: ld.pos(ld.libPos[i]), Msg: "[circuit] " + inputfile.OutsideMsg("library", p, repo)}
+		}
 		data, err := opt.read(resolved)
 		if err != nil {
-			return &InputError{Pos: ld.pos(ld.libPos[i]), Msg: fmt.Sprintf("cannot read library %q (%s): %s", p, resolved, reason(err))}
+			return &InputError{Pos: ld.pos(ld.libPos[i]), Msg: fmt.Sprintf("cannot read library %q (%s): %s", p, resolved, inputfile.Reason(err))}
 		}
 		l, err := library.Parse(resolved, data)
 		if err != nil {

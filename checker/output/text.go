@@ -8,6 +8,7 @@ import (
 
 	"headroom/checker/check"
 	"headroom/checker/engine"
+	"headroom/checker/printable"
 )
 
 // Palette colours the text output; the zero value prints plain text.
@@ -49,8 +50,9 @@ func (p Palette) severity(s engine.Severity) string {
 }
 
 // Text writes one GNU-style line per unwaived finding with indented detail
-// lines, then a summary line. Input errors are written to errw.
-func Text(w, errw io.Writer, results []check.Result, pal Palette) {
+// lines, then a summary line, which ends with the notes given (what a folder
+// walk skipped). Input errors are written to errw.
+func Text(w, errw io.Writer, results []check.Result, pal Palette, notes ...string) {
 	files, failed := 0, 0
 	for _, r := range results {
 		if r.Skipped {
@@ -66,13 +68,13 @@ func Text(w, errw io.Writer, results []check.Result, pal Palette) {
 			if f.Waived || f.Baselined {
 				continue
 			}
-			fmt.Fprintf(w, "%s:%d:%d: %s: %s %s\n", r.Path, f.Pos.Line, f.Pos.Col, pal.severity(f.Severity),
-				f.Message, pal.paint(pal.rule, "["+f.Rule+"]"))
+			fmt.Fprintf(w, "%s:%d:%d: %s: %s %s\n", printable.String(r.Path), f.Pos.Line, f.Pos.Col, pal.severity(f.Severity),
+				printable.String(f.Message), pal.paint(pal.rule, "["+f.Rule+"]"))
 			if c := f.CornerText; c != "" {
-				fmt.Fprintf(w, "    %s %s\n", pal.paint(pal.faint, "worst case:"), c)
+				fmt.Fprintf(w, "    %s %s\n", pal.paint(pal.faint, "worst case:"), printable.String(c))
 			}
 			if f.Fix != "" {
-				fmt.Fprintf(w, "    %s %s\n", pal.paint(pal.faint, "fix:"), f.Fix)
+				fmt.Fprintf(w, "    %s %s\n", pal.paint(pal.faint, "fix:"), printable.String(f.Fix))
 			}
 		}
 	}
@@ -80,6 +82,9 @@ func Text(w, errw io.Writer, results []check.Result, pal Palette) {
 	tail := ""
 	if failed > 0 {
 		tail = fmt.Sprintf("; %s not checked (input errors)", Plural(failed, "file"))
+	}
+	for _, n := range notes {
+		tail += "; " + n
 	}
 	baselined := ""
 	if s.Baselined > 0 {
@@ -89,10 +94,11 @@ func Text(w, errw io.Writer, results []check.Result, pal Palette) {
 		Plural(s.Info, "info"), s.Waived, baselined, Plural(files, "circuit file"), tail)
 }
 
-// ErrorLine renders an input error in the GNU form, at 1:1 when it has no position.
+// ErrorLine renders an input error in the GNU form, at 1:1 when it has no
+// position, with control characters escaped: one error is one line.
 func ErrorLine(path string, err error) string {
 	j := errorJSON(path, err)
-	return fmt.Sprintf("%s:%d:%d: error: %s", j.Path, j.Line, j.Column, j.Message)
+	return fmt.Sprintf("%s:%d:%d: error: %s", printable.String(j.Path), j.Line, j.Column, printable.String(j.Message))
 }
 
 // Plural writes a count with its word: "1 error", "2 errors", "3 info".

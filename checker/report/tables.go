@@ -2,6 +2,7 @@ package report
 
 import (
 	"fmt"
+	"headroom/checker/printable"
 	"io"
 	"math/cmplx"
 	"strconv"
@@ -219,9 +220,23 @@ func errText(err error) string {
 	return err.Error()
 }
 
+// printableTables is tables with every cell's control characters escaped:
+// names and keys come from the file and go to a terminal or a review page.
+func (r *Report) printableTables() []table {
+	ts := r.tables()
+	for _, t := range ts {
+		for _, row := range append([][]string{t.header}, t.rows...) {
+			for j := range row {
+				row[j] = printable.String(row[j])
+			}
+		}
+	}
+	return ts
+}
+
 // Text writes the report as aligned plain-text tables.
 func (r *Report) Text(w io.Writer) {
-	for i, t := range r.tables() {
+	for i, t := range r.printableTables() {
 		if i > 0 {
 			fmt.Fprintln(w)
 		}
@@ -248,8 +263,8 @@ func (r *Report) Text(w io.Writer) {
 
 // Markdown writes the report as Markdown tables, to paste into a design review.
 func (r *Report) Markdown(w io.Writer) {
-	fmt.Fprintf(w, "# %s\n", r.Circuit.Name)
-	for _, t := range r.tables() {
+	fmt.Fprintf(w, "# %s\n", printable.String(r.Circuit.Name))
+	for _, t := range r.printableTables() {
 		fmt.Fprintf(w, "\n## %s\n\n", t.title)
 		fmt.Fprintln(w, "| "+strings.Join(escape(t.header), " | ")+" |")
 		fmt.Fprintln(w, strings.Repeat("|---", len(t.header))+"|")

@@ -5,12 +5,12 @@ package ruleset
 
 import (
 	"fmt"
-	"os"
 	"path/filepath"
 	"strings"
 
 	"headroom/checker/circuit/tomlfile"
 	"headroom/checker/engine"
+	"headroom/checker/inputfile"
 	"headroom/checker/quantity"
 	"headroom/checker/spell"
 	"headroom/rulesets"
@@ -77,12 +77,12 @@ func (l *Loader) load(ref string, seen []string) (*Set, error) {
 	} else {
 		read := l.ReadFile
 		if read == nil {
-			read = os.ReadFile
+			read = inputfile.Read
 		}
 		b, err := read(key)
 		if err != nil {
 			return nil, &tomlfile.Error{File: key, Pos: tomlfile.Pos{Line: 1, Col: 1},
-				Msg: fmt.Sprintf("cannot read rule set: %v (the shipped sets are %s)", unwrapPathError(err), strings.Join(rulesets.Names(), ", "))}
+				Msg: fmt.Sprintf("cannot read rule set: %v (the shipped sets are %s)", inputfile.Reason(err), strings.Join(rulesets.Names(), ", "))}
 		}
 		data = b
 	}
@@ -109,7 +109,13 @@ func (l *Loader) load(ref string, seen []string) (*Set, error) {
 				if builtin {
 					return nil, &tomlfile.Error{File: file, Pos: root.ValPos("extends"), Msg: "a shipped rule set extends only shipped ones"}
 				}
-				parentRef = filepath.Join(filepath.Dir(key), s)
+				parentRef = s
+				if !filepath.IsAbs(s) {
+					parentRef = filepath.Join(filepath.Dir(key), s)
+				}
+				if scope, repo := inputfile.Scope(filepath.Dir(key)); !inputfile.Inside(scope, parentRef) {
+					return nil, &tomlfile.Error{File: file, Pos: root.ValPos("extends"), Msg: inputfile.OutsideMsg("extends", s, repo)}
+				}
 			}
 		}
 		if err := doc.Err(); err != nil {
@@ -188,8 +194,17 @@ func (l *Loader) apply(root *tomlfile.Table, set *Set, dir string) {
 		}
 	}
 	if libs, ok := root.Strings("library"); ok {
-		for _, s := range libs {
-			set.Libraries = append(set.Libraries, filepath.Join(dir, s))
+		scope, repo := inputfile.Scope(dir)
+		for i, s := range libs {
+			p := s
+			if !filepath.IsAbs(s) { // an absolute path is taken as given
+				p = filepath.Join(dir, s)
+			}
+			if !inputfile.Inside(scope, p) {
+				root.Errorf(root.ElemPos("library", i), "%s", inputfile.OutsideMsg("library", s, repo))
+				continue
+			}
+			set.Libraries = append(set.Libraries, p)
 		}
 	}
 	rulesTable := root.Table("rules", "rules")
@@ -258,13 +273,4 @@ func Closest(id string, rules []*engine.Rule) string {
 		ids[i] = r.ID
 	}
 	return "closest known rules: " + strings.Join(spell.Closest(id, ids, 3), ", ")
-}
-
-func unwrapPathError(err error) error {
-	if pe, ok := err.(interface{ Unwrap() error }); ok {
-		if inner := pe.Unwrap(); inner != nil {
-			return inner
-		}
-	}
-	return err
 }

@@ -3,34 +3,74 @@
 // that answer a typo in a key, a net or a rule id.
 package spell
 
-import "sort"
+import (
+	"sort"
+	"unicode/utf8"
+)
+
+// MaxDistance is the largest distance computed exactly. A name more edits
+// than this from a candidate is no typo of it, and bounding the work keeps a
+// 10 MB key from costing gigabytes: the table is a band of 2·MaxDistance+1
+// cells per row (Ukkonen's cut-off), so time and memory grow linearly with
+// the names, not with their product.
+const MaxDistance = 16
 
 // Distance is the optimal-string-alignment distance between a and b, in
 // runes: insertions, deletions, substitutions and swaps of neighbours count
-// one each (a swapped pair is the commonest typo).
+// one each (a swapped pair is the commonest typo). Beyond MaxDistance it
+// returns a lower bound above MaxDistance: the larger of MaxDistance+1 and
+// the difference in length.
 func Distance(a, b string) int {
+	const k = MaxDistance
+	la, lb := utf8.RuneCountInString(a), utf8.RuneCountInString(b)
+	far := max(k+1, la-lb, lb-la)
+	if la-lb > k || lb-la > k {
+		return far
+	}
 	x, y := []rune(a), []rune(b)
-	d := make([][]int, len(x)+1)
-	for i := range d {
-		d[i] = make([]int, len(y)+1)
-		d[i][0] = i
+	const w = 2*k + 1 // row i holds columns j = i-k … i+k at index j-i+k
+	rows := [3][w]int{}
+	at := func(row *[w]int, i, j int) int {
+		idx := j - i + k
+		if j < 0 || j > lb || idx < 0 || idx >= w {
+			return far
+		}
+		return row[idx]
 	}
-	for j := range d[0] {
-		d[0][j] = j
+	prev2, prev, cur := &rows[0], &rows[1], &rows[2]
+	for j := range w {
+		prev[j] = far
+		if j-k >= 0 {
+			prev[j] = j - k // row 0: d[0][j] = j
+		}
 	}
-	for i := 1; i <= len(x); i++ {
-		for j := 1; j <= len(y); j++ {
+	for i := 1; i <= la; i++ {
+		for idx := range w {
+			cur[idx] = far
+			j := i - k + idx
+			if j < 0 || j > lb {
+				continue
+			}
+			if j == 0 {
+				cur[idx] = i
+				continue
+			}
 			cost := 1
 			if x[i-1] == y[j-1] {
 				cost = 0
 			}
-			d[i][j] = min(d[i-1][j]+1, d[i][j-1]+1, d[i-1][j-1]+cost)
+			d := min(at(prev, i-1, j)+1, at(cur, i, j-1)+1, at(prev, i-1, j-1)+cost)
 			if i > 1 && j > 1 && x[i-1] == y[j-2] && x[i-2] == y[j-1] {
-				d[i][j] = min(d[i][j], d[i-2][j-2]+1)
+				d = min(d, at(prev2, i-2, j-2)+1)
 			}
+			cur[idx] = min(d, far)
 		}
+		prev2, prev, cur = prev, cur, prev2
 	}
-	return d[len(x)][len(y)]
+	if d := at(prev, la, lb); d <= k {
+		return d
+	}
+	return far
 }
 
 // Closest returns up to n of the candidates nearest to name: first those

@@ -250,12 +250,9 @@ func (t *Topology) floatingTerminals(skip map[string]bool) []Problem {
 
 // closestNet suggests the net a one-connection net was probably meant to be:
 // the nearest other net (gnd included) by edit distance, ignoring case, within
-// a third of the name's length (at least 1); "" when none is that close.
+// a third of the name's length (at least 1, at most spell.MaxDistance); "" when none is that close.
 func (t *Topology) closestNet(n string) string {
-	limit := len(n) / 3
-	if limit < 1 {
-		limit = 1
-	}
+	limit := min(max(len(n)/3, 1), spell.MaxDistance)
 	best, bestD := "", limit+1
 	for _, m := range t.nets() {
 		if m == n || len(t.touches[m]) < 2 && m != circuit.Gnd { // a candidate is a net in use

@@ -1,6 +1,7 @@
 package main
 
 import (
+	"errors"
 	"flag"
 	"fmt"
 	"io"
@@ -13,9 +14,11 @@ import (
 	"sync"
 
 	"headroom/checker/check"
+	"headroom/checker/circuit"
 	"headroom/checker/circuit/tomlfile"
 	"headroom/checker/corners"
 	"headroom/checker/engine"
+	"headroom/checker/inputfile"
 	"headroom/checker/output"
 	"headroom/checker/ruledoc"
 	"headroom/rules"
@@ -63,6 +66,7 @@ func (e *env) check(args []string) int {
 	var inputs []input
 	var idx *indexReader
 	var stagedSet map[string]bool
+	var skipped skips
 	if *staged {
 		var err error
 		if idx, err = newIndexReader(); err != nil {
@@ -78,13 +82,13 @@ func (e *env) check(args []string) int {
 			paths = []string{"."}
 		}
 		var err error
-		if inputs, err = e.collect(paths, *stdinName); err != nil {
+		if inputs, skipped, err = e.collect(paths, *stdinName); err != nil {
 			return e.usageError("%v", err)
 		}
 	}
 	read := opt.ReadFile
 	if read == nil {
-		read = os.ReadFile
+		read = inputfile.Read
 	}
 	runner := check.NewRunner(opt)
 	results := checkAll(runner, inputs)
@@ -135,7 +139,11 @@ func (e *env) check(args []string) int {
 		e.writeErrors(results)
 		output.GitHub(e.stdout, results, inv)
 	default:
-		output.Text(e.stdout, e.stderr, results, output.NewPalette(e.colour(*colorFlag)))
+		var notes []string
+		if s := skipped.String(); s != "" {
+			notes = append(notes, s)
+		}
+		output.Text(e.stdout, e.stderr, results, output.NewPalette(e.colour(*colorFlag)), notes...)
 	}
 	return status
 }
@@ -248,17 +256,50 @@ type input struct {
 	data   []byte // nil: read from path
 	walked bool   // found by a folder walk or in the index, not named
 	extra  bool   // --staged: not staged, checked for a staged rule set or library
+	err    error  // a folder that could not be read: reported as an input error of its own
 }
 
-// collect expands folders into their *.toml files (sorted, hidden folders
-// skipped) and reads "-" from standard input, named stdinName when given.
-func (e *env) collect(paths []string, stdinName string) ([]input, error) {
+// skips counts what a folder walk passed over, for the summary.
+type skips struct {
+	hidden, symlinked, outside int
+}
+
+// String is what the text summary line ends with; "" when nothing was skipped.
+func (s skips) String() string {
+	var parts []string
+	if s.hidden > 0 {
+		parts = append(parts, output.Plural(s.hidden, "hidden folder")+" (name starts with a dot)")
+	}
+	if s.symlinked > 0 {
+		parts = append(parts, output.Plural(s.symlinked, "symlinked folder")+" (links inside a folder are not followed)")
+	}
+	if s.outside > 0 {
+		parts = append(parts, output.Plural(s.outside, "symlinked file")+" (leads outside the repository)")
+	}
+	if len(parts) == 0 {
+		return ""
+	}
+	return "skipped " + strings.Join(parts, ", ")
+}
+
+// readDir lists a folder; tests replace it to make a folder unreadable
+// (the tests may run as root, whom permissions do not stop).
+var readDir = os.ReadDir
+
+// collect expands folders into their *.toml files (sorted) and reads "-" from
+// standard input, named stdinName when given. A folder named on the command line is walked even when it
+// is a symlink; inside it, hidden folders, symlinked folders and symlinked
+// files leading out of the repository are skipped (counted for the summary:
+// a link may lead out of the tree or round in a loop) and .git is passed
+// over without a word. A folder that cannot be read is an input error.
+func (e *env) collect(paths []string, stdinName string) ([]input, skips, error) {
 	var out []input
+	var sk skips
 	for _, p := range paths {
 		if p == "-" {
-			b, err := io.ReadAll(e.stdin)
+			b, err := inputfile.ReadAll(e.stdin)
 			if err != nil {
-				return nil, err
+				return nil, sk, fmt.Errorf("standard input: %w", err)
 			}
 			name := "-"
 			if stdinName != "" {
@@ -267,33 +308,54 @@ func (e *env) collect(paths []string, stdinName string) ([]input, error) {
 			out = append(out, input{path: name, data: b})
 			continue
 		}
-		st, err := os.Stat(p)
+		st, err := os.Stat(p) // follows a symlink named on the command line
 		if err != nil || !st.IsDir() {
 			out = append(out, input{path: p}) // an unreadable path is an input error of its own
 			continue
 		}
-		var found []string
-		err = filepath.WalkDir(p, func(path string, d fs.DirEntry, err error) error {
-			if err != nil {
-				return nil
-			}
-			if d.IsDir() && path != p && strings.HasPrefix(d.Name(), ".") {
-				return filepath.SkipDir
-			}
-			if !d.IsDir() && strings.HasSuffix(d.Name(), ".toml") && d.Name() != ".headroom.toml" {
-				found = append(found, path)
-			}
-			return nil
-		})
-		if err != nil {
-			return nil, err
+		var found []input
+		scope, _ := inputfile.Scope(p)
+		walk(p, scope, &found, &sk)
+		sort.Slice(found, func(i, j int) bool { return found[i].path < found[j].path })
+		out = append(out, found...)
+	}
+	return out, sk, nil
+}
+
+// walk appends dir's circuit-file candidates and unreadable sub-folders to
+// found. A symlinked file that leads outside scope (the repository) is
+// skipped: a checkout must not make the checker read what it does not hold.
+func walk(dir, scope string, found *[]input, sk *skips) {
+	entries, err := readDir(dir)
+	if err != nil {
+		var pe *fs.PathError
+		if errors.As(err, &pe) {
+			err = pe.Err
 		}
-		sort.Strings(found)
-		for _, f := range found {
-			out = append(out, input{path: f, walked: true})
+		*found = append(*found, input{path: dir, err: fmt.Errorf("cannot read folder: %v", err)})
+		return
+	}
+	for _, d := range entries {
+		path := filepath.Join(dir, d.Name())
+		switch {
+		case d.IsDir() && d.Name() == ".git":
+		case d.IsDir() && strings.HasPrefix(d.Name(), "."):
+			sk.hidden++
+		case d.IsDir():
+			walk(path, scope, found, sk)
+		case d.Type()&fs.ModeSymlink != 0 && isDir(path):
+			sk.symlinked++
+		case d.Type()&fs.ModeSymlink != 0 && strings.HasSuffix(d.Name(), ".toml") && !inputfile.Inside(scope, path):
+			sk.outside++
+		case strings.HasSuffix(d.Name(), ".toml") && d.Name() != ".headroom.toml":
+			*found = append(*found, input{path: path, walked: true}) // not a regular file: refused when read
 		}
 	}
-	return out, nil
+}
+
+func isDir(p string) bool {
+	st, err := os.Stat(p)
+	return err == nil && st.IsDir()
 }
 
 // colour decides whether to colour: --color wins; with auto, only on a
@@ -329,6 +391,11 @@ func checkAll(runner *check.Runner, inputs []input) []check.Result {
 		go func() {
 			defer wg.Done()
 			for i := range next {
+				if err := inputs[i].err; err != nil {
+					results[i] = check.Result{Path: inputs[i].path, Err: &circuit.InputError{
+						Pos: circuit.Pos{File: inputs[i].path, Line: 1, Col: 1}, Msg: err.Error()}}
+					continue
+				}
 				results[i] = runner.File(inputs[i].path, inputs[i].data)
 			}
 		}()

@@ -6,6 +6,8 @@ import (
 	"fmt"
 	"io"
 	"runtime/debug"
+
+	"headroom/checker/printable"
 )
 
 // version is the program's version: the module version and VCS revision
@@ -143,8 +145,8 @@ func (e *env) run(args []string) int {
 // When it returns false the command ends with the status returned: 0 after
 // -h or --help (the command's usage on standard output), 2 after a bad flag.
 func (e *env) parse(fs *flag.FlagSet, args []string) ([]string, int, bool) {
-	fs.SetOutput(e.stderr)
-	fs.Usage = func() {} // -h prints the usage on standard output below; a bad flag gets a hint
+	fs.SetOutput(io.Discard) // the flag package would echo an unknown flag raw
+	fs.Usage = func() {}     // -h prints the usage on standard output below; a bad flag gets a hint
 
 	var pos []string
 	for {
@@ -153,6 +155,7 @@ func (e *env) parse(fs *flag.FlagSet, args []string) ([]string, int, bool) {
 				commandUsage(e.stdout, fs.Name(), fs)
 				return nil, exitOK, false
 			}
+			fmt.Fprintln(e.stderr, printable.String(err.Error()))
 			fmt.Fprintf(e.stderr, "run 'headroom %s --help' for the flags\n", fs.Name())
 			return nil, exitInput, false
 		}
@@ -166,7 +169,7 @@ func (e *env) parse(fs *flag.FlagSet, args []string) ([]string, int, bool) {
 }
 
 func (e *env) usageError(format string, a ...any) int {
-	fmt.Fprintf(e.stderr, "headroom: "+format+"\n", a...)
+	fmt.Fprintf(e.stderr, "headroom: %s\n", printable.String(fmt.Sprintf(format, a...)))
 	return exitInput
 }
 

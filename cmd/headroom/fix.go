@@ -3,6 +3,7 @@ package main
 import (
 	"bytes"
 	"fmt"
+	"headroom/checker/inputfile"
 	"io"
 	"os"
 	"path/filepath"
@@ -37,7 +38,7 @@ func fixAll(runner *check.Runner, results []check.Result, write bool, stderr io.
 		if r.Err != nil || r.Skipped || !hasChanges(r.Findings) {
 			continue
 		}
-		old, err := os.ReadFile(r.Path)
+		old, err := inputfile.Read(r.Path)
 		if err != nil {
 			continue // checked from a file that is gone: nothing to fix
 		}

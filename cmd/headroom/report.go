@@ -4,7 +4,7 @@ import (
 	"errors"
 	"flag"
 	"fmt"
-	"io"
+	"headroom/checker/inputfile"
 
 	"headroom/checker/analysis"
 	"headroom/checker/check"
@@ -35,7 +35,7 @@ func (e *env) report(args []string) int {
 	path := paths[0]
 	var data []byte
 	if path == "-" {
-		b, err := io.ReadAll(e.stdin)
+		b, err := inputfile.ReadAll(e.stdin)
 		if err != nil {
 			return e.usageError("%v", err)
 		}
@@ -44,7 +44,7 @@ func (e *env) report(args []string) int {
 		b, err := readFile(path)
 		if err != nil {
 			fmt.Fprintln(e.stderr, errorLine(path, &circuit.InputError{Pos: circuit.Pos{File: path, Line: 1, Col: 1},
-				Msg: fmt.Sprintf("cannot read file: %v", err)}))
+				Msg: "cannot read file: " + inputfile.Reason(err)}))
 			return exitInput
 		}
 		data = b
@@ -78,7 +78,7 @@ func (e *env) report(args []string) int {
 	default:
 		r.Text(e.stdout)
 	}
-	if r.Case.OP == nil {
+	if r.Case.OP == nil || r.Case.ACErr != nil { // nothing, or not everything, could be computed
 		return exitFindings
 	}
 	return exitOK

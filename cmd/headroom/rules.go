@@ -5,6 +5,7 @@ import (
 	"flag"
 	"fmt"
 
+	"headroom/checker/printable"
 	"headroom/checker/ruledoc"
 	"headroom/checker/ruleset"
 	"headroom/rules"
@@ -59,7 +60,7 @@ func (e *env) rules(args []string) int {
 		enc.Encode(doc)
 		return exitOK
 	}
-	fmt.Fprintf(e.stdout, "rule set %s\n\n", set.Name)
+	fmt.Fprintf(e.stdout, "rule set %s\n\n", printable.String(set.Name))
 	for _, r := range all {
 		fmt.Fprintf(e.stdout, "%-26s %-8s %s\n", r.ID, set.Severity[r.ID], r.Doc.Title)
 		for _, p := range r.Doc.Params {

@@ -12,6 +12,7 @@ import (
 	"errors"
 	"fmt"
 	"math"
+	"regexp"
 	"sort"
 	"strconv"
 	"strings"
@@ -70,9 +71,9 @@ func Parse(file string, data []byte) (*Doc, error) {
 	if _, err := toml.Decode(s, &m); err != nil {
 		var pe toml.ParseError
 		if errors.As(err, &pe) {
-			return nil, &Error{File: file, Pos: parseErrorPos(s, pe.Position), Msg: "not valid TOML: " + pe.Message}
+			return nil, &Error{File: file, Pos: parseErrorPos(s, pe.Position), Msg: "not valid TOML: " + redact(pe.Message)}
 		}
-		return nil, &Error{File: file, Pos: start, Msg: "not valid TOML: " + err.Error()}
+		return nil, &Error{File: file, Pos: start, Msg: "not valid TOML: " + redact(err.Error())}
 	}
 	if m == nil {
 		m = map[string]any{}
@@ -80,6 +81,20 @@ func Parse(file string, data []byte) (*Doc, error) {
 	d := &Doc{File: file, idx: idx}
 	d.Root = &Table{doc: d, m: m, Pos: start, What: "file"}
 	return d, nil
+}
+
+// quoted matches what the TOML parser quotes of the text in its messages.
+var quoted = regexp.MustCompile(`'[^'\n]*'|"(?:[^"\\\n]|\\.)*"`)
+
+// redact drops what a parser message quotes of the text: a file that is not
+// TOML may be anything (a credentials file named as a library), and its
+// content must not reach a CI log. The position says where to look.
+func redact(msg string) string {
+	msg = quoted.ReplaceAllString(msg, "…")
+	if r := []rune(msg); len(r) > 160 {
+		msg = string(r[:160]) + "…"
+	}
+	return msg
 }
 
 // parseErrorPos turns the parser's position into a line and code-point
@@ -465,7 +480,38 @@ func (d *Doc) quantity(label string, raw any, p Pos, u quantity.Unit, s Sign) (f
 		d.Errorf(p, "%s: %s is not above absolute zero", label, quantity.Format(v, u))
 		return 0, false
 	}
+	if b, ok := Bounds[u]; ok && v != 0 && (math.Abs(v) < b[0] || math.Abs(v) > b[1]) {
+		what := "magnitude"
+		if u == quantity.Celsius {
+			what = "value"
+		}
+		d.Errorf(p, "%s: %s is outside what a small-signal circuit uses (%s %s to %s)", label,
+			quantity.Format(v, u), what, quantity.Format(b[0], u), quantity.Format(b[1], u))
+		return 0, false
+	}
 	return v, true
+}
+
+// Bounds are the magnitudes a value of each unit may take (zero aside, where
+// the field allows zero). They are far wider than any part a small-signal
+// board holds, and narrow enough that every figure computed from them
+// (reactances, products of gains, squares of turns, V²/R) stays finite with
+// room to spare: a value of 1e300 or 5e-324 is accepted by TOML but turns
+// into Inf or a singular network once computed with. README "Reading values"
+// lists them. A temperature is bounded by its value (absolute zero is
+// checked above).
+var Bounds = map[quantity.Unit][2]float64{
+	quantity.Ohm:      {1e-6, 1e15},    // 1 µΩ (a shunt is 100 µΩ) to 1 PΩ (an electrometer resistor is 1 TΩ)
+	quantity.Farad:    {1e-18, 100},    // 1 aF to 100 F (a supply-rail supercapacitor)
+	quantity.Henry:    {1e-15, 1e3},    // 1 fH (AL of an air core per turn² is nH) to 1 kH
+	quantity.Volt:     {1e-9, 1e6},     // 1 nV to 1 MV
+	quantity.Ampere:   {1e-18, 1e4},    // 1 aA to 10 kA
+	quantity.Watt:     {1e-12, 1e6},    // 1 pW to 1 MW
+	quantity.Hertz:    {1, 1e12},       // 1 Hz to 1 THz
+	quantity.Metre:    {1e-6, 10},      // 1 µm to 10 m (core dimensions)
+	quantity.Celsius:  {-273.15, 1000}, // above absolute zero, at most 1000 °C
+	quantity.Fraction: {1e-12, 1e3},    // tolerances and limits: 1e-10 % to 100000 %
+	quantity.Ratio:    {1e-9, 1e9},     // turns, hFE, μ, coupling, limits
 }
 
 func example(u quantity.Unit) string {
