@@ -33,7 +33,7 @@ var BiasDrift = &engine.Rule{
 			"effect — for hFE a stiffer base divider or more emitter degeneration, for the ambient a larger " +
 			"emitter voltage (VBE falls about 2 mV per °C), for a resistor a closer tolerance.",
 		Params: []engine.Param{
-			{Name: "max_fraction", Unit: quantity.Ratio, Help: "largest relative change of IC over the box, supplies at nominal"},
+			{Name: "max_fraction", Unit: quantity.Fraction, Help: "largest relative change of IC over the box, supplies at nominal"},
 		},
 	},
 	Run:          runBiasDrift,

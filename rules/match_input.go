@@ -31,7 +31,7 @@ var MatchInput = &engine.Rule{
 			"input net that carry most of the input admittance, and at a transistor's base the bias network and " +
 			"the transistor's own input. A negative input resistance is named: the stage may oscillate.",
 		Params: []engine.Param{
-			{Name: "min_db", Unit: quantity.Ratio, Help: "smallest input return loss over the band, dB"},
+			{Name: "min_db", Unit: quantity.Decibel, Help: "smallest input return loss over the band, dB"},
 		},
 	},
 	Run: runMatchInput,

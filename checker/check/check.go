@@ -35,6 +35,9 @@ type Options struct {
 	Exists   func(string) bool // for discovery; nil = the working tree
 	Today    string            // YYYY-MM-DD for waiver expiry; "" = the real clock
 	Worst    WorstCase
+	// NoFixCheck offers fixes without the whole-circuit check (fixes.go);
+	// only for measuring what the check costs or changes.
+	NoFixCheck bool
 }
 
 // Result is the outcome for one file.
@@ -132,32 +135,42 @@ func (r *Runner) File(path string, data []byte) Result {
 		return res
 	}
 	cfg := set.Config(r.opt.Rules)
-	fs, err := r.judge(c, cfg)
+	fs, nominal, err := r.judge(c, cfg)
 	if err != nil {
 		res.Err = err
 		return res
+	}
+	if !r.opt.NoFixCheck {
+		verifyFixes(r.opt.Rules, fs, data, nominal, cfg.Fixes, func(b []byte) ([]engine.Finding, *analysis.Case, error) {
+			c2, err := circuit.LoadBytes(path, b, circuit.Options{ReadFile: r.opt.ReadFile, Libraries: set.Libraries})
+			if err != nil {
+				return nil, nil, err
+			}
+			return r.judge(c2, cfg)
+		})
 	}
 	res.Findings = applyWaivers(c, cfg, fs, r.opt.Today)
 	engine.Sort(res.Findings)
 	return res
 }
 
-// judge analyses the circuit and returns its failing findings with severities.
-func (r *Runner) judge(c *circuit.Circuit, cfg *engine.Config) ([]engine.Finding, error) {
+// judge analyses the circuit and returns its failing findings with
+// severities, and the nominal case.
+func (r *Runner) judge(c *circuit.Circuit, cfg *engine.Config) ([]engine.Finding, *analysis.Case, error) {
 	topo := topology.Analyze(c)
 	nominal := analysis.Run(c, topo)
 	var fs []engine.Finding
 	var err error
 	if cfg.Corners == "worst" {
 		if r.opt.Worst == nil {
-			return nil, errors.New("worst-case corners are not available in this build")
+			return nil, nil, errors.New("worst-case corners are not available in this build")
 		}
 		fs, err = r.opt.Worst(c, topo, nominal, cfg)
 	} else {
 		fs, err = engine.Measure(nominal, nil, cfg) // messages are written below, for failing items only
 	}
 	if err != nil {
-		return nil, err
+		return nil, nil, err
 	}
 	var out []engine.Finding
 	seen := map[[2]string]int{} // two-bound rules: one finding per part, the worse bound
@@ -186,7 +199,7 @@ func (r *Runner) judge(c *circuit.Circuit, cfg *engine.Config) ([]engine.Finding
 		}
 		out = append(out, f)
 	}
-	return out, nil
+	return out, nominal, nil
 }
 
 // checkWaiverRules rejects a waiver that names a rule nobody knows.

@@ -60,6 +60,10 @@ type Finding struct {
 	// solves the circuit again): the engine calls it once, for a finding
 	// that fails at the case finally reported, instead of at every corner.
 	FixLater func() (string, []Change)
+	// FixForms lists further forms of the fix (another part to change, the
+	// same aim reached another way), tried in order when the first form
+	// fails the whole-circuit check of checker/check. Called at most once.
+	FixForms func() []FixForm
 
 	// Engine-filled.
 	Severity   Severity
@@ -67,6 +71,12 @@ type Finding struct {
 	CornerText string             // the same, for people: "Q1 hFE 100, vcc 13.8 V, R1 -5 %"
 	Waived     bool
 	Reason     string // the waiver's reason, when waived
+}
+
+// FixForm is one way to make a fix: the text for people and the edits.
+type FixForm struct {
+	Text    string
+	Changes []Change
 }
 
 // Change is one circuit-file edit: part (or REF.WINDING), key, new text.
