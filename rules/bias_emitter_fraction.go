@@ -258,7 +258,7 @@ func baseFormAt(p *engine.Pass, tb *topology.BJT, lo, hi, aim float64, q *dc.BJT
 		return []float64{a, b}
 	}
 	type cand struct {
-		v1, v2, ve   float64
+		v1, v2, ve    float64
 		fc, fo, drift float64
 	}
 	var best *cand
