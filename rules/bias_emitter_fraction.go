@@ -27,7 +27,8 @@ var BiasEmitterFraction = &engine.Rule{
 		Why: "The emitter voltage is what holds the collector current against VBE, which falls about 2 mV per °C: " +
 			"with too little of it the bias drifts with temperature and from part to part; with too much the " +
 			"stage wastes supply that the collector swing needs.",
-		Formula: "for a common-emitter stage (the collector not directly on an AC-ground or decoupled net): " +
+		Formula: "for a common-emitter stage (the collector not directly on an AC-ground or decoupled net, the base not " +
+			"held at AC ground; followers and common-base stages are not judged): " +
 			"V(emitter) ÷ V(feed rail), both measured from the return rail, >= min_fraction and <= max_fraction " +
 			"(one item per bound; the finding reports the bound it violates); unit fraction",
 		Source: "common practice, no published source (about a tenth of the supply across the emitter resistor)",
