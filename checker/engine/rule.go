@@ -33,6 +33,11 @@ type Rule struct {
 	// searched for this rule's items (bias.drift: a supply's own range moves
 	// IC by design).
 	HoldSupplies bool
+	// FromFile marks a rule whose figures come from the file's values alone
+	// (the supplies' voltages), not from the analysed circuit: like a
+	// Static rule it is still judged when net.connectivity finds the wiring
+	// broken.
+	FromFile bool
 	// FixMoves names the circuit measures this rule's fix is meant to move
 	// (MoveIC: a transistor's nominal collector current; MoveGain: the band
 	// gain). The whole-circuit check of a fix (checker/check) lets those

@@ -77,6 +77,11 @@ func Text(w, errw io.Writer, results []check.Result, pal Palette) {
 		}
 	}
 	s := Summarize(results)
+	for _, r := range results {
+		if len(r.NotJudged) > 0 && r.Err == nil {
+			fmt.Fprintf(w, "%s: %s not judged: %s\n", r.Path, plural(len(r.NotJudged), "rule"), r.NotJudgedWhy)
+		}
+	}
 	tail := ""
 	if failed > 0 {
 		tail = fmt.Sprintf("; %s not checked (input errors)", plural(failed, "file"))

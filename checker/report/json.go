@@ -84,6 +84,9 @@ func (r *Report) JSON(w io.Writer) error {
 				e["ic"], e["ib"] = quantity.Finite(floored(b.IC, quantity.Ampere)), quantity.Finite(floored(b.IB, quantity.Ampere))
 				e["vbe"], e["vce"] = quantity.Finite(b.VBE), quantity.Finite(b.VCE)
 				e["power"], e["hfe"], e["region"] = quantity.Finite(floored(b.Power, quantity.Watt)), quantity.Finite(b.HFE), b.Region
+				if b.Reversed() {
+					e["reversed"] = true // conducts backwards: collector and emitter may be swapped
+				}
 				if tb := cs.Topo.BJTs[p.Ref]; tb != nil {
 					e["configuration"] = tb.Config
 				}

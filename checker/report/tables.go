@@ -75,7 +75,11 @@ func (r *Report) tables() []table {
 		if tb := r.Case.Topo.BJTs[p.Ref]; tb != nil {
 			config = tb.Config
 		}
-		row := []string{p.Ref, p.Device, config, b.Region, r.ranged(p.Ref+".ic", b.IC, quantity.Ampere),
+		region := b.Region
+		if b.Reversed() {
+			region += ", conducts in reverse: collector and emitter may be swapped"
+		}
+		row := []string{p.Ref, p.Device, config, region, r.ranged(p.Ref+".ic", b.IC, quantity.Ampere),
 			r.ranged(p.Ref+".vce", b.VCE, quantity.Volt), v(b.VBE, quantity.Volt), v(b.IB, quantity.Ampere),
 			r.ranged(p.Ref+".power", b.Power, quantity.Watt), num(b.HFE), "", ""}
 		if ac != nil && ac.BJTs[p.Ref] != nil {
