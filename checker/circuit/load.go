@@ -402,7 +402,7 @@ func (ld *loader) part(t *tomlfile.Table) *Part {
 			if k >= 1 {
 				t.Errorf(t.ValPos("coupling"), "%s coupling: must lie between 0 and 1, exclusive (k = 1 makes the windings' inductance matrix singular); got %g", t.What, k)
 			} else {
-				p.Coupling = k
+				p.Coupling, p.CouplingSet = k, true
 			}
 		}
 		ld.windings(t, p)

@@ -127,9 +127,15 @@ func (r *Report) JSON(w io.Writer) error {
 						we["inductance"], we["reactance"], we["termination"] = quantity.Finite(x.Inductance), quantity.Finite(x.Reactance), quantity.Finite(x.Termination)
 					}
 				}
+				if ac != nil {
+					if rl, ok := reflectedLoad(p, wd, ac.Windings[p.Ref]); ok {
+						we["reflected_load"] = quantity.Finite(rl)
+					}
+				}
 				ws[wd.Name] = we
 			}
 			e["windings"] = ws
+			e["coupling"], e["coupling_default"] = p.Coupling, !p.CouplingSet
 		}
 		doc.Parts[p.Ref] = e
 	}

@@ -8,6 +8,7 @@ import (
 	"strconv"
 	"strings"
 
+	"headroom/checker/ac"
 	"headroom/checker/circuit"
 	"headroom/checker/quantity"
 )
@@ -145,6 +146,10 @@ func (r *Report) partRows(p *circuit.Part) [][]string {
 		}
 	case circuit.Transformer:
 		var rows [][]string
+		coupling := "coupling " + num(p.Coupling)
+		if !p.CouplingSet {
+			coupling += " (default)"
+		}
 		for _, w := range p.Windings {
 			wr := []string{p.Ref + "." + w.Name, "winding", fmt.Sprintf("%g turns, %s", w.Turns, v(p.AL*w.Turns*w.Turns, quantity.Henry)), "", "", "", ""}
 			if d != nil {
@@ -153,7 +158,11 @@ func (r *Report) partRows(p *circuit.Part) [][]string {
 			if ac != nil && ac.Windings[p.Ref] != nil && ac.Windings[p.Ref][w.Name] != nil {
 				x := ac.Windings[p.Ref][w.Name]
 				wr[4], wr[5] = v(x.Reactance, quantity.Ohm), v(x.Termination, quantity.Ohm)
+				if rl, ok := reflectedLoad(p, w, ac.Windings[p.Ref]); ok {
+					wr[5] = v(rl, quantity.Ohm) + " reflected (" + v(x.Termination, quantity.Ohm) + " across its own nets)"
+				}
 			}
+			wr[6] = coupling
 			rows = append(rows, wr)
 		}
 		return rows
@@ -162,6 +171,28 @@ func (r *Report) partRows(p *circuit.Part) [][]string {
 		row[4], row[5] = v(ac.Parts[p.Ref].Reactance, quantity.Ohm), v(ac.Parts[p.Ref].CircuitImpedance, quantity.Ohm)
 	}
 	return [][]string{row}
+}
+
+// reflectedLoad is what a winding works into through the transformer: the
+// other windings' terminations, each times (this winding's turns ÷ its
+// turns)², in parallel (magnitudes; leakage and magnetising inductance
+// left out). What sits across the winding's own nets (a transistor's output
+// on a collector winding) is its termination, shown apart. false when no
+// other winding has a termination.
+func reflectedLoad(p *circuit.Part, w *circuit.Winding, ws map[string]*ac.Winding) (float64, bool) {
+	g := 0.0
+	for _, o := range p.Windings {
+		x := ws[o.Name]
+		if o == w || x == nil || !(x.Termination > 0) || !(o.Turns > 0) {
+			continue
+		}
+		r := w.Turns / o.Turns
+		g += 1 / (x.Termination * r * r)
+	}
+	if !(g > 0) {
+		return 0, false
+	}
+	return 1 / g, true
 }
 
 func (r *Report) ranged(key string, x float64, u quantity.Unit) string {
