@@ -27,7 +27,7 @@ func TestBypassFractionCostsAboutOneDB(t *testing.T) {
 // rxEmitterVector is REFERENCES.md §10's emitter-bypass test vector as a
 // circuit: I_E 5 mA, β 100, a 50 ohm source on a 27k/4k7 divider, R_E
 // 470 ohm, at 1.8 MHz and 300 K (VT 25.852 mV). The transistor has an ft
-// of 100 GHz and no Cob, so that Cπ and Cμ vanish as they do in the vector;
+// of 100 GHz, no Cob and no rb, so that Cπ, Cμ and rb vanish as they do in the vector;
 // the supply is set so that the emitter current comes out at 5 mA.
 func rxEmitterVector(t *testing.T, ce string) string {
 	const beta, vbe, icRef = 100.0, 0.70, 10e-3
@@ -52,7 +52,7 @@ direction = "in"
 C1 = { kind = "capacitor", value = "1", nets = ["rf_in", "base"] }
 R1 = { kind = "resistor", value = "27k", nets = ["vcc", "base"] }
 R2 = { kind = "resistor", value = "4k7", nets = ["base", "gnd"] }
-Q1 = { kind = "npn", device = "2N3904", hfe = [100, 100], ft = "100GHz", cob = "0", nets = { collector = "coll", base = "base", emitter = "emit" } }
+Q1 = { kind = "npn", device = "2N3904", hfe = [100, 100], ft = "100GHz", cob = "0", rb = "0", nets = { collector = "coll", base = "base", emitter = "emit" } }
 R3 = { kind = "resistor", value = "470", nets = ["emit", "gnd"] }
 C2 = { kind = "capacitor", value = "%s", nets = ["emit", "gnd"] }
 R4 = { kind = "resistor", value = "1k", nets = ["vcc", "coll"] }

@@ -155,7 +155,7 @@ func matchAdvice(p *engine.Pass, port *circuit.Port, b ac.BandPoint) string {
 			complexOhms(1/x.y), quantity.Approx(cmplx.Abs(x.y)/total, quantity.Fraction))
 	}
 	// Behind a series part into a transistor's base: the bias network and
-	// the transistor's own input (β·re with Cπ, at this frequency).
+	// the transistor's own input (rb, then β·re with Cπ, at this frequency).
 	described := false
 	for _, x := range bs {
 		far := otherNet(x.part, port.Net)
@@ -171,7 +171,11 @@ func matchAdvice(p *engine.Pass, port *circuit.Port, b ac.BandPoint) string {
 			described = true
 			fmt.Fprintf(&out, "; behind %s, at %s's base, the bias network is %s", x.part.Ref, tp.Ref, complexOhms(zbias))
 			if yq := 1/zall - 1/zbias; yq != 0 && !cmplx.IsNaN(yq) && !cmplx.IsInf(yq) {
-				fmt.Fprintf(&out, " and %s's own input (β·re with Cπ, its emitter circuit reflected) %s", tp.Ref, complexOhms(1/yq))
+				what := "β·re with Cπ, its emitter circuit reflected"
+				if tp.BJT != nil && tp.BJT.RB > 0 {
+					what = "rb, then " + what
+				}
+				fmt.Fprintf(&out, " and %s's own input (%s) %s", tp.Ref, what, complexOhms(1/yq))
 				if real(1/yq) < 0 {
 					out.WriteString(", a negative resistance")
 				}

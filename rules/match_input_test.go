@@ -87,8 +87,9 @@ nets = ["vcc", "gnd"]
 
 // A 6 m emitter follower with a 100 pF emitter load: the hybrid-π closed
 // form Zb = Zπ + (1 + gm·Zπ)·Ze (FORMAT.md §6: gm = IC/VT, rπ = β/gm,
-// Cπ = gm/(2π·ft) − Cμ), with Cμ, the divider and C1 around it, gives a
-// negative input resistance; the message says the stage may oscillate.
+// Cπ = gm/(2π·ft) − Cμ) at the internal base, with Cμ, the shipped 10 Ω
+// rb, the divider and C1 around it, gives a negative input resistance; the
+// message says the stage may oscillate.
 func TestMatchInputNegativeResistance(t *testing.T) {
 	src := `[circuit]
 name = "6 m follower, capacitive load"
@@ -142,8 +143,10 @@ nets = ["emit", "gnd"]
 		zpi := 1 / complex(1/rpi, w*cpi)
 		ze := 1 / complex(1/1e3, w*100e-12)
 		zb := zpi + (1+complex(gm, 0)*zpi)*ze
-		yb := 1/zb + complex(2/10e3, w*cmu)
-		zin := complex(0, -1/(w*1e-9)) + 1/yb
+		// Cμ from b' to the collector (AC ground), then rb to the base pin
+		// (the shipped 10 Ω), then the divider's two 10k to AC ground.
+		zpin := libraryRB + 1/(1/zb+complex(0, w*cmu))
+		zin := complex(0, -1/(w*1e-9)) + 1/(1/zpin+complex(2/10e3, 0))
 		rl := -20 * math.Log10(cmplx.Abs((zin-50)/(zin+50)))
 		worst = math.Min(worst, rl)
 	}

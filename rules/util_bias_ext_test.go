@@ -41,15 +41,22 @@ func biasApply(t testing.TB, src string, f engine.Finding) string {
 
 // stage is the DC state of one transistor found by closed form.
 type stage struct {
-	IC, IB, VBE, VB, VE float64 // magnitudes, V from the return rail
+	IC, IB, VBE, VB, VE float64 // magnitudes, V from the return rail; VBE between the pins
 }
+
+// libraryRB is the base spreading resistance every shipped transistor has
+// (checker/library/parts.toml: 10 Ω, from a public device model or from
+// memory, REFERENCES-2.md §1.4). The closed forms below carry it in series
+// with the base, as the model does.
+const libraryRB = 10.0 // Ω
 
 // dividerStage solves FORMAT.md §6's model for a transistor whose base is
 // fed from a Thevenin source (vth behind rth, from the return rail) and
 // whose emitter returns through re, collector well clear of saturation so
 // that the reverse Ebers–Moll terms are negligible: IC = IS·e^(VBE/VT),
 // IS = icRef/e^(VBEref/VT), VBEref = vbe − 2 mV/°C·(T − 25), IB = IC/β,
-// vth = rth·IB + VBE + (IC + IB)·re. Bisection on IC.
+// vth = (rth + rb)·IB + VBE + (IC + IB)·re with rb = libraryRB, VBE the
+// junction's. Bisection on IC.
 func dividerStage(vth, rth, re, beta, vbe, icRef, tempC float64) stage {
 	vt := thermalVoltage(tempC)
 	is := icRef / math.Exp((vbe-0.002*(tempC-25))/vt)
@@ -57,14 +64,14 @@ func dividerStage(vth, rth, re, beta, vbe, icRef, tempC float64) stage {
 	var ic float64
 	for i := 0; i < 200; i++ {
 		ic = (lo + hi) / 2
-		if vt*math.Log(ic/is+1)+ic/beta*rth+ic*(1+1/beta)*re > vth {
+		if vt*math.Log(ic/is+1)+ic/beta*(rth+libraryRB)+ic*(1+1/beta)*re > vth {
 			hi = ic
 		} else {
 			lo = ic
 		}
 	}
 	ib := ic / beta
-	return stage{IC: ic, IB: ib, VBE: vt * math.Log(ic/is+1), VB: vth - rth*ib, VE: (ic + ib) * re}
+	return stage{IC: ic, IB: ib, VBE: vt*math.Log(ic/is+1) + ib*libraryRB, VB: vth - rth*ib, VE: (ic + ib) * re}
 }
 
 // divider is dividerStage for a divider of r1 (to the feed) and r2 (to the

@@ -34,20 +34,20 @@ type deviceChoice struct {
 }
 
 // figure names of FORMAT.md §2, in the order they are compared.
-var figureNames = []string{"ft", "hfe", "hfe_typ", "vbe", "ic_ref", "pd", "tj_max", "ic_max", "vceo", "cob"}
+var figureNames = []string{"ft", "hfe", "hfe_typ", "vbe", "ic_ref", "pd", "tj_max", "ic_max", "vceo", "cob", "rb"}
 
 // figures maps a transistor's figures by name; hfe stands for its range.
 func figures(b *circuit.BJTParams) map[string][2]float64 {
 	return map[string][2]float64{
 		"ft": {b.FT}, "hfe": {b.HFEMin, b.HFEMax}, "hfe_typ": {b.HFETyp}, "vbe": {b.VBE},
 		"ic_ref": {b.ICRef}, "pd": {b.PD}, "tj_max": {b.TjMax}, "ic_max": {b.ICMax},
-		"vceo": {b.VCEO}, "cob": {b.Cob},
+		"vceo": {b.VCEO}, "cob": {b.Cob}, "rb": {b.RB},
 	}
 }
 
 func libFigures(t *library.Transistor) circuit.BJTParams {
 	return circuit.BJTParams{FT: t.FT, HFEMin: t.HFEMin, HFEMax: t.HFEMax, HFETyp: t.HFETyp, VBE: t.VBE,
-		ICRef: t.ICRef, PD: t.PD, TjMax: t.TjMax, ICMax: t.ICMax, VCEO: t.VCEO, Cob: t.Cob}
+		ICRef: t.ICRef, PD: t.PD, TjMax: t.TjMax, ICMax: t.ICMax, VCEO: t.VCEO, Cob: t.Cob, RB: t.RB}
 }
 
 // partLibrary is the library the circuit's devices resolve against (the
@@ -103,6 +103,7 @@ func withInline(t *library.Transistor, part *circuit.BJTParams, inline map[strin
 	set("ic_max", &b.ICMax, part.ICMax)
 	set("vceo", &b.VCEO, part.VCEO)
 	set("cob", &b.Cob, part.Cob)
+	set("rb", &b.RB, part.RB)
 	return b
 }
 

@@ -34,22 +34,23 @@ func marginFinding(t testing.TB, fs []engine.Finding, part string) engine.Findin
 // NPN whose base is held at vb by an ideal source and whose emitter returns
 // to gnd through re, collector well above its base (VBC reverse-biased, so
 // its Ebers–Moll terms are a few IS and are dropped). IS = ic_ref/e^(VBEref/VT)
-// with VBEref = vbe − 2 mV/°C·(T − 25); IB = IC/βF; vb = VBE + (IC + IB)·re.
-// Solved by bisection on IC.
+// with VBEref = vbe − 2 mV/°C·(T − 25); IB = IC/βF; vb = Vj + IB·rb + (IC + IB)·re
+// with Vj the junction's VBE and rb = libraryRB. Solved by bisection on IC;
+// vbeOut is VBE between the pins, Vj + IB·rb.
 func followerPoint(vb, re, vbe, icRef, beta, tempC float64) (ic, ib, vbeOut float64) {
 	vt := thermalVoltage(tempC)
 	is := icRef / math.Exp((vbe-0.002*(tempC-25))/vt)
 	lo, hi := 0.0, vb/re
 	for i := 0; i < 200; i++ {
 		ic = (lo + hi) / 2
-		v := vt*math.Log(ic/is+1) + ic*(1+1/beta)*re
+		v := vt*math.Log(ic/is+1) + ic/beta*libraryRB + ic*(1+1/beta)*re
 		if v > vb {
 			hi = ic
 		} else {
 			lo = ic
 		}
 	}
-	return ic, ic / beta, vt * math.Log(ic/is+1)
+	return ic, ic / beta, vt*math.Log(ic/is+1) + ic/beta*libraryRB
 }
 
 // Every rule of the group documents itself fully (explain prints these): a

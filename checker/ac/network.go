@@ -5,6 +5,7 @@ import (
 	"math"
 	"slices"
 	"sort"
+	"strconv"
 	"strings"
 	"sync"
 
@@ -41,8 +42,9 @@ type element struct {
 // network is a circuit reduced to nodes and admittance stamps, holding copies
 // of every value it needs so that later edits of the circuit do not reach it.
 type network struct {
-	n     int            // number of nodes (nets that are not AC ground)
+	n     int            // number of nodes (nets that are not AC ground, and internal bases)
 	nodes map[string]int // every net of the circuit, gnd included; ground for AC-ground nets
+	inner map[string]int // transistor reference → node of its internal base b' (only when rb > 0)
 	elems []element
 	parts map[string]int // part reference → index in elems
 
@@ -69,7 +71,7 @@ func build(c *circuit.Circuit, op *dc.Result) (*network, error) {
 			acGround[s.Net] = true
 		}
 	}
-	nw.nodes, nw.n = numbering(c, acGround)
+	nw.nodes, nw.inner, nw.n = numbering(c, acGround)
 	node := func(net string) int { return nw.nodes[net] }
 
 	for _, s := range c.Supplies {
@@ -170,7 +172,7 @@ func (nw *network) addPart(p *circuit.Part, op *dc.Result, node func(string) int
 	case circuit.Transformer:
 		return nw.addTransformer(p, node)
 	case circuit.NPN, circuit.PNP:
-		return nw.addBJT(p, op, node)
+		return nw.addBJT(p, op, node, nw.inner)
 	default:
 		return fmt.Errorf("kind %q has no small-signal model", p.Kind)
 	}
@@ -221,20 +223,39 @@ func (nw *network) addTransformer(p *circuit.Part, node func(string) int) error 
 	return nil
 }
 
-// addBJT stamps the hybrid-π model at the operating point: rπ and Cπ base to
-// emitter, Cμ base to collector, gm·vbe from collector to emitter. A PNP's
-// small-signal model is the same as an NPN's.
-func (nw *network) addBJT(p *circuit.Part, op *dc.Result, node func(string) int) error {
+// addBJT stamps the hybrid-π model at the operating point: rπ and Cπ from
+// the internal base b' to emitter, Cμ from b' to collector, gm·vb'e from
+// collector to emitter, and rb from the base pin to b'. Without rb, b' is
+// the base pin and the stamp is the three-branch one. A PNP's small-signal
+// model is the same as an NPN's.
+func (nw *network) addBJT(p *circuit.Part, op *dc.Result, node func(string) int, inner map[string]int) error {
 	h, err := hybridPi(p, op)
 	if err != nil {
 		return err
 	}
 	c, b, e := node(p.Nets[0]), node(p.Nets[1]), node(p.Nets[2])
-	nw.add(p.Ref, []branch{{b, e}, {b, c}, {c, e}}, func(w float64) ([]complex128, error) {
+	rb := p.BJT.RB
+	if rb == 0 {
+		nw.add(p.Ref, []branch{{b, e}, {b, c}, {c, e}}, func(w float64) ([]complex128, error) {
+			return []complex128{
+				complex(h.gpi, w*h.Cpi), 0, 0,
+				0, complex(0, w*h.Cmu), 0,
+				complex(h.GM, 0), 0, 0,
+			}, nil
+		})
+		return nil
+	}
+	bi, ok := inner[p.Ref]
+	if !positive(rb) || !ok {
+		return fmt.Errorf("base resistance rb %g is not a finite value ≥ 0", rb)
+	}
+	// Branches b'–e, b'–c, c–e as above, and b–b' for rb.
+	nw.add(p.Ref, []branch{{bi, e}, {bi, c}, {c, e}, {b, bi}}, func(w float64) ([]complex128, error) {
 		return []complex128{
-			complex(h.gpi, w*h.Cpi), 0, 0,
-			0, complex(0, w*h.Cmu), 0,
-			complex(h.GM, 0), 0, 0,
+			complex(h.gpi, w*h.Cpi), 0, 0, 0,
+			0, complex(0, w*h.Cmu), 0, 0,
+			complex(h.GM, 0), 0, 0, 0,
+			0, 0, 0, complex(1/rb, 0),
 		}, nil
 	})
 	return nil
@@ -355,9 +376,11 @@ func (nw *network) refs(removed []string) ([]int, error) {
 }
 
 // numbered is one memoised numbering: net → node (ground for gnd and the
-// AC-ground nets), read-only, and the number of nodes.
+// AC-ground nets), transistor → node of its internal base, both read-only,
+// and the number of nodes.
 type numbered struct {
 	nodes map[string]int
+	inner map[string]int
 	n     int
 }
 
@@ -369,11 +392,12 @@ var numberings = struct {
 	m map[string]numbered
 }{m: map[string]numbered{}}
 
-// numbering numbers the nets of c in order's order; the AC-ground nets and
-// gnd are ground. The map is shared: read it, never write it.
-func numbering(c *circuit.Circuit, acGround map[string]bool) (map[string]int, int) {
-	// The key holds everything order reads: the wiring, and which supplies
-	// are AC ground.
+// numbering numbers the nets of c, and the internal base of every
+// transistor with rb > 0, in order's order; the AC-ground nets and gnd are
+// ground. The maps are shared: read them, never write them.
+func numbering(c *circuit.Circuit, acGround map[string]bool) (map[string]int, map[string]int, int) {
+	// The key holds everything order reads: the wiring, which supplies are
+	// AC ground, and which parts have an internal base.
 	var k strings.Builder
 	k.WriteString(c.WiringKey())
 	k.WriteByte('#')
@@ -384,17 +408,29 @@ func numbering(c *circuit.Circuit, acGround map[string]bool) (map[string]int, in
 			k.WriteByte('-')
 		}
 	}
+	k.WriteByte('#')
+	for i, p := range c.Parts {
+		if hasInner(p) {
+			k.WriteString(strconv.Itoa(i))
+			k.WriteByte(',')
+		}
+	}
 	key := k.String()
 	numberings.Lock()
 	got, ok := numberings.m[key]
 	numberings.Unlock()
 	if ok {
-		return got.nodes, got.n
+		return got.nodes, got.inner, got.n
 	}
 	nodes := map[string]int{circuit.Gnd: ground}
+	inner := map[string]int{}
 	n := 0
-	for _, net := range order(c, acGround) {
-		nodes[net] = n
+	for _, v := range order(c, acGround) {
+		if v.part != nil {
+			inner[v.part.Ref] = n
+		} else {
+			nodes[v.net] = n
+		}
 		n++
 	}
 	for net := range acGround {
@@ -404,30 +440,59 @@ func numbering(c *circuit.Circuit, acGround map[string]bool) (map[string]int, in
 	if len(numberings.m) >= 16 {
 		clear(numberings.m) // other circuits: a check goes through them one by one
 	}
-	numberings.m[key] = numbered{nodes, n}
+	numberings.m[key] = numbered{nodes, inner, n}
 	numberings.Unlock()
-	return nodes, n
+	return nodes, inner, n
 }
 
-// order numbers the nets that are not AC ground by reverse Cuthill–McKee on
-// the graph of nets that share a part, so that the nodal matrix is banded and
-// its factorisation fills in little (a chain of stages stays a chain).
-func order(c *circuit.Circuit, acGround map[string]bool) []string {
-	nets := c.Nets() // ties are broken by name, that is by index
-	idx := make(map[string]int, len(nets))
-	skip := make([]bool, len(nets))
-	for i, n := range nets {
+// hasInner reports whether p is a transistor with an internal base node
+// (rb > 0, or a value addBJT will refuse).
+func hasInner(p *circuit.Part) bool {
+	return p.Kind.IsBJT() && p.BJT != nil && p.BJT.RB != 0 && len(p.Nets) == 3
+}
+
+// vertex is one node to be numbered: a net, or a transistor's internal base.
+type vertex struct {
+	net  string
+	part *circuit.Part
+}
+
+// order numbers the nets that are not AC ground, and the internal bases,
+// by reverse Cuthill–McKee on the graph of nodes that share a part, so that
+// the nodal matrix is banded and its factorisation fills in little (a chain
+// of stages stays a chain). An internal base counts as one more end of its
+// transistor.
+func order(c *circuit.Circuit, acGround map[string]bool) []vertex {
+	names := c.Nets() // ties are broken by name, that is by index; internal bases come after
+	nets := make([]vertex, len(names), len(names)+len(c.Parts))
+	idx := make(map[string]int, len(names))
+	for i, n := range names {
 		idx[n] = i
-		skip[i] = acGround[n]
+		nets[i] = vertex{net: n}
+	}
+	innerOf := make([]int, len(c.Parts))
+	for i, p := range c.Parts {
+		innerOf[i] = -1
+		if hasInner(p) {
+			innerOf[i] = len(nets)
+			nets = append(nets, vertex{part: p})
+		}
+	}
+	skip := make([]bool, len(nets))
+	for i, v := range nets {
+		skip[i] = v.part == nil && acGround[v.net]
 	}
 	adj := make([][]int, len(nets))
 	var ends []int
-	for _, p := range c.Parts {
+	for pi, p := range c.Parts {
 		ends = ends[:0]
 		for _, n := range p.PartNets() {
 			if i, ok := idx[n]; ok && !skip[i] {
 				ends = append(ends, i)
 			}
+		}
+		if innerOf[pi] >= 0 {
+			ends = append(ends, innerOf[pi])
 		}
 		for _, a := range ends {
 			for _, b := range ends {
@@ -443,7 +508,7 @@ func order(c *circuit.Circuit, acGround map[string]bool) []string {
 	}
 	degree := func(n int) int { return len(adj[n]) }
 	seen := make([]bool, len(nets))
-	out := make([]string, 0, len(nets))
+	out := make([]vertex, 0, len(nets))
 	var queue, next []int
 	for {
 		start := -1

@@ -52,6 +52,7 @@ func randomNet(rng *rand.Rand, nets, parts int, wide bool) *net {
 			}
 		case 5:
 			n.bjt(circuit.NPN, ref, name(), name(), name(), []float64{0, decade(-5, -1)}[rng.IntN(2)], decade(1, 2.5), decade(7, 9.5), decade(-13, -11))
+			n.c.Parts[len(n.c.Parts)-1].BJT.RB = []float64{0, decade(-2, 3)}[rng.IntN(2)] // rb on half of them
 		}
 	}
 	return n

@@ -734,7 +734,7 @@ func (ld *loader) transistor(t *tomlfile.Table, p *Part) {
 		t.Errorf(at, "%s hfe_typ: %g lies outside hfe [%g, %g]%s", t.What, tr.HFETyp, tr.HFEMin, tr.HFEMax, note)
 	}
 	p.BJT = &BJTParams{FT: tr.FT, HFEMin: tr.HFEMin, HFEMax: tr.HFEMax, HFETyp: tr.HFETyp, VBE: tr.VBE,
-		ICRef: tr.ICRef, PD: tr.PD, TjMax: tr.TjMax, ICMax: tr.ICMax, VCEO: tr.VCEO, Cob: tr.Cob}
+		ICRef: tr.ICRef, PD: tr.PD, TjMax: tr.TjMax, ICMax: tr.ICMax, VCEO: tr.VCEO, Cob: tr.Cob, RB: tr.RB}
 }
 
 func (ld *loader) waivers(root *tomlfile.Table) {

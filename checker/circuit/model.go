@@ -147,6 +147,7 @@ type BJTParams struct {
 	ICMax  float64 // A (magnitude)
 	VCEO   float64 // V (magnitude)
 	Cob    float64 // F, used as Cμ
+	RB     float64 // Ω, base spreading resistance; 0 when not given
 }
 
 // NominalHFE is hfe_typ when given, else √(min·max) (FORMAT.md §3).

@@ -7,7 +7,9 @@
 // one-sided finite-difference sensitivity); the item is then judged at the
 // vertex made of all its adverse ends. Items that want the same vertex share
 // one analysis. For a metric monotonic in each parameter this is the worst
-// vertex of the box; the README lists where it can miss.
+// vertex of the box; items near their limit are then searched on from there
+// (refine.go), and the README gives how close the result comes to a
+// brute-force search, measured.
 package corners
 
 import (

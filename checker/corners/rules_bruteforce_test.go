@@ -60,7 +60,7 @@ func TestCatalogueMatchesBruteForce(t *testing.T) {
 				if n, ok := nomBy[k]; ok && engine.Worse(&n, &f) {
 					t.Errorf("%s %s: the search reports a case better than nominal", f.Rule, f.Part)
 				}
-				if close(f, w) {
+				if closeTo(f, w) {
 					continue
 				}
 				if why, ok := nonMonotonic[f.Rule]; ok {
@@ -81,10 +81,10 @@ var nonMonotonic = map[string]string{
 	"decoupling.reactance": "judged only where the net is not already stiff",
 }
 
-// close compares two judgements of one item within 1 %: the measured values,
+// closeTo compares two judgements of one item within 1 %: the measured values,
 // or for a metric that sits near zero (bias.drift at a mild corner), the
 // adverse ratios measured ÷ limit.
-func close(a, b engine.Finding) bool {
+func closeTo(a, b engine.Finding) bool {
 	if math.Abs(a.Measured-b.Measured) <= 0.01*math.Max(math.Abs(a.Measured), math.Abs(b.Measured)) {
 		return true
 	}

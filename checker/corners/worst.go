@@ -25,6 +25,7 @@ type item struct {
 	corner map[string]float64 // where best was found
 	nom    *engine.Finding    // the item at nominal, nil when nominal did not judge it
 	dirs   []int8             // per parameter: +1 high end hurts, −1 low end, 0 no effect
+	state  []int8             // the case best was found at: per parameter −1 low, 0 nominal, +1 high
 	hold   bool               // supplies stay nominal for this item
 }
 
@@ -32,6 +33,12 @@ type item struct {
 // one finding per item (failing or not, as engine.Evaluate does). Messages
 // are written only for the cases reported.
 func Worst(c *circuit.Circuit, topo *topology.Topology, nominal *analysis.Case, cfg *engine.Config) ([]engine.Finding, error) {
+	return search(c, topo, nominal, cfg, true)
+}
+
+// search is Worst, with the local search of refine when local is set (tests
+// turn it off to measure what it changes).
+func search(c *circuit.Circuit, topo *topology.Topology, nominal *analysis.Case, cfg *engine.Config, local bool) ([]engine.Finding, error) {
 	box := Box(c)
 	fs, err := engine.Measure(nominal, nominal, cfg)
 	if err != nil {
@@ -47,7 +54,7 @@ func Worst(c *circuit.Circuit, topo *topology.Topology, nominal *analysis.Case, 
 		k := engine.KeyOf(f)
 		it := items[k]
 		if it == nil {
-			it = &item{best: *f, corner: map[string]float64{}, dirs: make([]int8, len(box)), hold: hold[f.Rule]}
+			it = &item{best: *f, corner: map[string]float64{}, dirs: make([]int8, len(box)), state: make([]int8, len(box)), hold: hold[f.Rule]}
 			items[k] = it
 			order = append(order, k)
 		}
@@ -86,6 +93,8 @@ func Worst(c *circuit.Circuit, topo *topology.Topology, nominal *analysis.Case, 
 					corner = map[string]float64{p.Key: p.Hi}
 				}
 				it.best, it.corner = *f, corner
+				clear(it.state)
+				it.state[i] = +1
 			}
 		}
 	})
@@ -107,32 +116,13 @@ func Worst(c *circuit.Circuit, topo *topology.Topology, nominal *analysis.Case, 
 		}
 		vertices[sig] = append(vertices[sig], k)
 	}
-	corners := make([]map[string]float64, len(vorder))
 	err = inOrder(len(vorder), func(v int, buf []engine.Finding) ([]engine.Finding, error) {
 		dirs := items[vertices[vorder[v]][0]].dirs
-		cc := variant(c)
-		for i, p := range box {
-			switch dirs[i] {
-			case +1:
-				p.set(cc, p.Hi)
-			case -1:
-				p.set(cc, p.Lo)
-			}
-		}
-		return engine.MeasureAppend(buf, analysis.Run(cc, topo), nominal, cfg)
+		return engine.MeasureAppend(buf, analysis.Run(at(c, box, dirs), topo), nominal, cfg)
 	}, func(v int, vf []engine.Finding) {
 		keys := vertices[vorder[v]]
 		dirs := items[keys[0]].dirs
-		corner := map[string]float64{}
-		for i, p := range box {
-			switch dirs[i] {
-			case +1:
-				corner[p.Key] = p.Hi
-			case -1:
-				corner[p.Key] = p.Lo
-			}
-		}
-		corners[v] = corner
+		corner := cornerOf(box, dirs)
 		at := make(map[engine.Key]*engine.Finding, len(keys)) // the items judged here
 		for _, k := range keys {
 			at[k] = nil
@@ -147,11 +137,18 @@ func Worst(c *circuit.Circuit, topo *topology.Topology, nominal *analysis.Case, 
 			it := items[k]
 			if f := at[k]; f != nil && !engine.Worse(&it.best, f) {
 				it.best, it.corner = *f, corner
+				copy(it.state, dirs)
 			}
 		}
 	})
 	if err != nil {
 		return nil, err
+	}
+
+	if local {
+		if err := refine(c, topo, nominal, cfg, box, items, order); err != nil {
+			return nil, err
+		}
 	}
 
 	out := make([]engine.Finding, 0, len(order))

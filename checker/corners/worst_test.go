@@ -214,7 +214,10 @@ func TestCornerListsOnlyMovers(t *testing.T) {
 }
 
 // BenchmarkWorst times the worst-case search with every rule of the default
-// set on amplifiers of about 10, 30, 100 and 300 parts.
+// set on amplifiers of about 10, 30, 100 and 300 parts, without and with the
+// local search (compare the pairs within one run), and with the local search
+// and every transistor given the library's rb of 10 Ω (rb=10: an internal
+// base node each).
 func BenchmarkWorst(b *testing.B) {
 	all := rules.All()
 	set, err := (&ruleset.Loader{Rules: all}).Load("default")
@@ -223,15 +226,29 @@ func BenchmarkWorst(b *testing.B) {
 	}
 	cfg := set.Config(all)
 	for _, stages := range []int{2, 5, 16, 50} {
-		c := testCircuit(stages)
-		b.Run(fmt.Sprintf("parts=%d", len(c.Parts)), func(b *testing.B) {
-			topo := topology.Analyze(c)
-			for b.Loop() {
-				if _, err := Worst(c, topo, analysis.Run(c, topo), cfg); err != nil {
-					b.Fatal(err)
+		for _, v := range []struct {
+			local bool
+			rb    float64
+		}{{false, 0}, {true, 0}, {true, 10}} {
+			c := testCircuit(stages)
+			name := fmt.Sprintf("parts=%d/local=%v", len(c.Parts), v.local)
+			if v.rb > 0 {
+				name += "/rb=10"
+				for _, p := range c.Parts {
+					if p.BJT != nil {
+						p.BJT.RB = v.rb
+					}
 				}
 			}
-			b.ReportMetric(float64(len(Box(c))), "params")
-		})
+			b.Run(name, func(b *testing.B) {
+				topo := topology.Analyze(c)
+				for b.Loop() {
+					if _, err := search(c, topo, analysis.Run(c, topo), cfg, v.local); err != nil {
+						b.Fatal(err)
+					}
+				}
+				b.ReportMetric(float64(len(Box(c))), "params")
+			})
+		}
 	}
 }

@@ -261,7 +261,7 @@ func TestAgainstReference(t *testing.T) {
 	for _, f := range []string{"npn", "pnp", "negative rail", "zero-impedance supply", "transformer",
 		"zero-resistance winding", "zero-resistance inductor", "inductor by turns", "potentiometer",
 		"pot at an end", "1 stage", "2 stages", "3 stages", "active", "saturated", "cutoff",
-		"negative return loss", "ambient below 0 C", "ambient above 40 C"} {
+		"negative return loss", "ambient below 0 C", "ambient above 40 C", "base resistance"} {
 		if seen[f] == 0 {
 			t.Errorf("no compared circuit had: %s (the generator has drifted)", f)
 		}
@@ -328,6 +328,7 @@ func compareDC(ty *tally, where string, c *circuit.Circuit, ref *refOP, got *dc.
 			ty.cmp("bjt ic forward", floorI, at, rb.ICf, gb.ICf)
 			ty.cmp("bjt ib forward", floorI, at, rb.IBf, gb.IBf)
 			ty.cmp("bjt vbe forward", floorV, at, rb.VBEf, gb.VBEf)
+			ty.cmp("bjt junction vbe", floorV, at, rb.VBJf, gb.VBJf)
 			ty.cmp("bjt vce forward", floorV, at, rb.VCEf, gb.VCEf)
 			ty.cmp("bjt power", floorP, at, rb.power(), gb.Power)
 			ty.cmp("bjt hfe", 0, at, rb.BF, gb.HFE)
@@ -472,6 +473,9 @@ func countFeatures(seen map[string]int, c *circuit.Circuit, op *refOP) {
 		case circuit.NPN, circuit.PNP:
 			stages++
 			seen[string(p.Kind)]++
+			if p.BJT.RB > 0 {
+				seen["base resistance"]++
+			}
 			seen[op.BJT[p.Ref].Region]++
 		case circuit.Transformer:
 			seen["transformer"]++

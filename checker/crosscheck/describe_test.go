@@ -34,8 +34,8 @@ func describe(c *circuit.Circuit) string {
 			}
 		case circuit.NPN, circuit.PNP:
 			q := p.BJT
-			fmt.Fprintf(&b, " ft %.4g, hfe %.4g–%.4g (typ %.4g), vbe %.4g at %.4g A, cob %.4g",
-				q.FT, q.HFEMin, q.HFEMax, q.HFETyp, q.VBE, q.ICRef, q.Cob)
+			fmt.Fprintf(&b, " ft %.4g, hfe %.4g–%.4g (typ %.4g), vbe %.4g at %.4g A, cob %.4g, rb %.6g Ω",
+				q.FT, q.HFEMin, q.HFEMax, q.HFETyp, q.VBE, q.ICRef, q.Cob, q.RB)
 		}
 		b.WriteString("\n")
 	}

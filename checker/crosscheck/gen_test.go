@@ -182,6 +182,9 @@ func (g *gen) bjt(kind circuit.Kind, c, b, e string) *circuit.Part {
 	if g.chance(0.4) {
 		bj.HFETyp = g.uni(hmin, hmax)
 	}
+	if g.chance(0.5) { // a base spreading resistance on about half of them
+		bj.RB = g.logU(0.5, 200)
+	}
 	p.BJT = bj
 	p.Device = ""
 	return p

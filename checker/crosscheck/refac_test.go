@@ -177,6 +177,14 @@ func newACModelGm(c *circuit.Circuit, op *refOP, gmOfMagnitude bool) *acModel {
 		m.index[net] = m.n
 		m.n++
 	}
+	// The internal base b' of a transistor with rb > 0 is a node like any
+	// net (with its 1e-12 S to gnd).
+	for _, p := range c.Parts {
+		if p.Kind.IsBJT() && p.BJT.RB > 0 {
+			m.index[innerNet(p.Ref)] = m.n
+			m.n++
+		}
+	}
 	for _, p := range c.Parts {
 		if !p.Kind.IsBJT() {
 			continue
@@ -233,6 +241,10 @@ func (m *acModel) stamp(f float64, removed map[string]bool, withIn bool) *admitt
 			stampTransformer(a, p, w)
 		case circuit.NPN, circuit.PNP:
 			c, b, e := p.Nets[0], p.Nets[1], p.Nets[2]
+			if rb := p.BJT.RB; rb > 0 { // rb from the base pin to b', the rest from b'
+				a.branch(b, innerNet(p.Ref), complex(1/rb, 0))
+				b = innerNet(p.Ref)
+			}
 			gm := m.gm[p.Ref]
 			ypi := complex(0, w*m.cpi[p.Ref])
 			if gm > 0 {

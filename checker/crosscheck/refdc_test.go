@@ -15,6 +15,11 @@ package crosscheck
 //     larger of its old value and its critical voltage. When that fails, a
 //     shunt from every group to gnd is stepped down decade by decade, and
 //     after that the supplies are ramped up from zero.
+//   - A transistor with a base spreading resistance rb > 0 gets an internal
+//     base b' of its own, a net like any other (it has 1e-12 S to gnd too):
+//     rb is a resistor from the base pin to b', and the junctions sit
+//     between b', the collector and the emitter. VBE is reported between the
+//     pins, the junction's own as VBJf.
 
 import (
 	"fmt"
@@ -57,6 +62,7 @@ type refOP struct {
 // forward-active stage of either polarity).
 type refBJT struct {
 	ICf, IBf, VBEf, VCEf float64
+	VBJf                 float64 // VBE at the junction: from b' (behind rb) to the emitter
 	IS, BF               float64
 	Region               string
 }
@@ -98,7 +104,9 @@ type mergeEdge struct {
 type dcBJT struct {
 	ref        string
 	sign       float64 // +1 NPN, −1 PNP
-	c, b, e    string
+	c, b, e    string  // the junctions' nets: b is the internal base when rb > 0
+	pin        string  // the base pin's net
+	rb         float64 // Ω
 	is, bf, vt float64
 }
 
@@ -203,10 +211,17 @@ func compileDC(c *circuit.Circuit) (*dcNet, error) {
 			if p.Kind == circuit.PNP {
 				s = -1
 			}
-			n.bjts = append(n.bjts, &dcBJT{
-				ref: p.Ref, sign: s, c: p.Nets[0], b: p.Nets[1], e: p.Nets[2],
+			q := &dcBJT{
+				ref: p.Ref, sign: s, c: p.Nets[0], b: p.Nets[1], e: p.Nets[2], pin: p.Nets[1],
 				is: satCurrent(p.BJT, c.Ambient.Nominal), bf: p.BJT.NominalHFE(), vt: n.vt,
-			})
+			}
+			if rb := p.BJT.RB; rb > 0 {
+				q.b, q.rb = innerNet(p.Ref), rb
+				n.nets = append(n.nets, q.b)
+				n.parent[q.b] = q.b
+				addR(q.pin, q.b, rb)
+			}
+			n.bjts = append(n.bjts, q)
 		}
 	}
 	for _, pt := range c.Ports {
@@ -244,6 +259,30 @@ func compileDC(c *circuit.Circuit) (*dcNet, error) {
 		n.group[x] = i
 	}
 	return n, nil
+}
+
+// innerNet names the internal base of transistor ref: no net of a circuit
+// file can hold a NUL.
+func innerNet(ref string) string { return "\x00" + ref + ".b'" }
+
+// withInner adds to v, the net voltages of checker/dc's answer, the internal
+// base of every transistor with rb, from the emitter and the junction's VBE
+// that checker/dc reports.
+func withInner(c *circuit.Circuit, v map[string]float64, vbj func(ref string) float64) map[string]float64 {
+	out := make(map[string]float64, len(v))
+	for k, x := range v {
+		out[k] = x
+	}
+	for _, p := range c.Parts {
+		if p.Kind.IsBJT() && p.BJT.RB > 0 {
+			s := 1.0
+			if p.Kind == circuit.PNP {
+				s = -1
+			}
+			out[innerNet(p.Ref)] = v[p.Nets[2]] + s*vbj(p.Ref)
+		}
+	}
+	return out
 }
 
 // potSections gives a potentiometer's a–wiper and wiper–b resistances.
@@ -556,7 +595,10 @@ func (n *dcNet) result(c *circuit.Circuit, x []float64, method string, iters int
 		leaving[q.c] += s * icf
 		leaving[q.b] += s * ibf
 		leaving[q.e] -= s * (icf + ibf)
-		b := &refBJT{ICf: icf, IBf: ibf, VBEf: vbe, VCEf: vbe - vbc, IS: q.is, BF: q.bf}
+		if q.rb > 0 {
+			flow(q.pin, q.b, (v[q.pin]-v[q.b])/q.rb)
+		}
+		b := &refBJT{ICf: icf, IBf: ibf, VBEf: s * (v[q.pin] - v[q.e]), VCEf: vbe - vbc, VBJf: vbe, IS: q.is, BF: q.bf}
 		switch {
 		case icf < 1e-6:
 			b.Region = "cutoff"

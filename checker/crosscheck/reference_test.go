@@ -66,6 +66,54 @@ func TestReferenceDiodeConnected(t *testing.T) {
 	}
 }
 
+// TestReferenceBaseResistance: an NPN whose base pin is held at 2 V by an
+// ideal source, with rb = 1 kΩ to its internal base b', RE 1 kΩ to gnd and
+// the collector on 9 V (the junction b'–c reverse by about 7 V). With Vj
+// the junction's VBE and IC, IB from FORMAT.md §6's Ebers–Moll equations at
+// Vj: KCL at the emitter, IC + IB = Ve/RE + 1e-12·Ve; at b', the current
+// through rb is IB + 1e-12·Vb' with Vb' = Ve + Vj; and 2 V = Vb' + rb·that.
+// Solved here by bisection on Vj.
+func TestReferenceBaseResistance(t *testing.T) {
+	c := oneCase("stiff base behind rb", 7e6, 7.2e6)
+	c.Supplies = []*circuit.Supply{{Net: "vcc", Volts: 9, Range: [2]float64{9, 9}}, {Net: "vbb", Volts: 2, Range: [2]float64{2, 2}}}
+	q := &circuit.BJTParams{FT: 250e6, HFEMin: 50, HFEMax: 200, VBE: 0.70, ICRef: 1e-3, PD: 0.5, TjMax: 150, ICMax: 0.2, VCEO: 30, RB: 1e3}
+	c.Parts = []*circuit.Part{
+		{Ref: "RE", Kind: circuit.Resistor, Value: 1e3, Nets: []string{"emit", circuit.Gnd}},
+		{Ref: "Q1", Kind: circuit.NPN, Nets: []string{"vcc", "vbb", "emit"}, BJT: q},
+	}
+	vt := 1.380649e-23 * (25 + 273.15) / 1.602176634e-19
+	is := 1e-3 / math.Exp(0.70/vt)
+	bf := math.Sqrt(50 * 200)
+	const g = 1e-12
+	state := func(vj float64) (ve, vbi, ic, ib float64) {
+		vbc := vj - 9 // Vb' − Vc to well within a volt; its exponential is 0 either way
+		ic = is*(math.Exp(vj/vt)-math.Exp(vbc/vt)) - is*(math.Exp(vbc/vt)-1)
+		ib = is/bf*(math.Exp(vj/vt)-1) + is*(math.Exp(vbc/vt)-1)
+		ve = (ic + ib) / (1/1e3 + g)
+		return ve, ve + vj, ic, ib
+	}
+	lo, hi := 0.3, 1.0
+	for i := 0; i < 200; i++ {
+		mid := (lo + hi) / 2
+		if _, vbi, _, ib := state(mid); 2-vbi-1e3*(ib+g*vbi) > 0 {
+			lo = mid
+		} else {
+			hi = mid
+		}
+	}
+	vj := (lo + hi) / 2
+	ve, _, ic, ib := state(vj)
+	op, err := refSolveDC(c)
+	if err != nil {
+		t.Fatal(err)
+	}
+	closeTo(t, "V(emit)", op.V["emit"], ve, 1e-9)
+	closeTo(t, "IC", op.BJT["Q1"].ICf, ic, 1e-8)
+	closeTo(t, "IB", op.BJT["Q1"].IBf, ib, 1e-8)
+	closeTo(t, "VBE between the pins", op.BJT["Q1"].VBEf, 2-ve, 1e-9)
+	closeTo(t, "VBE at the junction", op.BJT["Q1"].VBJf, vj, 1e-9)
+}
+
 // TestReferenceMergedCurrents: zero-resistance parts are merged away, so
 // their currents come from KCL alone. A 12 V supply behind 0.5 Ω feeds a
 // zero-resistance choke into a net that a zero-resistance winding ties to a

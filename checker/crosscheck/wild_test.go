@@ -184,7 +184,7 @@ func TestWildAgainstReference(t *testing.T) {
 			continue
 		case refErr != nil:
 			onlyDC++
-			imb, spread, err := kclError(c, got.V)
+			imb, spread, err := kclError(c, withInner(c, got.V, func(ref string) float64 { return got.BJTs[ref].VBJf }))
 			if err != nil || imb > 1e-4 || spread > floorV {
 				if outside == "" {
 					ty.fail("%s: the reference finds no operating point (%v) and dc's does not solve the model (KCL %.3g, spread %.3g V, %v)", where, refErr, imb, spread, err)
@@ -210,7 +210,7 @@ func TestWildAgainstReference(t *testing.T) {
 		local.quiet = true
 		compareDC(local, where, c, ref, got)
 		if local.errors > 0 && outside == "" {
-			imb, spread, err := kclError(c, got.V)
+			imb, spread, err := kclError(c, withInner(c, got.V, func(ref string) float64 { return got.BJTs[ref].VBJf }))
 			if err == nil && imb <= 1e-4 && spread <= floorV {
 				multi++
 				t.Logf("%s: dc found another valid operating point (KCL %.2g): %s", where, imb, local.msgs[0])

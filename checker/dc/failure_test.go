@@ -139,9 +139,14 @@ func TestRegions(t *testing.T) {
 	checkKCL(t, c, r, 1e-9)
 }
 
-// The fall-backs must land on the same operating point as plain Newton.
+// The fall-backs must land on the same operating point as plain Newton,
+// with and without a base resistance (an internal base node).
 func TestFallbacksAgree(t *testing.T) {
-	for name, b := range map[string]*builder{"npn": dividerStage(), "pnp": pnpStage()} {
+	for name, b := range map[string]*builder{"npn": dividerStage(), "pnp": pnpStage(),
+		"npn rb 47": dividerStage(), "pnp rb 47": pnpStage()} {
+		if strings.HasSuffix(name, "rb 47") {
+			b.c.Part("Q1").BJT.RB = 47
+		}
 		want := solve(t, b.c)
 		nl, f := compile(b.c)
 		if f != nil {

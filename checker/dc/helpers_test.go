@@ -162,7 +162,11 @@ func kclWorst(t testing.TB, c *circuit.Circuit, r *Result, absFloor float64) (fl
 		floor[net] += res + 4*eps*math.Abs(i)
 		scale[net] += res/(4*eps) + math.Abs(i)
 	}
+	inner := map[string]float64{} // the internal base of each transistor with rb
 	v := func(n string) float64 {
+		if x, ok := inner[n]; ok {
+			return x
+		}
 		x, ok := r.V[n]
 		if !ok {
 			t.Fatalf("no voltage for net %s", n)
@@ -218,6 +222,22 @@ func kclWorst(t testing.TB, c *circuit.Circuit, r *Result, absFloor float64) (fl
 				pol = -1
 			}
 			vc, vb, ve := v(p.Nets[0]), v(p.Nets[1]), v(p.Nets[2])
+			// With a base resistance the junctions sit at the internal base
+			// b', VBJf from the emitter (as Solve reports it): rb joins the
+			// base pin to b', which (like every net) has 1e-12 S to gnd, and
+			// KCL is checked at b' as at a net.
+			base := p.Nets[1]
+			if rb := p.BJT.RB; rb > 0 {
+				base = p.Ref + ":b'"
+				vb = ve + pol*r.BJTs[p.Ref].VBJf
+				inner[base] = vb
+				leave(base, 1e-12*vb, 0)
+				// rb's current, known to the rounding of Vb' = Ve + VBJf too
+				vp, vj := v(p.Nets[1]), r.BJTs[p.Ref].VBJf
+				i, e := (vp-vb)/rb, 4*eps*(math.Abs(vp)+math.Abs(vb)+math.Abs(ve)+math.Abs(vj))/rb
+				leave(p.Nets[1], i, e)
+				leave(base, -i, e)
+			}
 			is := isAt(p.BJT, c.Ambient.Nominal)
 			vbe, vbc := pol*(vb-ve), pol*(vb-vc)
 			ic, ib := emForward(is, p.BJT.NominalHFE(), vbe, vbc, vt)
@@ -226,7 +246,7 @@ func kclWorst(t testing.TB, c *circuit.Circuit, r *Result, absFloor float64) (fl
 			g := is / vt * (math.Exp(vbe/vt) + 3*math.Exp(vbc/vt))
 			gj := g * 4 * eps * (math.Abs(vb) + math.Abs(ve) + math.Abs(vc))
 			leave(p.Nets[0], pol*ic, gj)
-			leave(p.Nets[1], pol*ib, gj)
+			leave(base, pol*ib, gj)
 			leave(p.Nets[2], -pol*(ic+ib), gj)
 		}
 	}

@@ -68,7 +68,8 @@ type norton struct {
 // bjt is one transistor with the Newton state of its junctions.
 type bjt struct {
 	ref     string
-	c, b, e int
+	c, b, e int     // the junctions' nodes: b is the internal base b' when rb > 0
+	bp      int     // the base pin's node (b itself when rb = 0)
 	pol     float64 // +1 NPN, −1 PNP
 	is      float64 // A
 	betaF   float64
@@ -82,9 +83,10 @@ type bjt struct {
 // netlist is a circuit compiled to index form: everything Newton's loop needs,
 // with no maps and no strings on the hot path.
 type netlist struct {
-	names   []string // net name of each node unknown
+	names   []string // net name of each node unknown; an internal base has its base pin's
 	index   map[string]int
-	nodes   int // node unknowns; branch currents follow them
+	nets    int // the circuit's nets (all but gnd): node unknowns 0 … nets−1
+	nodes   int // node unknowns: the nets, then one internal base per transistor with rb > 0; branch currents follow them
 	size    int // all unknowns
 	vt      float64
 	tempC   float64
@@ -115,7 +117,21 @@ func compile(c *circuit.Circuit) (*netlist, *Failure) {
 	}
 	nl.vt = ThermalVoltage(nl.tempC)
 	nl.names, nl.index = netIndex(c)
-	nl.nodes = len(nl.names)
+	nl.nets = len(nl.names)
+	nl.nodes = nl.nets
+	// A transistor with a base spreading resistance has an internal base
+	// node; numbering them after the nets keeps the shared numbering of
+	// the nets, and a transistor without rb adds no unknown at all.
+	for _, p := range c.Parts {
+		if p != nil && p.Kind.IsBJT() && p.BJT != nil && p.BJT.RB != 0 && len(p.Nets) == 3 {
+			if nl.nodes == nl.nets {
+				nl.names = nl.names[:nl.nets:nl.nets] // the numbering is shared: append to a copy
+			}
+			nl.names = append(nl.names, p.Nets[1])
+			nl.nodes++
+		}
+	}
+	inner := nl.nets // the next internal base
 	node := func(net string) int {
 		if net == circuit.Gnd {
 			return gnd
@@ -221,6 +237,15 @@ func compile(c *circuit.Circuit) (*netlist, *Failure) {
 				return nil, f
 			}
 			q.c, q.b, q.e = node(p.Nets[0]), node(p.Nets[1]), node(p.Nets[2])
+			q.bp = q.b
+			if rb := p.BJT.RB; rb != 0 {
+				if !(rb > 0) || math.IsInf(rb, 0) {
+					return nil, invalid(p.Ref, "base resistance rb %g Ω", rb)
+				}
+				resistive(q.bp, inner, rb, p.Ref+":rb")
+				q.b = inner
+				inner++
+			}
 			nl.bjts = append(nl.bjts, q)
 		default:
 			return nil, invalid(p.Ref, "kind %q has no DC model", p.Kind)

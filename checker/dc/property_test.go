@@ -39,10 +39,13 @@ func randomStage(rng *rand.Rand) (*builder, string) {
 	p := transistor(hfe, 0.6+0.15*rng.Float64(), pickE24(rng, 1e-3, 50e-3))
 	r1, r2 := pickE24(rng, 2.2e3, 220e3), pickE24(rng, 1e3, 47e3)
 	rc, re := pickE24(rng, 220, 10e3), pickE24(rng, 47, 2.2e3)
+	if rng.IntN(2) == 0 { // a base spreading resistance on half of them
+		p.RB = pickE24(rng, 1, 1e3)
+	}
 	b := newCircuit(temp).supply("vcc", vcc, z).
 		port("in", "rf_in", "in", 50).port("out", "rf_out", "out", 50).
 		cap("C1", "rf_in", "base", 10e-9).cap("C2", "coll", "rf_out", 10e-9)
-	desc := fmt.Sprintf("vcc %.2f V (%.2f Ω) %.1f °C hFE %.0f R1 %g R2 %g RC %g RE %g", vcc, z, temp, hfe, r1, r2, rc, re)
+	desc := fmt.Sprintf("vcc %.2f V (%.2f Ω) %.1f °C hFE %.0f R1 %g R2 %g RC %g RE %g rb %g", vcc, z, temp, hfe, r1, r2, rc, re, p.RB)
 	if rng.IntN(2) == 0 {
 		b.res("R1", "vcc", "base", r1).res("R2", "base", "gnd", r2).
 			res("RC", "vcc", "coll", rc).res("RE", "emit", "gnd", re).
@@ -79,7 +82,10 @@ func TestRandomBiasNetworks(t *testing.T) {
 		// is below 1e-4 of IB only when VCE > VT·ln(β·1e4), about 0.45 V;
 		// between 0.3 V and that the stage counts as active but is not
 		// described by it.
-		if q.Region != "active" || q.VCE < 0.5 {
+		// It also drops the collector junction's −IS from IB, which is
+		// below 1e-3 of IB only when IB > 1000·IS (a stage starved to a
+		// few nA of base current is not).
+		if q.Region != "active" || q.VCE < 0.5 || q.IB < 1e3*q.IS {
 			continue
 		}
 		// Thevenin from the rail's actual voltage (it sags behind the supply
@@ -90,11 +96,13 @@ func TestRandomBiasNetworks(t *testing.T) {
 		re := b.c.Part("RE").Value
 		vs := r.V["vcc"]
 		vth, rth := vs*r2/(r1+r2), parallel(r1, r2)
-		drive := vth - q.VBE // NPN: divider above the junction
+		// q.VBE is between the pins; the junction's is IB·rb less.
+		vj := q.VBE - q.IB*p.BJT.RB
+		drive := vth - vj // NPN: divider above the junction
 		if p.Kind == circuit.PNP {
-			drive = vs - vth - q.VBE
+			drive = vs - vth - vj
 		}
-		if ib := drive / (rth + (beta+1)*re); !near(q.IB, ib, 1e-3) {
+		if ib := drive / (rth + p.BJT.RB + (beta+1)*re); !near(q.IB, ib, 1e-3) {
 			t.Errorf("#%d %s: IB %.6g, closed form %.6g", i, desc, q.IB, ib)
 		}
 	}
@@ -137,6 +145,9 @@ func randomNetwork(rng *rand.Rand) *builder {
 		case 6:
 			// ic_ref 1 µA … 1 A, VBE 0.3 … 0.9 V, hFE 10 … 1000.
 			p := transistor(10+990*rng.Float64(), 0.3+0.6*rng.Float64(), math.Pow(10, -6+6*rng.Float64()))
+			if rng.IntN(2) == 0 {
+				p.RB = math.Pow(10, -3+6*rng.Float64()) // 1 mΩ … 1 kΩ: below 1 Ω rb is a branch
+			}
 			if rng.IntN(2) == 0 {
 				b.npn(ref, pick(), pick(), pick(), p)
 			} else {

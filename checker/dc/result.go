@@ -50,6 +50,9 @@ type BJT struct {
 	IBf  float64 // A, positive into an NPN's base, out of a PNP's
 	VBEf float64 // V, V(base) − V(emitter) for an NPN, V(emitter) − V(base) for a PNP
 	VCEf float64 // V, V(collector) − V(emitter) for an NPN, the reverse for a PNP
+	// VBJf is VBEf at the junction: from the internal base b' (behind rb) to
+	// the emitter, VBEf − IBf·rb. It equals VBEf when rb = 0.
+	VBJf float64 // V
 }
 
 // Failure explains why no operating point was found. Cause says which rule

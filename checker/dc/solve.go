@@ -153,7 +153,7 @@ func (nl *netlist) floatingTerminal(refs []string) string {
 		if !slices.Contains(refs, q.ref) {
 			continue
 		}
-		for _, t := range []int{q.c, q.b, q.e} {
+		for _, t := range []int{q.c, q.bp, q.e} {
 			if t != gnd && sf.find(t) != ground {
 				return nl.names[t]
 			}
@@ -181,7 +181,7 @@ func (nl *netlist) result(c *circuit.Circuit, x []float64, iters int, method str
 		return x[nl.index[net]]
 	}
 	r.V[circuit.Gnd] = 0
-	for i, name := range nl.names {
+	for i, name := range nl.names[:nl.nets] {
 		r.V[name] = x[i]
 	}
 	// through is the current from a to b of a part of resistance res: its
@@ -233,7 +233,7 @@ func (nl *netlist) result(c *circuit.Circuit, x []float64, iters int, method str
 		case circuit.NPN, circuit.PNP:
 			q := &nl.bjts[k]
 			k++
-			r.BJTs[p.Ref] = q.operatingPoint(volt(x, q.c), volt(x, q.b), volt(x, q.e), nl.vt)
+			r.BJTs[p.Ref] = q.operatingPoint(volt(x, q.c), volt(x, q.b), volt(x, q.bp), volt(x, q.e), nl.vt)
 		}
 	}
 	if bad := r.firstNonFinite(); bad != "" {
@@ -242,13 +242,15 @@ func (nl *netlist) result(c *circuit.Circuit, x []float64, iters int, method str
 	return r, nil
 }
 
-// operatingPoint evaluates the model at the solved terminal voltages.
-func (q *bjt) operatingPoint(vc, vb, ve, vt float64) *BJT {
+// operatingPoint evaluates the model at the solved voltages: the currents
+// at the junctions (from the internal base vb), VBE between the pins (from
+// the base pin's vbp), so that it includes the drop IB·rb.
+func (q *bjt) operatingPoint(vc, vb, vbp, ve, vt float64) *BJT {
 	vbe := q.pol * (vb - ve)
 	vbc := q.pol * (vb - vc)
 	p := q.eval(vbe, vbc, vt)
 	o := &BJT{
-		ICf: p.ic, IBf: p.ib, VBEf: vbe, VCEf: vbe - vbc,
+		ICf: p.ic, IBf: p.ib, VBEf: q.pol * (vbp - ve), VCEf: vbe - vbc, VBJf: vbe,
 		HFE: q.betaF, IS: q.is,
 	}
 	o.IC, o.IB, o.VBE, o.VCE = math.Abs(o.ICf), math.Abs(o.IBf), math.Abs(o.VBEf), math.Abs(o.VCEf)

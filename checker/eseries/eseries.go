@@ -126,7 +126,27 @@ func (t table) value(idx int) float64 {
 		k--
 	}
 	i := idx - k*n
-	v, _ := strconv.ParseFloat(strconv.Itoa(t.m[i])+"e"+strconv.Itoa(k-t.scale), 64)
+	return scaled(t.m[i], k-t.scale)
+}
+
+// pow10 holds the powers of ten that are exact in float64.
+var pow10 = [...]float64{1e0, 1e1, 1e2, 1e3, 1e4, 1e5, 1e6, 1e7, 1e8, 1e9, 1e10, 1e11,
+	1e12, 1e13, 1e14, 1e15, 1e16, 1e17, 1e18, 1e19, 1e20, 1e21, 1e22}
+
+// scaled is m·10^e correctly rounded, as the decimal string "me" would read.
+// Within the exact powers of ten one multiplication (exact: the product is
+// an integer below 2^53) or one division (IEEE division rounds correctly)
+// gives it without formatting a string; beyond them it parses the string.
+func scaled(m, e int) float64 {
+	switch {
+	case e >= 0 && e < len(pow10):
+		if x := float64(m) * pow10[e]; x < 1<<53 {
+			return x
+		}
+	case e < 0 && -e < len(pow10):
+		return float64(m) / pow10[-e]
+	}
+	v, _ := strconv.ParseFloat(strconv.Itoa(m)+"e"+strconv.Itoa(e), 64)
 	return v
 }
 

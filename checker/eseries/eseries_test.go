@@ -338,3 +338,27 @@ func BenchmarkDeviationCoarse(b *testing.B) {
 		DeviationCoarse(4.6e3, 0.01)
 	}
 }
+
+// TestScaledReadsAsTheDecimal: a member is the float64 the decimal string
+// "me" reads as (strconv's correctly rounded parse is the reference), over
+// every series and decades from 1e-330 to 1e310.
+func TestScaledReadsAsTheDecimal(t *testing.T) {
+	for _, s := range []Series{E3, E6, E12, E24, E48, E96, E192} {
+		for _, m := range tableOf(s).m {
+			for e := -330; e <= 310; e++ {
+				want, _ := strconv.ParseFloat(strconv.Itoa(m)+"e"+strconv.Itoa(e), 64)
+				if got := scaled(m, e); got != want {
+					t.Fatalf("%s: %de%d = %v, want %v", s, m, e, got, want)
+				}
+			}
+		}
+	}
+}
+
+// BenchmarkNearest times a lookup (values.preferred makes one per series per
+// part).
+func BenchmarkNearest(b *testing.B) {
+	for b.Loop() {
+		Nearest(4.75e-9, E96)
+	}
+}

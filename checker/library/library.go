@@ -46,6 +46,7 @@ type Transistor struct {
 	ICMax    float64 // A
 	VCEO     float64 // V
 	Cob      float64 // F, collector-base capacitance (0 = not given)
+	RB       float64 // Ω, base spreading resistance (0 = not given)
 	File     string
 	Pos      tomlfile.Pos
 }
@@ -151,7 +152,7 @@ func Parse(path string, data []byte) (*Library, error) {
 
 // TransistorKeys are the figure keys a transistor accepts, in a library file
 // and inline in a circuit.
-var TransistorKeys = []string{"ft", "hfe", "hfe_typ", "vbe", "ic_ref", "pd", "tj_max", "ic_max", "vceo", "cob"}
+var TransistorKeys = []string{"ft", "hfe", "hfe_typ", "vbe", "ic_ref", "pd", "tj_max", "ic_max", "vceo", "cob", "rb"}
 
 func readTransistor(t *tomlfile.Table) *Transistor {
 	t.Allow(append([]string{"polarity"}, TransistorKeys...)...)
@@ -210,6 +211,9 @@ func ReadFigures(t *tomlfile.Table, pnp bool, tr *Transistor) {
 	mag("vceo", quantity.Volt, &tr.VCEO)
 	if v, ok := t.Quantity("cob", quantity.Farad, tomlfile.NonNegative); ok {
 		tr.Cob = v
+	}
+	if v, ok := t.Quantity("rb", quantity.Ohm, tomlfile.NonNegative); ok {
+		tr.RB = v
 	}
 }
 

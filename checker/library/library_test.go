@@ -268,3 +268,46 @@ func TestParseErrors(t *testing.T) {
 		}
 	}
 }
+
+// REFERENCES-2.md §1.4: rb' of 10 Ω for the 2N3904 (a public device model
+// [S]), the 2N5179 (a public device model of unknown origin [S]) and the
+// 2N2222A (a public device model, from memory [M]); the other shipped types
+// take the same figure from memory [M] (public device models of the common
+// small-signal types give about 10 Ω). For the 2N2222A the sheet's
+// rb'Cc ≤ 150 ps at cob 8 pF bounds rb' at 18.75 Ω [S, C].
+func TestShippedBaseResistance(t *testing.T) {
+	l := Shipped()
+	for _, name := range []string{"2N3904", "2N3906", "2N2222A", "2N4401", "2N5179", "BC547B"} {
+		tr := l.Transistors[name]
+		if tr == nil {
+			t.Fatalf("missing %s", name)
+		}
+		if tr.RB != 10 {
+			t.Errorf("%s rb = %g Ω, want 10 Ω", name, tr.RB)
+		}
+	}
+	if tr := l.Transistors["2N2222A"]; tr.RB*tr.Cob > 150e-12 {
+		t.Errorf("2N2222A rb·cob = %g s, the sheet allows at most 150 ps", tr.RB*tr.Cob)
+	}
+}
+
+// rb is optional, zero allowed, and read with the unit of a resistance.
+func TestBaseResistanceOptional(t *testing.T) {
+	l, err := Parse("club.toml", []byte(`[transistors.A]
+polarity = "npn"
+rb = 0
+[transistors.B]
+polarity = "pnp"
+rb = "22ohm"
+[transistors.C]
+polarity = "npn"
+`))
+	if err != nil {
+		t.Fatal(err)
+	}
+	for name, want := range map[string]float64{"A": 0, "B": 22, "C": 0} {
+		if got := l.Transistors[name].RB; got != want {
+			t.Errorf("%s rb = %g, want %g", name, got, want)
+		}
+	}
+}

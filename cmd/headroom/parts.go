@@ -61,6 +61,9 @@ func (e *env) parts(args []string) int {
 		if t.Cob > 0 {
 			en.Figures = append(en.Figures, fig(s, "cob", "cob", t.Cob, quantity.Farad))
 		}
+		if t.RB > 0 {
+			en.Figures = append(en.Figures, fig(s, "rb", "rb", t.RB, quantity.Ohm))
+		}
 		ts = append(ts, en)
 	}
 	for _, name := range sortedNames(lib.Cores) {

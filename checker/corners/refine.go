@@ -1,0 +1,302 @@
+package corners
+
+import (
+	"sort"
+
+	"headroom/checker/analysis"
+	"headroom/checker/circuit"
+	"headroom/checker/engine"
+	"headroom/checker/topology"
+)
+
+// NearLimit is how close to its limit an item must come before the search
+// looks past the vertex its sensitivities point to: an item whose worst case
+// so far reaches this fraction of its limit (measured ÷ limit for a "<="
+// rule, limit ÷ measured for a ">=" rule), or fails, is refined. Items far
+// from their limit keep the sensitivity vertex.
+const NearLimit = 0.25
+
+// maxRounds bounds the local search: each round steps every walk one flip
+// further, so a figure that keeps getting worse stops after this many flips.
+const maxRounds = 8
+
+// beam is how many cases per item the local search walks on from in each
+// round: the few worst improving neighbours, not only the worst one.
+const beam = 3
+
+// refine is the local search that closes the sensitivity method's blind spot.
+// The one-sided sensitivity at nominal can point the wrong way for a figure
+// that is not monotonic in a parameter (a return loss passing through a
+// match, a loaded winding that switches, a dissipation that peaks inside the
+// box, a stability margin), so for every item near its limit the search
+// tries every neighbour of the case it reported — each of the item's live
+// parameters (those that moved it at nominal, or that its case sets) flipped
+// to its other end, or moved from nominal to either end — and walks on from
+// the few neighbours that make the figure worse, until none does.
+//
+// Cost: the neighbours of different items are packed into shared analyses
+// wherever their live parameters agree (an item's figure does not depend on
+// the parameters that did not move it), so a round costs about as many
+// analyses as the busiest stage has neighbours, not the sum over stages;
+// every item whose case changed is then judged once more at exactly its case
+// (items at one case share it). At most maxRounds rounds.
+func refine(c *circuit.Circuit, topo *topology.Topology, nominal *analysis.Case, cfg *engine.Config,
+	box []Param, items map[engine.Key]*item, order []engine.Key) error {
+	var walks []*walk
+	want := map[engine.Key]bool{}
+	for _, k := range order {
+		it := items[k]
+		if !it.best.HasMetric || !near(&it.best) {
+			continue
+		}
+		w := &walk{key: k, it: it, frontier: [][]int8{it.state}, figure: []engine.Finding{it.best},
+			seen: map[string]engine.Finding{signature(it.state): it.best}}
+		for i := range box {
+			if (it.dirs[i] != 0 || it.state[i] != 0) && !(it.hold && box[i].holdsSupply) {
+				w.live = append(w.live, i)
+			}
+		}
+		walks = append(walks, w)
+		want[k] = true
+	}
+	changed := map[engine.Key]item{} // the items the walk moved, with where they started
+	for round := 0; round < maxRounds && len(walks) > 0; round++ {
+		var reqs []request
+		for _, w := range walks {
+			for _, st := range w.frontier {
+				for _, nb := range w.neighbours(st) {
+					if _, ok := w.seen[signature(nb)]; !ok {
+						reqs = append(reqs, request{w, nb})
+						w.seen[signature(nb)] = engine.Finding{} // queued
+					}
+				}
+			}
+		}
+		cases, where := pack(reqs, len(box))
+		err := inOrder(len(cases), func(v int, buf []engine.Finding) ([]engine.Finding, error) {
+			return engine.MeasureAppend(buf, analysis.Run(at(c, box, cases[v]), topo), nominal, cfg)
+		}, func(v int, fs []engine.Finding) {
+			got := make(map[engine.Key]engine.Finding, len(want))
+			for j := range fs {
+				if k := engine.KeyOf(&fs[j]); want[k] {
+					got[k] = fs[j]
+				}
+			}
+			for _, r := range where[v] {
+				if f, ok := got[r.w.key]; ok {
+					r.w.seen[signature(r.nb)] = f
+				} else {
+					delete(r.w.seen, signature(r.nb))
+				}
+			}
+		})
+		if err != nil {
+			return err
+		}
+		var next []*walk
+		for _, w := range walks {
+			start := *w.it
+			if w.step() {
+				if _, ok := changed[w.key]; !ok {
+					changed[w.key] = start
+				}
+			}
+			if len(w.frontier) > 0 {
+				next = append(next, w)
+			}
+		}
+		walks = next
+	}
+	return settle(c, topo, nominal, cfg, box, items, order, changed)
+}
+
+// walk is one item's local search.
+type walk struct {
+	key      engine.Key
+	it       *item
+	live     []int                     // the parameters that may move the item
+	frontier [][]int8                  // the cases to walk on from
+	figure   []engine.Finding          // the item's finding at each frontier case
+	seen     map[string]engine.Finding // cases judged (or queued) for this item
+	walked   map[string]bool           // cases already walked from
+}
+
+// neighbours are the cases one step from st over the walk's live parameters:
+// each one set at its other end, each one at nominal at either end.
+func (w *walk) neighbours(st []int8) [][]int8 {
+	var out [][]int8
+	for _, i := range w.live {
+		for _, end := range [2]int8{-1, +1} {
+			if end == st[i] {
+				continue
+			}
+			nb := append([]int8(nil), st...)
+			nb[i] = end
+			out = append(out, nb)
+		}
+	}
+	return out
+}
+
+// step moves the frontier on to the few neighbours that are worse than the
+// case they neighbour, keeping the item's worst case; it reports whether
+// the item's worst case changed.
+func (w *walk) step() bool {
+	if w.walked == nil {
+		w.walked = map[string]bool{}
+	}
+	changed := false
+	var cands [][]int8
+	var figs []engine.Finding
+	for j, st := range w.frontier {
+		w.walked[signature(st)] = true
+		for _, nb := range w.neighbours(st) {
+			sig := signature(nb)
+			f, ok := w.seen[sig]
+			if !ok || !f.HasMetric || w.walked[sig] || !engine.Worse(&f, &w.figure[j]) || !moved(&f, &w.figure[j]) {
+				continue
+			}
+			w.walked[sig] = true
+			cands, figs = append(cands, nb), append(figs, f)
+			if engine.Worse(&f, &w.it.best) && moved(&f, &w.it.best) {
+				w.it.best, w.it.state = f, nb
+				changed = true
+			}
+		}
+	}
+	idx := make([]int, len(cands))
+	for i := range idx {
+		idx[i] = i
+	}
+	sort.SliceStable(idx, func(a, b int) bool { return engine.Worse(&figs[idx[a]], &figs[idx[b]]) })
+	w.frontier, w.figure = w.frontier[:0], w.figure[:0]
+	for _, i := range idx[:min(beam, len(idx))] {
+		w.frontier, w.figure = append(w.frontier, cands[i]), append(w.figure, figs[i])
+	}
+	return changed
+}
+
+// request is one case one walk wants judged.
+type request struct {
+	w  *walk
+	nb []int8
+}
+
+// pack places the requests into as few cases as it can, first fit: a request
+// fits a case that sets each of its live parameters as the request does or
+// leaves it free. Parameters no request constrains stay at nominal. It
+// returns the cases and, for each, the requests it serves.
+func pack(reqs []request, n int) ([][]int8, [][]request) {
+	var cases [][]int8
+	var fixed [][]bool
+	var where [][]request
+	for _, r := range reqs {
+		placed := false
+		for v := range cases {
+			if fits(r, cases[v], fixed[v]) {
+				for _, i := range r.w.live {
+					cases[v][i], fixed[v][i] = r.nb[i], true
+				}
+				where[v] = append(where[v], r)
+				placed = true
+				break
+			}
+		}
+		if !placed {
+			cs, fx := make([]int8, n), make([]bool, n)
+			for _, i := range r.w.live {
+				cs[i], fx[i] = r.nb[i], true
+			}
+			cases, fixed, where = append(cases, cs), append(fixed, fx), append(where, []request{r})
+		}
+	}
+	return cases, where
+}
+
+func fits(r request, cs []int8, fixed []bool) bool {
+	for _, i := range r.w.live {
+		if fixed[i] && cs[i] != r.nb[i] {
+			return false
+		}
+	}
+	return true
+}
+
+// settle judges every item whose case the local search changed once more at
+// exactly that case (a packed analysis also set other items' parameters),
+// items at one case sharing the analysis, and records the case; an item
+// whose exact figure there is not worse than where it started goes back.
+func settle(c *circuit.Circuit, topo *topology.Topology, nominal *analysis.Case, cfg *engine.Config,
+	box []Param, items map[engine.Key]*item, order []engine.Key, changed map[engine.Key]item) error {
+	byCase := map[string][]engine.Key{}
+	var sigs []string
+	for _, k := range order {
+		if _, ok := changed[k]; !ok {
+			continue
+		}
+		sig := signature(items[k].state)
+		if _, ok := byCase[sig]; !ok {
+			sigs = append(sigs, sig)
+		}
+		byCase[sig] = append(byCase[sig], k)
+	}
+	return inOrder(len(sigs), func(v int, buf []engine.Finding) ([]engine.Finding, error) {
+		return engine.MeasureAppend(buf, analysis.Run(at(c, box, items[byCase[sigs[v]][0]].state), topo), nominal, cfg)
+	}, func(v int, fs []engine.Finding) {
+		keys := byCase[sigs[v]]
+		state := items[keys[0]].state
+		corner := cornerOf(box, state)
+		for _, k := range keys {
+			it, start := items[k], changed[k]
+			it.best, it.state, it.corner = start.best, start.state, start.corner
+			for j := range fs {
+				if engine.KeyOf(&fs[j]) == k && engine.Worse(&fs[j], &start.best) {
+					it.best, it.state, it.corner = fs[j], state, corner
+				}
+			}
+		}
+	})
+}
+
+// near reports whether a finding fails or comes within NearLimit of its limit.
+func near(f *engine.Finding) bool {
+	if f.Failing() {
+		return true
+	}
+	ref := *f
+	switch f.Comparison {
+	case "<=":
+		ref.Measured = f.Limit * NearLimit
+	default:
+		ref.Measured = f.Limit / NearLimit
+	}
+	return !engine.Worse(&ref, f)
+}
+
+// at is the circuit at a case of the box.
+func at(c *circuit.Circuit, box []Param, state []int8) *circuit.Circuit {
+	cc := variant(c)
+	for i, p := range box {
+		switch state[i] {
+		case +1:
+			p.set(cc, p.Hi)
+		case -1:
+			p.set(cc, p.Lo)
+		}
+	}
+	return cc
+}
+
+// cornerOf lists the parameters a case sets, as FORMAT.md §5's corner map.
+func cornerOf(box []Param, state []int8) map[string]float64 {
+	corner := map[string]float64{}
+	for i, p := range box {
+		switch state[i] {
+		case +1:
+			corner[p.Key] = p.Hi
+		case -1:
+			corner[p.Key] = p.Lo
+		}
+	}
+	return corner
+}
