@@ -26,14 +26,15 @@ var BiasDrift = &engine.Rule{
 		Formula: "over the worst-case box with every supply at nominal: IC(corner) ÷ IC(nominal) − 1 (bound " +
 			"\"up\") and 1 − IC(corner) ÷ IC(nominal) (bound \"down\"), each <= max_fraction; unit fraction. " +
 			"Judged only with worst-case corners; the finding reports the worse direction. A change below " +
-			"one part in 10⁶ of IC counts as none (the DC solution's last digits).",
+			"one part in 10⁶ of IC counts as none (the DC solution's last digits). A cascode's upper device, whose emitter " +
+			"only the lower device's collector feeds, carries the same current and is reported once, with the lower one.",
 		Source: "common practice, no published source (the figure a designer accepts for a small-signal " +
 			"stage's current spread)",
 		Fix: "Advice: the parameter of the corner that alone moves IC the most, by name, and what reduces its " +
 			"effect — for hFE a stiffer base divider or more emitter degeneration, for the ambient a larger " +
 			"emitter voltage (VBE falls about 2 mV per °C), for a resistor a closer tolerance.",
 		Params: []engine.Param{
-			{Name: "max_fraction", Unit: quantity.Ratio, Help: "largest relative change of IC over the box, supplies at nominal"},
+			{Name: "max_fraction", Unit: quantity.Fraction, Help: "largest relative change of IC over the box, supplies at nominal"},
 		},
 	},
 	Run:          runBiasDrift,
@@ -60,6 +61,9 @@ func runBiasDrift(p *engine.Pass) error {
 		if q == nil || qn == nil || !(qn.IC > 0) {
 			continue
 		}
+		if tb := p.A.Topo.BJTs[part.Ref]; tb != nil && tb.Stacked != "" {
+			continue // a cascode's upper device carries the current of the one below: reported there, once
+		}
 		r := q.IC / qn.IC
 		if math.Abs(r-1) < driftFloor {
 			r = 1 // solver noise: a parameter that does not move IC must not enter the corner
@@ -69,10 +73,16 @@ func runBiasDrift(p *engine.Pass) error {
 			way = "below"
 		}
 		ic, icNom := q.IC, qn.IC
+		who := part.Ref + "'s collector current"
+		for _, other := range bjts(p) {
+			if tb := p.A.Topo.BJTs[other.Ref]; tb != nil && tb.Stacked == part.Ref {
+				who = fmt.Sprintf("the collector current of %s (and of %s above it, which carries it)", part.Ref, other.Ref)
+			}
+		}
 		msg := func() string {
 			m, l := approx2(math.Abs(r-1), limit, quantity.Fraction)
-			return fmt.Sprintf("%s's collector current is %s %s nominal (%s against %s) with the supplies held, allows %s",
-				part.Ref, m, way, quantity.Approx(ic, quantity.Ampere), quantity.Approx(icNom, quantity.Ampere), l)
+			return fmt.Sprintf("%s is %s %s nominal (%s against %s) with the supplies held, allows %s",
+				who, m, way, quantity.Approx(ic, quantity.Ampere), quantity.Approx(icNom, quantity.Ampere), l)
 		}
 		for _, b := range []struct {
 			bound    string

@@ -4,6 +4,7 @@ import (
 	"fmt"
 	"math"
 
+	"headroom/checker/circuit"
 	"headroom/checker/dc"
 	"headroom/checker/engine"
 	"headroom/checker/eseries"
@@ -26,7 +27,8 @@ var BiasEmitterFraction = &engine.Rule{
 		Why: "The emitter voltage is what holds the collector current against VBE, which falls about 2 mV per °C: " +
 			"with too little of it the bias drifts with temperature and from part to part; with too much the " +
 			"stage wastes supply that the collector swing needs.",
-		Formula: "for a common-emitter stage (the collector not directly on an AC-ground or decoupled net): " +
+		Formula: "for a common-emitter stage (the collector not directly on an AC-ground or decoupled net, the base not " +
+			"held at AC ground; followers and common-base stages are not judged): " +
 			"V(emitter) ÷ V(feed rail), both measured from the return rail, >= min_fraction and <= max_fraction " +
 			"(one item per bound; the finding reports the bound it violates); unit fraction",
 		Source: "common practice, no published source (about a tenth of the supply across the emitter resistor)",
@@ -36,8 +38,8 @@ var BiasEmitterFraction = &engine.Rule{
 			"the other bound), so that it holds at both. Otherwise the emitter resistance for one tenth at the " +
 			"present current, and the base voltage that goes with it.",
 		Params: []engine.Param{
-			{Name: "min_fraction", Unit: quantity.Ratio, Help: "smallest emitter voltage ÷ feed-rail voltage"},
-			{Name: "max_fraction", Unit: quantity.Ratio, Help: "largest emitter voltage ÷ feed-rail voltage"},
+			{Name: "min_fraction", Unit: quantity.Fraction, Help: "smallest emitter voltage ÷ feed-rail voltage"},
+			{Name: "max_fraction", Unit: quantity.Fraction, Help: "largest emitter voltage ÷ feed-rail voltage"},
 		},
 	},
 	Run: runEmitterFraction,
@@ -87,6 +89,7 @@ func runEmitterFraction(p *engine.Pass) error {
 				}}
 			if engine.Fails(fr, b.limit, b.cmp) {
 				f.FixLater = func() (string, []engine.Change) { return emitterFix(p, tb, lo, hi) }
+				f.FixForms = func() []engine.FixForm { return baseForm(p, tb, lo, hi) }
 			}
 			p.Report(f)
 		}
@@ -176,11 +179,148 @@ func emitterFix(p *engine.Pass, tb *topology.BJT, lo, hi float64) (string, []eng
 			quantity.Approx(emitterTarget*vf, quantity.Volt)), nil
 	}
 	want := emitterTarget * vf / ie
+	where := "nominal"
+	if p.A != p.Nominal {
+		where = "at the worst case"
+	}
 	return fmt.Sprintf("the emitter voltage follows the base here: move the base to about %s from the return rail "+
 		"(a tenth of the feed, %s, plus VBE) and use about %s of emitter resistance (%s E24) to keep the present %s",
 		quantity.Approx(emitterTarget*vf+q.VBE, quantity.Volt), quantity.Approx(emitterTarget*vf, quantity.Volt),
 		quantity.Approx(want, quantity.Ohm), quantity.Approx(eseries.Nearest(want, eseries.E24), quantity.Ohm),
-		quantity.Approx(q.IC, quantity.Ampere)+" collector current"), nil
+		quantity.Approx(q.IC, quantity.Ampere)+" collector current ("+where+")"), nil
+}
+
+// baseForm is the fix's second form, for a base held by a two-resistor
+// divider: move the base voltage and the emitter resistor together, so
+// that the emitter gets its share of the feed and the nominal collector
+// current stays where it is. The divider keeps its Thévenin resistance (its
+// stiffness); E24 neighbours of the three computed values are solved at the
+// case judged and at its opposite vertex, and the one nearest the aim that
+// holds at both, with the nominal current closest to today's, is offered.
+func baseForm(p *engine.Pass, tb *topology.BJT, lo, hi float64) []engine.FixForm {
+	nc := p.NominalCircuit
+	nop := p.Nominal.OP
+	if nop == nil || len(tb.LowerLeg) != 1 {
+		return nil
+	}
+	q := nop.BJTs[tb.Ref]
+	if q == nil || !(q.IC > 0) {
+		return nil
+	}
+	ers := resistorsOn(nc, tb.Emitter)
+	if len(ers) != 1 || otherNet(ers[0], tb.Emitter) != tb.ReturnRail {
+		return nil
+	}
+	re, r2 := ers[0], nc.Part(tb.LowerLeg[0])
+	var r1 *circuit.Part
+	for _, r := range resistorsOn(nc, tb.Base) {
+		if otherNet(r, tb.Base) == tb.FeedRail {
+			if r1 != nil {
+				return nil // two upper legs: no single divider to move
+			}
+			r1 = r
+		}
+	}
+	if r1 == nil || r2 == nil || len(resistorsOn(nc, tb.Base)) != 2 {
+		return nil
+	}
+	// The aim: a tenth, kept a tenth of the window inside it; in a
+	// worst-case run, where the corners spread the fraction, aims further
+	// into the window are tried until one holds at both corners.
+	margin := 0.1 * (hi - lo)
+	first := min(max(emitterTarget, lo+margin), hi-margin)
+	for k := 0; k < 8; k++ {
+		aim := first + float64(k)*(hi-margin-first)/8
+		if f := baseFormAt(p, tb, lo, hi, aim, q, re, r1, r2); f != nil {
+			return f
+		}
+	}
+	return nil
+}
+
+// baseFormAt is baseForm for one aimed fraction.
+func baseFormAt(p *engine.Pass, tb *topology.BJT, lo, hi, aim float64, q *dc.BJT, re, r1, r2 *circuit.Part) []engine.FixForm {
+	nc, nop := p.NominalCircuit, p.Nominal.OP
+	vfeed := math.Abs(netV(nop, tb.FeedRail) - netV(nop, tb.ReturnRail))
+	ie := q.IC + q.IB
+	ve := aim * vfeed
+	reWant := ve / ie
+	rth := r1.Value * r2.Value / (r1.Value + r2.Value)
+	vth := ve + math.Abs(q.VBE) + q.IB*rth // from the return rail
+	if !(vth > 0 && vth < vfeed) {
+		return nil
+	}
+	r1Want, r2Want := rth*vfeed/vth, rth*vfeed/(vfeed-vth)
+	near := func(v float64) []float64 {
+		a, b := eseries.RoundDown(v, eseries.E24), eseries.RoundUp(v, eseries.E24)
+		if a == b {
+			return []float64{a}
+		}
+		return []float64{a, b}
+	}
+	type cand struct {
+		v1, v2, ve    float64
+		fc, fo, drift float64
+	}
+	var best *cand
+	for _, v1 := range near(r1Want) {
+		for _, v2 := range near(r2Want) {
+			for _, v3 := range near(reWant) {
+				values := map[string]float64{r1.Ref: v1, r2.Ref: v2, re.Ref: v3}
+				op2, ok := solveWith(p, values)
+				if !ok {
+					continue
+				}
+				fc, ok := emitterFraction(op2, tb)
+				if !ok || fc < lo || fc > hi {
+					continue
+				}
+				fo := fc
+				if p.A != p.Nominal {
+					op3, ok := opposite(p, values)
+					if !ok {
+						continue
+					}
+					if fo, ok = emitterFraction(op3, tb); !ok || fo < lo || fo > hi {
+						continue
+					}
+				}
+				// The nominal current with these values.
+				c := nc.Clone()
+				c.Part(r1.Ref).Value, c.Part(r2.Ref).Value, c.Part(re.Ref).Value = v1, v2, v3
+				opn, err := dc.Solve(c)
+				if err != nil || opn == nil || opn.BJTs[tb.Ref] == nil {
+					continue
+				}
+				drift := math.Abs(opn.BJTs[tb.Ref].IC-q.IC) / q.IC
+				cd := &cand{v1, v2, v3, fc, fo, drift}
+				score := func(c *cand) float64 { return max(math.Abs(c.fc-aim), math.Abs(c.fo-aim))/aim + c.drift }
+				if best == nil || score(cd) < score(best) {
+					best = cd
+				}
+			}
+		}
+	}
+	if best == nil {
+		return nil
+	}
+	text := fmt.Sprintf("move the base with the emitter: %s = %s, %s = %s and %s = %s (E24) put %s of the feed across "+
+		"the emitter and keep %s's nominal collector current near %s", r1.Ref, quantity.Approx(best.v1, quantity.Ohm),
+		r2.Ref, quantity.Approx(best.v2, quantity.Ohm), re.Ref, quantity.Approx(best.ve, quantity.Ohm),
+		quantity.Approx(best.fc, quantity.Fraction), tb.Ref, quantity.Approx(q.IC, quantity.Ampere))
+	if best.fo != best.fc {
+		text += fmt.Sprintf(" (%s at the opposite corner)", quantity.Approx(best.fo, quantity.Fraction))
+	}
+	var changes []engine.Change
+	for _, c := range []struct {
+		part *circuit.Part
+		v    float64
+	}{{r1, best.v1}, {r2, best.v2}, {re, best.ve}} {
+		if c.v != c.part.Value {
+			changes = append(changes, engine.Change{Part: c.part.Ref, Key: "value", To: quantity.Code(c.v, quantity.Ohm)})
+		}
+	}
+	return []engine.FixForm{{Text: text, Changes: changes}}
 }
 
 func reverse(v []float64) []float64 {

@@ -58,6 +58,20 @@ func runBiasRegion(p *engine.Pass) error {
 		if q == nil {
 			continue
 		}
+		if q.Reversed() {
+			// One diagnosis, the same as report's: it conducts backwards,
+			// which is what swapped collector and emitter pins do.
+			vce, ic := -q.VCEf, -q.ICf
+			p.Report(engine.Finding{Part: part.Ref, Bound: "cutoff",
+				MessageLater: func() string {
+					return fmt.Sprintf("%s conducts in reverse: its emitter sits %s above its collector and %s flows out of "+
+						"the collector; the collector and emitter pins may be swapped", part.Ref,
+						quantity.Approx(vce, quantity.Volt), quantity.Approx(ic, quantity.Ampere))
+				},
+				Fix: "check the transistor's pins against its nets: if collector and emitter are exchanged, swap them in nets " +
+					"(or on the board)"})
+			continue
+		}
 		// The forward-sense figures keep a reverse-conducting transistor
 		// counted as cut off, as its Region says.
 		p.Report(engine.Finding{Part: part.Ref, Bound: "cutoff",

@@ -23,7 +23,7 @@ var BJTCurrent = &engine.Rule{
 		Fix: "change device to the library transistor of the same polarity that meets the rule with the least change in its " +
 			"other figures; where none does, the largest collector current that meets it",
 		Params: []engine.Param{
-			{Name: "max_load", Unit: quantity.Ratio, Help: "largest IC ÷ ic_max"},
+			{Name: "max_load", Unit: quantity.Fraction, Help: "largest IC ÷ ic_max"},
 		},
 	},
 	Run: runBJTCurrent,
@@ -49,20 +49,21 @@ func runBJTCurrent(p *engine.Pass) error {
 					pct(maxLoad), runsHot(load))
 			}}
 		if engine.Fails(load, maxLoad, "<=") {
-			f.FixLater = func() (string, []engine.Change) { return currentFix(p, part, q, maxLoad) }
+			laterWithForms(&f, func(forms *[]engine.FixForm) (string, []engine.Change) { return currentFix(p, part, q, maxLoad, forms) })
 		}
 		p.Report(f)
 	}
 	return nil
 }
 
-func currentFix(p *engine.Pass, part *circuit.Part, q *dc.BJT, maxLoad float64) (string, []engine.Change) {
+func currentFix(p *engine.Pass, part *circuit.Part, q *dc.BJT, maxLoad float64, forms *[]engine.FixForm) (string, []engine.Change) {
 	ch, blocked := swapDevice(p, part, []string{"ic_max"}, maxLoad, "<=", func(b *circuit.BJTParams, q *dc.BJT) float64 {
 		return q.IC / b.ICMax
 	})
 	if ch != nil {
-		return deviceFix(p, part, ch, fmt.Sprintf("(ic_max %s) brings the load to %s",
-			quantity.Approx(ch.Params.ICMax, quantity.Ampere), pct(ch.Metric)))
+		return deviceFix(p, part, ch, func(ch *deviceChoice) string {
+			return fmt.Sprintf("(ic_max %s) brings the load to %s", quantity.Approx(ch.Params.ICMax, quantity.Ampere), pct(ch.Metric))
+		}, forms)
 	}
 	return noDevice(part, blocked) + fmt.Sprintf("hold %s's collector current to %s",
 		part.Ref, icAdvice(p, part.Ref, q.IC, maxLoad*part.BJT.ICMax)), nil

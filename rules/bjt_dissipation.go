@@ -27,7 +27,7 @@ var BJTDissipation = &engine.Rule{
 		Fix: "change device to the library transistor of the same polarity that meets the rule with the least change in its " +
 			"other figures; where none does, the largest collector current, or the smallest pd, that meets it",
 		Params: []engine.Param{
-			{Name: "max_load", Unit: quantity.Ratio, Help: "largest dissipation ÷ derated pd"},
+			{Name: "max_load", Unit: quantity.Fraction, Help: "largest dissipation ÷ derated pd"},
 		},
 	},
 	Run: runBJTDissipation,
@@ -66,21 +66,25 @@ func runBJTDissipation(p *engine.Pass) error {
 		f := engine.Finding{Part: part.Ref, HasMetric: true, Measured: load, Limit: maxLoad,
 			Comparison: "<=", Unit: "fraction", Absolute: load, MessageLater: msg}
 		if engine.Fails(load, maxLoad, "<=") {
-			f.FixLater = func() (string, []engine.Change) { return dissipationFix(p, part, q, der, maxLoad) }
+			laterWithForms(&f, func(forms *[]engine.FixForm) (string, []engine.Change) {
+				return dissipationFix(p, part, q, der, maxLoad, forms)
+			})
 		}
 		p.Report(f)
 	}
 	return nil
 }
 
-func dissipationFix(p *engine.Pass, part *circuit.Part, q *dc.BJT, der, maxLoad float64) (string, []engine.Change) {
+func dissipationFix(p *engine.Pass, part *circuit.Part, q *dc.BJT, der, maxLoad float64, forms *[]engine.FixForm) (string, []engine.Change) {
 	ambient := p.Circuit.Ambient.Nominal
 	ch, blocked := swapDevice(p, part, []string{"pd"}, maxLoad, "<=", func(b *circuit.BJTParams, q *dc.BJT) float64 {
 		return q.Power / (b.PD * bjtDerating(b, ambient))
 	})
 	if ch != nil {
-		return deviceFix(p, part, ch, fmt.Sprintf("(pd %s, tj_max %s) brings the load to %s at %s",
-			quantity.Approx(ch.Params.PD, quantity.Watt), temp(ch.Params.TjMax), pct(ch.Metric), temp(ambient)))
+		return deviceFix(p, part, ch, func(ch *deviceChoice) string {
+			return fmt.Sprintf("(pd %s, tj_max %s) brings the load to %s at %s",
+				quantity.Approx(ch.Params.PD, quantity.Watt), temp(ch.Params.TjMax), pct(ch.Metric), temp(ambient))
+		}, forms)
 	}
 	b := part.BJT
 	// Holding VCE, P ≈ IC·(VCE + VBE/hFE): the current that meets the rule at

@@ -12,7 +12,8 @@ import (
 // BJTFtHeadroom asks for a transistor whose ft leaves gain to spare at the
 // top of the band.
 var BJTFtHeadroom = &engine.Rule{
-	ID: "bjt.ft-headroom",
+	ID:       "bjt.ft-headroom",
+	FixMoves: []string{engine.MoveGain}, // its fix restores the gain the part costs
 	Doc: engine.Doc{
 		Title: "the transistor's ft must lie well above the highest band frequency",
 		Why: "Above its beta cut-off a transistor's current gain falls as ft ÷ f. Run close to ft it has little gain left, " +
@@ -51,20 +52,21 @@ func runBJTFtHeadroom(p *engine.Pass) error {
 					quantity.Approx(fHigh, quantity.Hertz), quantity.Approx(minRatio, quantity.Ratio))
 			}}
 		if engine.Fails(ratio, minRatio, ">=") {
-			f.FixLater = func() (string, []engine.Change) { return ftFix(p, part, fHigh, minRatio) }
+			laterWithForms(&f, func(forms *[]engine.FixForm) (string, []engine.Change) { return ftFix(p, part, fHigh, minRatio, forms) })
 		}
 		p.Report(f)
 	}
 	return nil
 }
 
-func ftFix(p *engine.Pass, part *circuit.Part, fHigh, minRatio float64) (string, []engine.Change) {
+func ftFix(p *engine.Pass, part *circuit.Part, fHigh, minRatio float64, forms *[]engine.FixForm) (string, []engine.Change) {
 	ch, blocked := swapDevice(p, part, []string{"ft"}, minRatio, ">=", func(b *circuit.BJTParams, _ *dc.BJT) float64 {
 		return b.FT / fHigh
 	})
 	if ch != nil {
-		return deviceFix(p, part, ch, fmt.Sprintf("(ft %s) gives %s×",
-			quantity.Approx(ch.Params.FT, quantity.Hertz), quantity.Approx(ch.Metric, quantity.Ratio)))
+		return deviceFix(p, part, ch, func(ch *deviceChoice) string {
+			return fmt.Sprintf("(ft %s) gives %s×", quantity.Approx(ch.Params.FT, quantity.Hertz), quantity.Approx(ch.Metric, quantity.Ratio))
+		}, forms)
 	}
 	return noDevice(part, blocked) + fmt.Sprintf("use a transistor with ft of at least %s",
 		quantity.Approx(roundUp3(minRatio*fHigh), quantity.Hertz)), nil

@@ -27,7 +27,7 @@ var BJTVoltage = &engine.Rule{
 		Fix: "change device to the library transistor of the same polarity that meets the rule with the least change in its " +
 			"other figures; where none does, the minimum VCEO (or a lower supply)",
 		Params: []engine.Param{
-			{Name: "max_load", Unit: quantity.Ratio, Help: "largest peak collector voltage ÷ vceo"},
+			{Name: "max_load", Unit: quantity.Fraction, Help: "largest peak collector voltage ÷ vceo"},
 			{Name: "inductive_swing", Unit: quantity.Ratio, Help: "peak ÷ supply span for an inductively fed collector"},
 		},
 	},
@@ -65,20 +65,23 @@ func runBJTVoltage(p *engine.Pass) error {
 		f := engine.Finding{Part: part.Ref, HasMetric: true, Measured: load, Limit: maxLoad,
 			Comparison: "<=", Unit: "fraction", Absolute: absolute, MessageLater: msg}
 		if engine.Fails(load, maxLoad, "<=") {
-			f.FixLater = func() (string, []engine.Change) { return voltageFix(p, part, peak, maxLoad) }
+			laterWithForms(&f, func(forms *[]engine.FixForm) (string, []engine.Change) {
+				return voltageFix(p, part, peak, maxLoad, forms)
+			})
 		}
 		p.Report(f)
 	}
 	return nil
 }
 
-func voltageFix(p *engine.Pass, part *circuit.Part, peak, maxLoad float64) (string, []engine.Change) {
+func voltageFix(p *engine.Pass, part *circuit.Part, peak, maxLoad float64, forms *[]engine.FixForm) (string, []engine.Change) {
 	ch, blocked := swapDevice(p, part, []string{"vceo"}, maxLoad, "<=", func(b *circuit.BJTParams, _ *dc.BJT) float64 {
 		return peak / b.VCEO
 	})
 	if ch != nil {
-		return deviceFix(p, part, ch, fmt.Sprintf("(VCEO %s) brings the load to %s",
-			quantity.Approx(ch.Params.VCEO, quantity.Volt), pct(ch.Metric)))
+		return deviceFix(p, part, ch, func(ch *deviceChoice) string {
+			return fmt.Sprintf("(VCEO %s) brings the load to %s", quantity.Approx(ch.Params.VCEO, quantity.Volt), pct(ch.Metric))
+		}, forms)
 	}
 	return noDevice(part, blocked) + fmt.Sprintf("use a transistor with VCEO of at least %s, or lower the supply",
 		quantity.Approx(roundUp3(peak/maxLoad), quantity.Volt)), nil

@@ -23,7 +23,7 @@ var CapacitorVoltage = &engine.Rule{
 		Fix: "the next standard rating (16, 25, 50, 63, 100, 200, 500 V) that meets max_load; above 500 V the fix says so and " +
 			"gives the exact rating needed",
 		Params: []engine.Param{
-			{Name: "max_load", Unit: quantity.Ratio, Help: "largest DC voltage ÷ rating"},
+			{Name: "max_load", Unit: quantity.Fraction, Help: "largest DC voltage ÷ rating"},
 		},
 	},
 	Run: runCapacitorVoltage,

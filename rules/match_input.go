@@ -10,6 +10,7 @@ import (
 	"headroom/checker/ac"
 	"headroom/checker/circuit"
 	"headroom/checker/engine"
+	"headroom/checker/eseries"
 	"headroom/checker/quantity"
 )
 
@@ -33,7 +34,7 @@ var MatchInput = &engine.Rule{
 			"the transistor's own input. A negative input resistance is named as a poor match, with a pointer to " +
 			"the stability rules.",
 		Params: []engine.Param{
-			{Name: "min_db", Unit: quantity.Ratio, Help: "smallest input return loss over the band, dB"},
+			{Name: "min_db", Unit: quantity.Decibel, Help: "smallest input return loss over the band, dB"},
 		},
 	},
 	Run: runMatchInput,
@@ -199,14 +200,72 @@ func matchAdvice(p *engine.Pass, port *circuit.Port, b ac.BandPoint) string {
 	if x := imag(zin); real(zin) > 0 && math.Abs(x) > 0.2*rs {
 		w := 2 * math.Pi * f
 		if x < 0 {
-			fmt.Fprintf(&out, ". The input is capacitive (%s): cancel it with about %s in series, or a larger series capacitor",
+			fmt.Fprintf(&out, ". The input is capacitive (%s): cancel it with about %s in series",
 				quantity.Approx(x, quantity.Ohm), quantity.Approx(-x/w, quantity.Henry))
+			out.WriteString(seriesCapacitorNote(p, port.Net, -x, w, rs))
 		} else {
 			fmt.Fprintf(&out, ". The input is inductive (+%s): cancel it with about %s in series",
 				quantity.Approx(x, quantity.Ohm), quantity.Approx(1/(w*x), quantity.Farad))
 		}
 	}
 	return out.String()
+}
+
+// seriesCapacitorNote says whether a larger series capacitor on the input
+// can cancel a capacitive input reactance need: it removes at most the
+// reactance it causes itself. When it is the only part on the input net the
+// input is that reactance plus what lies behind it, so a larger value takes
+// exactly its share away: it is proposed when that cancels the reactance or
+// leaves less than a fifth of the source impedance (the band this advice
+// aims at), with the value that does it, and refused with the reason
+// otherwise. Behind a shunt part the share is not exact, and only a
+// capacitor too small to matter is named.
+func seriesCapacitorNote(p *engine.Pass, net string, need, w, rs float64) string {
+	var caps []*circuit.Part
+	others := 0
+	for _, part := range p.Circuit.Parts {
+		far := otherNet(part, net)
+		if part.Kind == circuit.Capacitor && far != "" && !p.A.Topo.ACGround(far) && part.Value > 0 {
+			caps = append(caps, part)
+			continue
+		}
+		for _, n := range part.PartNets() {
+			if n == net {
+				others++
+				break
+			}
+		}
+	}
+	if len(caps) != 1 {
+		return ""
+	}
+	c := caps[0]
+	xc := 1 / (w * c.Value)
+	cant := fmt.Sprintf(" (a larger %s would not do: it causes only %s of it)", c.Ref, quantity.Approx(xc, quantity.Ohm))
+	if others > 0 {
+		if xc < 0.1*need {
+			return cant
+		}
+		return ""
+	}
+	residual := need - xc // what is left with C made infinite
+	var want float64      // the reactance C should have
+	switch {
+	case residual <= 0:
+		want = -residual
+	case residual < 0.2*rs:
+		want = (0.2*rs - residual) / 2
+	default:
+		return cant
+	}
+	nominal := eseries.Nearest(1/(w*want)/caseFactor(p, c.Ref), eseries.E12)
+	if residual > 0 {
+		nominal = eseries.RoundUp(1/(w*want)/caseFactor(p, c.Ref), eseries.E12)
+	}
+	return fmt.Sprintf(", or a larger %s: it causes %s of it, and %s (E12, now %s) leaves %s", c.Ref,
+		quantity.Approx(xc, quantity.Ohm), quantity.Approx(nominal, quantity.Farad),
+		quantity.Approx(p.NominalCircuit.Part(c.Ref).Value, quantity.Farad),
+		quantity.Approx(math.Abs(residual+1/(w*nominal*caseFactor(p, c.Ref))), quantity.Ohm))
 }
 
 // bjtsOn lists the transistors whose base is on net, in file order.

@@ -31,7 +31,7 @@ var ResistorPower = &engine.Rule{
 		Fix: "the next standard rating (⅛, ¼, ½, 1, 2, 3, 5, 10 W) that meets max_load; above 10 W the fix says so and gives the " +
 			"exact rating needed (or lower the current through the part)",
 		Params: []engine.Param{
-			{Name: "max_load", Unit: quantity.Ratio, Help: "largest dissipation ÷ derated rating"},
+			{Name: "max_load", Unit: quantity.Fraction, Help: "largest dissipation ÷ derated rating"},
 			{Name: "knee", Unit: quantity.Celsius, Help: "ambient up to which the full rating holds"},
 			{Name: "zero", Unit: quantity.Celsius, Help: "ambient at which the rating reaches zero"},
 			{Name: "default_rating", Unit: quantity.Watt, Help: "rating assumed when a resistor gives none", Positive: true},

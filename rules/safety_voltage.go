@@ -12,7 +12,8 @@ import (
 // SafetyVoltage cautions when a circuit's rails span more than the safety
 // extra-low voltage ceiling.
 var SafetyVoltage = &engine.Rule{
-	ID: "safety.voltage",
+	ID:       "safety.voltage",
+	FromFile: true, // the supplies' voltages as written: judged even when the wiring is broken
 	Doc: engine.Doc{
 		Title: "rails spanning more than the safety extra-low voltage call for hazardous-voltage practice",
 		Why: "60 V DC is where equipment safety standards stop treating a DC circuit as safety extra-low " +

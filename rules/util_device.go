@@ -30,6 +30,7 @@ type deviceChoice struct {
 	Name   string
 	Params circuit.BJTParams // its figures, with the part's inline figures kept
 	Metric float64           // the rule's metric with it, the worst over its hFE range
+	Others []*deviceChoice   // the other devices that qualify, closest first (further fix forms)
 }
 
 // figure names of FORMAT.md §2, in the order they are compared.
@@ -170,7 +171,11 @@ func swapDevice(p *engine.Pass, part *circuit.Part, needs []string, limit float6
 		names = append(names, n)
 	}
 	sort.Strings(names)
-	best, bestDist := (*deviceChoice)(nil), math.Inf(1)
+	type scored struct {
+		ch   *deviceChoice
+		dist float64
+	}
+	var found []scored
 	for _, name := range names {
 		t := lib.Transistors[name]
 		if name == nominal.Device || t.Polarity != string(part.Kind) {
@@ -184,9 +189,15 @@ func swapDevice(p *engine.Pass, part *circuit.Part, needs []string, limit float6
 		if !ok {
 			continue
 		}
-		if d := distance(nominal.BJT, &b); d < bestDist {
-			best, bestDist = &deviceChoice{Name: name, Params: b, Metric: m}, d
-		}
+		found = append(found, scored{&deviceChoice{Name: name, Params: b, Metric: m}, distance(nominal.BJT, &b)})
+	}
+	if len(found) == 0 {
+		return nil, ""
+	}
+	sort.SliceStable(found, func(i, j int) bool { return found[i].dist < found[j].dist })
+	best := found[0].ch
+	for _, s := range found[1:] {
+		best.Others = append(best.Others, s.ch)
 	}
 	return best, ""
 }
@@ -237,14 +248,32 @@ func judgeDevice(p *engine.Pass, part *circuit.Part, name string, b circuit.BJTP
 
 // deviceFix writes the fix for a device change: the new device, what it
 // brings the metric to (result), and why this one.
-func deviceFix(p *engine.Pass, part *circuit.Part, ch *deviceChoice, result string) (string, []engine.Change) {
+// The other qualifying devices, next closest first, become the finding's
+// further fix forms (through forms), for the whole-circuit check to try
+// when the closest one moves the current or the gain too far.
+func deviceFix(p *engine.Pass, part *circuit.Part, ch *deviceChoice, result func(*deviceChoice) string,
+	forms *[]engine.FixForm) (string, []engine.Change) {
 	from := "the present figures"
 	if np := p.NominalCircuit.Part(part.Ref); np != nil && np.Device != "" {
 		from = "the " + np.Device + "'s"
 	}
+	for _, o := range ch.Others {
+		*forms = append(*forms, engine.FixForm{
+			Text: fmt.Sprintf("%s device = %s %s: another of the library's %s transistors that meet the rule and stay "+
+				"inside their absolute ratings here", part.Ref, o.Name, result(o), part.Kind),
+			Changes: []engine.Change{{Part: part.Ref, Key: "device", To: o.Name}}})
+	}
 	return fmt.Sprintf("%s device = %s %s: of the library's %s transistors that meet the rule and stay inside "+
-			"their absolute ratings here, it is the closest in its other figures to %s", part.Ref, ch.Name, result, part.Kind, from),
+			"their absolute ratings here, it is the closest in its other figures to %s", part.Ref, ch.Name, result(ch), part.Kind, from),
 		[]engine.Change{{Part: part.Ref, Key: "device", To: ch.Name}}
+}
+
+// laterWithForms sets a finding's FixLater to fix, and its FixForms to the
+// further forms fix leaves behind.
+func laterWithForms(f *engine.Finding, fix func(forms *[]engine.FixForm) (string, []engine.Change)) {
+	var forms []engine.FixForm
+	f.FixLater = func() (string, []engine.Change) { return fix(&forms) }
+	f.FixForms = func() []engine.FixForm { return forms }
 }
 
 // noDevice opens the advice given when no device change fixes a finding.

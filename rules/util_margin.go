@@ -141,9 +141,9 @@ func icAdvice(p *engine.Pass, ref string, icCase, allowed float64) string {
 			v = qn.IC * allowed / icCase
 		}
 	}
-	s := quantity.Approx(roundDown3(v), quantity.Ampere)
+	s := quantity.Approx(roundDown3(v), quantity.Ampere) + " nominal"
 	if v != allowed {
-		s += " nominal (" + quantity.Approx(roundDown3(allowed), quantity.Ampere) + " at this case)"
+		s += " (" + quantity.Approx(roundDown3(allowed), quantity.Ampere) + " at the worst case)"
 	}
 	return s
 }

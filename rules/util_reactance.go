@@ -161,6 +161,12 @@ func capacitorFix(p *engine.Pass, g *capGroup, maxX float64) (string, []engine.C
 // ok false where the item is not judged (decoupling.reactance below
 // min_ohms), and a phrase explaining the limit for the message.
 func judgeCapacitorGroups(p *engine.Pass, role string, limit func(z float64) (lim float64, why string, ok bool)) {
+	judgeCapacitorGroupsBy(p, role, func(_ *capGroup, z float64) (float64, string, bool) { return limit(z) })
+}
+
+// judgeCapacitorGroupsBy is judgeCapacitorGroups with a limit that may
+// depend on the group (or pass it over, returning false).
+func judgeCapacitorGroupsBy(p *engine.Pass, role string, limit func(g *capGroup, z float64) (lim float64, why string, ok bool)) {
 	if p.A.AC == nil {
 		return
 	}
@@ -170,7 +176,7 @@ func judgeCapacitorGroups(p *engine.Pass, role string, limit func(z float64) (li
 		if !ok {
 			continue
 		}
-		lim, why, ok := limit(z)
+		lim, why, ok := limit(g, z)
 		if !ok || !(lim > 0) {
 			continue
 		}

@@ -28,7 +28,7 @@ var ValuesPreferred = &engine.Rule{
 		Fix: "The nearer of the two neighbouring series values (the smaller change: which side is safe depends " +
 			"on the part's job, which this rule does not know), naming both neighbours.",
 		Params: []engine.Param{
-			{Name: "max_deviation", Unit: quantity.Ratio, Help: "largest relative distance to a preferred value"},
+			{Name: "max_deviation", Unit: quantity.Fraction, Help: "largest relative distance to a preferred value"},
 		},
 	},
 	Run: runValuesPreferred,

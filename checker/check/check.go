@@ -9,6 +9,7 @@ import (
 	"fmt"
 	"os"
 	"path/filepath"
+	"strings"
 	"sync"
 	"time"
 
@@ -36,6 +37,9 @@ type Options struct {
 	Exists   func(string) bool // for discovery; nil = the working tree
 	Today    string            // YYYY-MM-DD for waiver expiry; "" = the real clock
 	Worst    WorstCase
+	// NoFixCheck offers fixes without the whole-circuit check (fixes.go);
+	// only for measuring what the check costs or changes.
+	NoFixCheck bool
 }
 
 // Result is the outcome for one file.
@@ -55,6 +59,25 @@ type Result struct {
 	// Fingerprints name each finding independently of its line (see package
 	// baseline); filled by the command line, nil when not computed.
 	Fingerprints []string
+	// NotJudged lists the rules not judged because the circuit is broken
+	// (net.connectivity found an error in the wiring, or a transistor
+	// conducts in reverse), and NotJudgedWhy says which: their figures
+	// would come from the broken circuit and mislead. Only the rules that
+	// judge the file as written (engine.Rule.Static, FromFile) still run,
+	// with net.connectivity and bias.region, which diagnose the fault.
+	NotJudged    []string
+	NotJudgedWhy string
+}
+
+// brokenWiring is NotJudgedWhy after a net.connectivity error.
+const brokenWiring = "net.connectivity reports an error in the wiring, and their figures would come from the broken circuit"
+
+// judged is what judging one circuit gives.
+type judged struct {
+	findings  []engine.Finding
+	nominal   *analysis.Case
+	notJudged []string
+	why       string
 }
 
 // Runner checks files, caching rule sets between them. File may be called
@@ -151,20 +174,91 @@ func (r *Runner) File(path string, data []byte) Result {
 		return res
 	}
 	cfg := set.Config(r.opt.Rules)
-	fs, err := r.judge(c, cfg)
+	j, err := r.judge(c, cfg)
 	if err != nil {
 		res.Err = err
 		return res
 	}
-	res.Findings = applyWaivers(c, cfg, fs, r.opt.Today)
+	fs, nominal := j.findings, j.nominal
+	res.NotJudged, res.NotJudgedWhy = j.notJudged, j.why
+	if !r.opt.NoFixCheck {
+		verifyFixes(r.opt.Rules, fs, data, nominal, cfg.Fixes, func(b []byte) ([]engine.Finding, *analysis.Case, error) {
+			c2, err := circuit.LoadBytes(path, b, circuit.Options{ReadFile: r.opt.ReadFile, Libraries: set.Libraries})
+			if err != nil {
+				return nil, nil, err
+			}
+			j2, err := r.judge(c2, cfg)
+			if err != nil {
+				return nil, nil, err
+			}
+			return j2.findings, j2.nominal, nil
+		})
+	}
+	res.Findings = applyWaivers(c, cfg, fs, r.opt.Today, res.NotJudged)
 	engine.Sort(res.Findings)
 	return res
 }
 
-// judge analyses the circuit and returns its failing findings with severities.
-func (r *Runner) judge(c *circuit.Circuit, cfg *engine.Config) ([]engine.Finding, error) {
+// judge analyses the circuit and returns its failing findings with
+// severities, the nominal case, and the rules left unjudged in a broken
+// circuit.
+func (r *Runner) judge(c *circuit.Circuit, cfg *engine.Config) (judged, error) {
 	topo := topology.Analyze(c)
+	var j judged
+	if len(topo.Problems) > 0 && cfg.Severity["net.connectivity"] == engine.Error {
+		j.notJudged, j.why = analysedRules(cfg), brokenWiring
+	}
 	nominal := analysis.Run(c, topo)
+	if j.why == "" && nominal.OP != nil {
+		var rev []string
+		for _, p := range c.Parts {
+			if q := nominal.OP.BJTs[p.Ref]; q != nil && q.Reversed() {
+				rev = append(rev, p.Ref)
+			}
+		}
+		if len(rev) > 0 && cfg.Severity["bias.region"] != engine.Off {
+			j.notJudged = analysedRules(cfg)
+			j.why = fmt.Sprintf("%s conducts in reverse (its collector and emitter may be swapped; see bias.region), and their "+
+				"figures would come from that", strings.Join(rev, ", "))
+		}
+	}
+	if len(j.notJudged) > 0 {
+		cfg = withoutRules(cfg, j.notJudged)
+	}
+	fs, err := r.judgeCase(c, topo, nominal, cfg)
+	j.findings, j.nominal = fs, nominal
+	return j, err
+}
+
+// analysedRules lists the enabled rules whose figures come from the
+// analysed circuit: all but those that judge the file as written and the
+// two that diagnose a broken circuit (net.connectivity, bias.region).
+func analysedRules(cfg *engine.Config) []string {
+	var out []string
+	for _, rule := range cfg.Rules {
+		if rule.Run != nil && !rule.Static && !rule.FromFile && rule.ID != "net.connectivity" &&
+			rule.ID != "bias.region" && cfg.Enabled(rule) && !(rule.NeedsCorners && cfg.Corners != "worst") {
+			out = append(out, rule.ID)
+		}
+	}
+	return out
+}
+
+// withoutRules is cfg with the rules ids switched off.
+func withoutRules(cfg *engine.Config, ids []string) *engine.Config {
+	d := *cfg
+	d.Severity = make(map[string]engine.Severity, len(cfg.Severity))
+	for k, v := range cfg.Severity {
+		d.Severity[k] = v
+	}
+	for _, id := range ids {
+		d.Severity[id] = engine.Off
+	}
+	return &d
+}
+
+// judgeCase measures the analysed circuit under cfg.
+func (r *Runner) judgeCase(c *circuit.Circuit, topo *topology.Topology, nominal *analysis.Case, cfg *engine.Config) ([]engine.Finding, error) {
 	var fs []engine.Finding
 	var err error
 	if cfg.Corners == "worst" {

@@ -16,7 +16,11 @@ const (
 
 // applyWaivers marks findings covered by a waiver in force, reports expired
 // waivers (their findings stay unwaived) and waivers that matched nothing.
-func applyWaivers(c *circuit.Circuit, cfg *engine.Config, fs []engine.Finding, today string) []engine.Finding {
+func applyWaivers(c *circuit.Circuit, cfg *engine.Config, fs []engine.Finding, today string, notJudged []string) []engine.Finding {
+	unjudged := map[string]bool{}
+	for _, id := range notJudged {
+		unjudged[id] = true // a waiver of a rule not judged is not unused
+	}
 	used := make([]bool, len(c.Waivers))
 	for i := range fs {
 		f := &fs[i]
@@ -45,7 +49,7 @@ func applyWaivers(c *circuit.Circuit, cfg *engine.Config, fs []engine.Finding, t
 					Fix:     "fix the design, or renew the waiver with a new expires date and a reason that still holds",
 					Corner:  map[string]float64{}})
 			}
-		case !used[j]:
+		case !used[j] && !unjudged[w.Rule]:
 			if sev := cfg.Severity[ruleUnused]; sev != engine.Off {
 				fs = append(fs, engine.Finding{Rule: ruleUnused, Part: w.Part, Pos: w.Pos, Severity: sev,
 					Message: fmt.Sprintf("waiver of %s for %s matches no finding", w.Rule, target),

@@ -22,7 +22,7 @@ func TestWaivers(t *testing.T) {
 		}
 	}
 	// The day a waiver names is still in force (FORMAT.md §2: "in force through that day").
-	out := applyWaivers(c, cfg, findings(), "2027-06-30")
+	out := applyWaivers(c, cfg, findings(), "2027-06-30", nil)
 	if !out[0].Waived || out[0].Reason != "1 W part" {
 		t.Errorf("R4 should be waived through its expiry day: %+v", out[0])
 	}
@@ -51,13 +51,13 @@ func TestWaivers(t *testing.T) {
 		t.Fatalf("want one expired and one unused waiver finding, got %d and %d", expired, unused)
 	}
 	// A day later the first waiver has expired too.
-	out = applyWaivers(c, cfg, findings(), "2027-07-01")
+	out = applyWaivers(c, cfg, findings(), "2027-07-01", nil)
 	if out[0].Waived {
 		t.Error("the R4 waiver expired on 2027-06-30")
 	}
 	// Off rules raise nothing.
 	cfg.Severity[ruleExpired], cfg.Severity[ruleUnused] = engine.Off, engine.Off
-	if out = applyWaivers(c, cfg, findings(), "2027-07-01"); len(out) != 3 {
+	if out = applyWaivers(c, cfg, findings(), "2027-07-01", nil); len(out) != 3 {
 		t.Errorf("with the waiver rules off, no waiver findings: got %d findings", len(out))
 	}
 }

@@ -3,15 +3,18 @@ package circuit
 import (
 	"errors"
 	"fmt"
+	"math"
 	"path/filepath"
 	"regexp"
 	"slices"
+	"strconv"
 	"strings"
 
 	"headroom/checker/circuit/tomlfile"
 	"headroom/checker/inputfile"
 	"headroom/checker/library"
 	"headroom/checker/quantity"
+	"headroom/checker/spell"
 )
 
 // ErrNotCircuit is returned for a TOML file with neither a [circuit] nor a
@@ -402,7 +405,7 @@ func (ld *loader) part(t *tomlfile.Table) *Part {
 			if k >= 1 {
 				t.Errorf(t.ValPos("coupling"), "%s coupling: must lie between 0 and 1, exclusive (k = 1 makes the windings' inductance matrix singular); got %g", t.What, k)
 			} else {
-				p.Coupling = k
+				p.Coupling, p.CouplingSet = k, true
 			}
 		}
 		ld.windings(t, p)
@@ -560,7 +563,8 @@ func (ld *loader) magnetics(t *tomlfile.Table, p *Part) {
 		p.Core = name
 		core = ld.lib.Cores[name]
 		if core == nil {
-			t.Errorf(t.ValPos("core"), "%s core: unknown core %q; the library has %s", t.What, name, strings.Join(sortedKeys(ld.lib.Cores), ", "))
+			t.Errorf(t.ValPos("core"), "%s core: unknown core %q%s; the library has %s", t.What, name,
+				coreHint(name, sortedKeys(ld.lib.Cores)), strings.Join(sortedKeys(ld.lib.Cores), ", "))
 		}
 	}
 	p.ALTolerance = library.DefaultALTolerance
@@ -622,33 +626,112 @@ func (ld *loader) windings(t *tomlfile.Table, p *Part) {
 // requiredFigures are the transistor figures FORMAT.md §2 requires.
 var requiredFigures = []string{"ft", "hfe", "vbe", "ic_ref", "pd", "tj_max", "ic_max", "vceo"}
 
+// coreName reads a library core name: toroid-OD x ID x H (mm) -muN.
+var coreName = regexp.MustCompile(`^toroid-([0-9.]+)x([0-9.]+)x([0-9.]+)-mu([0-9.]+)$`)
+
+// coreHint is " (did you mean X?)" for an unknown core: a name that reads
+// as a toroid gets the library core of the same permeability nearest in
+// size (the sum of |ln| of the three dimension ratios); others get the
+// nearest spelling.
+func coreHint(name string, cores []string) string {
+	m := coreName.FindStringSubmatch(name)
+	if m == nil {
+		return didYouMean(name, cores)
+	}
+	dims := func(m []string) (d [4]float64) {
+		for i := range d {
+			d[i], _ = strconv.ParseFloat(m[i+1], 64)
+		}
+		return d
+	}
+	want := dims(m)
+	best, bestD := "", math.Inf(1)
+	for _, c := range cores {
+		cm := coreName.FindStringSubmatch(c)
+		if cm == nil {
+			continue
+		}
+		have := dims(cm)
+		if have[3] != want[3] {
+			continue
+		}
+		d := 0.0
+		for i := 0; i < 3; i++ {
+			if want[i] > 0 && have[i] > 0 {
+				d += math.Abs(math.Log(want[i] / have[i]))
+			}
+		}
+		if d < bestD {
+			best, bestD = c, d
+		}
+	}
+	if best == "" {
+		return didYouMean(name, cores)
+	}
+	return fmt.Sprintf(" (did you mean %s?)", best)
+}
+
+// didYouMean is " (did you mean X?)" for the candidate close to name, or "".
+func didYouMean(name string, candidates []string) string {
+	if s := spell.Suggest(name, candidates); s != "" {
+		return fmt.Sprintf(" (did you mean %s?)", s)
+	}
+	return ""
+}
+
 func (ld *loader) transistor(t *tomlfile.Table, p *Part) {
 	var tr library.Transistor
 	from := ""
+	unknown := "" // the error for a device the library lacks, when figures are missing too
 	if name, ok := t.String("device", false); ok {
 		p.Device = name
 		lt := ld.lib.Transistors[name]
 		switch {
 		case lt == nil:
+			// A device the library lacks is fine when every figure is
+			// given inline: the part keeps the name it was given.
 			var same []string
 			for _, k := range sortedKeys(ld.lib.Transistors) {
 				if ld.lib.Transistors[k].Polarity == string(p.Kind) {
 					same = append(same, k)
 				}
 			}
-			t.Errorf(t.ValPos("device"), "%s device: unknown transistor %q; the library's %s types are %s", t.What, name, p.Kind, strings.Join(same, ", "))
-			return
+			types := "none"
+			if len(same) > 0 {
+				types = strings.Join(same, ", ")
+			}
+			unknown = fmt.Sprintf("%s device: unknown transistor %q%s; the library's %s types are %s. A device not in the "+
+				"library may be used with every figure given inline", t.What, name, didYouMean(name, sortedKeys(ld.lib.Transistors)),
+				p.Kind, types)
 		case lt.Polarity != string(p.Kind):
 			t.Errorf(t.ValPos("device"), "%s device: %s is a %s transistor, but kind is %q", t.What, name, lt.Polarity, p.Kind)
 			return
 		}
-		tr = *lt
-		from = fmt.Sprintf(" (device %s)", name)
+		if lt != nil {
+			tr = *lt
+			from = fmt.Sprintf(" (device %s)", name)
+		}
 	}
 	library.ReadFigures(t, p.Kind == PNP, &tr)
 	have := map[string]bool{"ft": tr.FT > 0, "hfe": tr.HFEMax > 0, "vbe": tr.VBE > 0, "ic_ref": tr.ICRef > 0,
 		"pd": tr.PD > 0, "tj_max": tr.TjMax > 0, "ic_max": tr.ICMax > 0, "vceo": tr.VCEO > 0}
-	missingFigures(t, p, "transistor", from, requiredFigures, have)
+	var missing []string
+	for _, k := range requiredFigures {
+		// A figure present but unreadable has its own error already.
+		if !have[k] && !t.Has(k) {
+			missing = append(missing, k)
+		}
+	}
+	switch {
+	case len(missing) > 0 && unknown != "":
+		t.Errorf(t.ValPos("device"), "%s; missing here: %s", unknown, strings.Join(missing, ", "))
+	case len(missing) > 0:
+		how := "name a library device with device = \"...\" or give them inline"
+		if p.Device != "" {
+			how = "give them inline"
+		}
+		t.Errorf(t.Pos, "%s: transistor figures missing%s: %s; %s", t.What, from, strings.Join(missing, ", "), how)
+	}
 	if tr.HFETypOutside() {
 		at := t.ValPos("device")
 		switch {
@@ -658,7 +741,7 @@ func (ld *loader) transistor(t *tomlfile.Table, p *Part) {
 			at = t.ValPos("hfe")
 		}
 		note := ""
-		if !t.Has("hfe_typ") {
+		if !t.Has("hfe_typ") && from != "" {
 			note = fmt.Sprintf(" (hfe_typ from device %s: give hfe_typ inline too)", p.Device)
 		}
 		t.Errorf(at, "%s hfe_typ: %g lies outside hfe [%g, %g]%s", t.What, tr.HFETyp, tr.HFEMin, tr.HFEMax, note)

@@ -111,7 +111,10 @@ type Part struct {
 
 	// Transformer.
 	Coupling float64 // k in (0,1), default 0.98
-	Windings []*Winding
+	// CouplingSet: the file gave coupling; false means the default above
+	// (report says so).
+	CouplingSet bool
+	Windings    []*Winding
 
 	// Potentiometer.
 	Setting float64 // 0 = wiper at b, 1 = wiper at a

@@ -91,3 +91,11 @@ const (
 )
 
 func (f *Failure) Error() string { return f.Reason }
+
+// Reversed reports whether the transistor conducts backwards: its
+// collector below its emitter (in the NPN sense) and a current of at least
+// the cut-off threshold flowing out of the collector. A transistor wired
+// with collector and emitter swapped works like this (reverse active, with
+// the small reverse beta); its Region is "cutoff" by FORMAT.md's test on the
+// forward-sense IC.
+func (b *BJT) Reversed() bool { return b.VCEf < 0 && b.ICf <= -cutoffIC }

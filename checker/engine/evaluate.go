@@ -16,7 +16,18 @@ type Config struct {
 	FailOn   Severity
 	Corners  string // "worst" or "nominal"
 	Name     string // the rule set's name, for output
+	Fixes    FixLimits
 }
+
+// FixLimits are the rule set's [fixes] parameters: how far a fix may move
+// what it is not meant to move before the whole-circuit check refuses it.
+type FixLimits struct {
+	MaxICChange     float64 // largest |ΔIC| ÷ IC of any transistor, nominal; fraction
+	MaxGainChangeDB float64 // largest |Δ gain| at any band point, nominal; dB
+}
+
+// DefaultFixLimits are the limits when no rule set sets them (25 %, 1 dB).
+var DefaultFixLimits = FixLimits{MaxICChange: 0.25, MaxGainChangeDB: 1}
 
 // Enabled reports whether the rule runs under this configuration.
 func (cfg *Config) Enabled(r *Rule) bool { return cfg.Severity[r.ID] != Off }

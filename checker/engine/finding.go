@@ -63,6 +63,10 @@ type Finding struct {
 	// solves the circuit again): the engine calls it once, for a finding
 	// that fails at the case finally reported, instead of at every corner.
 	FixLater func() (string, []Change)
+	// FixForms lists further forms of the fix (another part to change, the
+	// same aim reached another way), tried in order when the first form
+	// fails the whole-circuit check of checker/check. Called at most once.
+	FixForms func() []FixForm
 
 	// Engine-filled.
 	Severity   Severity
@@ -71,6 +75,12 @@ type Finding struct {
 	Waived     bool
 	Baselined  bool   // recorded in the baseline file: reported, never failing
 	Reason     string // the waiver's reason, when waived
+}
+
+// FixForm is one way to make a fix: the text for people and the edits.
+type FixForm struct {
+	Text    string
+	Changes []Change
 }
 
 // Change is one circuit-file edit: part (or REF.WINDING), key, new text.

@@ -33,6 +33,32 @@ type Rule struct {
 	// searched for this rule's items (bias.drift: a supply's own range moves
 	// IC by design).
 	HoldSupplies bool
+	// FromFile marks a rule whose figures come from the file's values alone
+	// (the supplies' voltages), not from the analysed circuit: like a
+	// Static rule it is still judged when net.connectivity finds the wiring
+	// broken.
+	FromFile bool
+	// FixMoves names the circuit measures this rule's fix is meant to move
+	// (MoveIC: a transistor's nominal collector current; MoveGain: the band
+	// gain). The whole-circuit check of a fix (checker/check) lets those
+	// move past the rule set's [fixes] limits, and the fix says by how much.
+	FixMoves []string
+}
+
+// The measures a fix may be meant to move (Rule.FixMoves).
+const (
+	MoveIC   = "ic"
+	MoveGain = "gain"
+)
+
+// Moves reports whether moving measure is the purpose of the rule's fix.
+func (r *Rule) Moves(measure string) bool {
+	for _, m := range r.FixMoves {
+		if m == measure {
+			return true
+		}
+	}
+	return false
 }
 
 // Doc is a rule's structured documentation; `explain`, `rules`, the README's

@@ -243,7 +243,7 @@ func TestParseErrors(t *testing.T) {
 		line, col int
 		frag      string
 	}{
-		{"unknown top key", "[transistor.x]\n", 1, 2, `unknown key "transistor"; accepted keys: transistors, cores`},
+		{"unknown top key", "[transistor.x]\n", 1, 2, `unknown key "transistor" (did you mean transistors?); accepted keys: transistors, cores`},
 		{"unknown figure", "[transistors.x]\npolarity = \"npn\"\nfT = \"1GHz\"\n", 3, 1, `unknown key "fT"`},
 		{"bad polarity", "[transistors.x]\npolarity = \"nnp\"\n", 2, 12, `expected "npn" or "pnp"`},
 		{"no polarity", "[transistors.x]\nft = \"1GHz\"\n", 1, 1, `missing required key "polarity"`},

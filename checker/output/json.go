@@ -52,6 +52,13 @@ type jsonFile struct {
 	RuleSet string `json:"ruleset"`
 	Corners string `json:"corners"`
 	FailOn  string `json:"fail_on"`
+	// NotJudged: the rules not judged because the wiring is broken, and why.
+	NotJudged *jsonNotJudged `json:"not_judged,omitempty"`
+}
+
+type jsonNotJudged struct {
+	Rules  []string `json:"rules"`
+	Reason string   `json:"reason"`
 }
 
 type jsonFinding struct {
@@ -102,8 +109,11 @@ func JSON(w io.Writer, results []check.Result, extra []error) error {
 			doc.Errors = append(doc.Errors, errorJSON(r.Path, r.Err))
 			continue
 		}
-		doc.Files = append(doc.Files, jsonFile{Path: r.Path, Circuit: r.Circuit, RuleSet: r.RuleSet,
-			Corners: r.Corners, FailOn: r.FailOn.String()})
+		jf := jsonFile{Path: r.Path, Circuit: r.Circuit, RuleSet: r.RuleSet, Corners: r.Corners, FailOn: r.FailOn.String()}
+		if len(r.NotJudged) > 0 {
+			jf.NotJudged = &jsonNotJudged{Rules: r.NotJudged, Reason: r.NotJudgedWhy}
+		}
+		doc.Files = append(doc.Files, jf)
 		for i, f := range r.Findings {
 			j := findingJSON(r.Path, f)
 			if i < len(r.Fingerprints) {

@@ -79,6 +79,11 @@ func Text(w, errw io.Writer, results []check.Result, pal Palette, notes ...strin
 		}
 	}
 	s := Summarize(results)
+	for _, r := range results {
+		if len(r.NotJudged) > 0 && r.Err == nil {
+			fmt.Fprintf(w, "%s: %s not judged: %s\n", r.Path, Plural(len(r.NotJudged), "rule"), r.NotJudgedWhy)
+		}
+	}
 	tail := ""
 	if failed > 0 {
 		tail = fmt.Sprintf("; %s not checked (input errors)", Plural(failed, "file"))

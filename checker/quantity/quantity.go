@@ -32,10 +32,11 @@ const (
 	Metre
 	Celsius // a temperature, stored in °C; written with C, °C or K
 	Fraction
-	Ratio // a plain number with no unit
+	Ratio   // a plain number with no unit
+	Decibel // a level in dB; the unit may be left out
 )
 
-var unitNames = [...]string{"ohm", "F", "H", "V", "A", "W", "Hz", "m", "C", "fraction", "ratio"}
+var unitNames = [...]string{"ohm", "F", "H", "V", "A", "W", "Hz", "m", "C", "fraction", "ratio", "dB"}
 
 func (u Unit) String() string {
 	if u >= 0 && int(u) < len(unitNames) {
@@ -69,6 +70,8 @@ func (u Unit) describe() string {
 		return "a percentage or fraction (5%, 0.05)"
 	case Ratio:
 		return "a plain number"
+	case Decibel:
+		return "a level in decibels (8dB, 10)"
 	}
 	return "a value"
 }
@@ -85,6 +88,7 @@ var unitSpellings = map[Unit][]string{
 	Metre:    {"m"},
 	Celsius:  {"C", "°C", "K"}, // K is kelvin, converted to °C
 	Fraction: {"%"},
+	Decibel:  {"dB"},
 }
 
 // prefixes are the SI prefixes of FORMAT.md §1, with both micro signs
@@ -96,7 +100,7 @@ var prefixes = map[string]int{
 // takesPrefix reports whether a field of unit u accepts SI prefixes. A
 // temperature, a fraction and a plain number do not.
 func takesPrefix(u Unit) bool {
-	return u != Celsius && u != Fraction && u != Ratio
+	return u != Celsius && u != Fraction && u != Ratio && u != Decibel
 }
 
 // takesCode reports whether a field of unit u accepts a letter-and-digit code
@@ -371,7 +375,7 @@ func suffix(s, rest string, u Unit) (int, string, error) {
 
 // unitOrder fixes the order in which unitMismatch tries the unit words, so
 // that the message is the same on every run.
-var unitOrder = []Unit{Ohm, Farad, Henry, Volt, Ampere, Watt, Hertz, Celsius, Metre, Fraction}
+var unitOrder = []Unit{Ohm, Farad, Henry, Volt, Ampere, Watt, Hertz, Celsius, Metre, Fraction, Decibel}
 
 // unitMismatch explains why w is not accepted: it names another field's unit
 // when w is that unit, with or without a prefix ("kV" on a resistance).
@@ -410,7 +414,7 @@ func appendFormat(dst []byte, v float64, u Unit, prec int) []byte {
 		v = Finite(v)
 	}
 	if v == 0 {
-		return appendSpecial(dst, v, u)
+		return appendSpecial(dst, 0, u) // +0: no output prints -0
 	}
 	var dbuf [32]byte
 	d := digitsOf(dbuf[:0], v, prec)
@@ -421,6 +425,8 @@ func appendFormat(dst []byte, v float64, u Unit, prec int) []byte {
 		return append(appendPercent(dst, d), " %"...)
 	case Ratio:
 		return appendG(dst, d)
+	case Decibel:
+		return append(appendG(dst, d), " dB"...)
 	}
 	if u == Ohm && d.exp < 0 { // |v| < 1
 		return append(append(appendSubOhm(dst, d), ' '), u.String()...)
@@ -442,6 +448,8 @@ func appendSpecial(dst []byte, v float64, u Unit) []byte {
 		return append(dst, " %"...)
 	case Ratio:
 		return dst
+	case Decibel:
+		return append(dst, " dB"...)
 	}
 	dst = append(dst, ' ')
 	return append(dst, u.String()...)
@@ -569,6 +577,8 @@ func Code(v float64, u Unit) string {
 		return percent(v) + "%"
 	case Ratio:
 		return trimNum(v)
+	case Decibel:
+		return trimNum(v) + "dB"
 	}
 	var m, p string
 	if u == Ohm && math.Abs(v) < 1 && v != 0 {

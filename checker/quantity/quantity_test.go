@@ -456,3 +456,32 @@ func BenchmarkParse(b *testing.B) {
 		}
 	}
 }
+
+// No message prints a negative zero: a value that rounds to nothing is 0.
+func TestNoNegativeZero(t *testing.T) {
+	for _, u := range []Unit{Ohm, Farad, Henry, Volt, Ampere, Watt, Hertz, Metre, Celsius, Fraction, Ratio, Decibel} {
+		for _, got := range []string{Format(math.Copysign(0, -1), u), Approx(math.Copysign(0, -1), u)} {
+			if strings.HasPrefix(got, "-") {
+				t.Errorf("unit %v: %q", u, got)
+			}
+		}
+	}
+}
+
+// A level in decibels reads with or without its unit, and writes with it.
+func TestDecibel(t *testing.T) {
+	for in, want := range map[string]float64{"8dB": 8, "8 dB": 8, "10": 10, "0.5dB": 0.5} {
+		if got, err := Parse(in, Decibel); err != nil || got != want {
+			t.Errorf("Parse(%q) = %v, %v; want %v", in, got, err, want)
+		}
+	}
+	if _, err := Parse("8kdB", Decibel); err == nil {
+		t.Error("a prefix on a level in dB was accepted")
+	}
+	if got := Format(8, Decibel); got != "8 dB" {
+		t.Errorf("Format(8 dB) = %q", got)
+	}
+	if v, err := Parse(Code(1.5, Decibel), Decibel); err != nil || v != 1.5 {
+		t.Errorf("Code round trip: %v %v", v, err)
+	}
+}

@@ -73,21 +73,28 @@ func (r *Report) JSON(w io.Writer) error {
 			if d := op.Parts[p.Ref]; d != nil {
 				switch p.Kind {
 				case circuit.Resistor:
-					e["current"], e["power"] = quantity.Finite(d.Current), quantity.Finite(d.Power)
+					e["current"], e["power"] = quantity.Finite(floored(d.Current, quantity.Ampere)), quantity.Finite(floored(d.Power, quantity.Watt))
 				case circuit.Potentiometer:
-					e["power"] = quantity.Finite(d.Power)
+					e["power"] = quantity.Finite(floored(d.Power, quantity.Watt))
 				case circuit.Capacitor:
 					e["voltage"] = quantity.Finite(d.Voltage)
 				case circuit.Inductor:
-					e["current"] = quantity.Finite(d.Current)
+					e["current"] = quantity.Finite(floored(d.Current, quantity.Ampere))
 				}
 			}
 			if f := op.FETs[p.Ref]; f != nil {
 				r.fetJSON(e, p.Ref, f, ac)
 			}
 			if b := op.BJTs[p.Ref]; b != nil {
-				e["ic"], e["ib"], e["vbe"], e["vce"] = quantity.Finite(b.IC), quantity.Finite(b.IB), quantity.Finite(b.VBE), quantity.Finite(b.VCE)
-				e["power"], e["hfe"], e["region"] = quantity.Finite(b.Power), quantity.Finite(b.HFE), b.Region
+				e["ic"], e["ib"] = quantity.Finite(floored(b.IC, quantity.Ampere)), quantity.Finite(floored(b.IB, quantity.Ampere))
+				e["vbe"], e["vce"] = quantity.Finite(b.VBE), quantity.Finite(b.VCE)
+				e["power"], e["hfe"], e["region"] = quantity.Finite(floored(b.Power, quantity.Watt)), quantity.Finite(b.HFE), b.Region
+				if b.Reversed() {
+					e["reversed"] = true // conducts backwards: collector and emitter may be swapped
+				}
+				if tb := cs.Topo.BJTs[p.Ref]; tb != nil {
+					e["configuration"] = tb.Config
+				}
 				if ac != nil && ac.BJTs[p.Ref] != nil {
 					e["gm"], e["beta_high"] = quantity.Finite(ac.BJTs[p.Ref].GM), quantity.Finite(ac.BJTs[p.Ref].BetaHigh)
 				}
@@ -119,9 +126,15 @@ func (r *Report) JSON(w io.Writer) error {
 						we["inductance"], we["reactance"], we["termination"] = quantity.Finite(x.Inductance), quantity.Finite(x.Reactance), quantity.Finite(x.Termination)
 					}
 				}
+				if ac != nil {
+					if rl, ok := reflectedLoad(p, wd, ac.Windings[p.Ref]); ok {
+						we["reflected_load"] = quantity.Finite(rl)
+					}
+				}
 				ws[wd.Name] = we
 			}
 			e["windings"] = ws
+			e["coupling"], e["coupling_default"] = p.Coupling, !p.CouplingSet
 		}
 		doc.Parts[p.Ref] = e
 	}

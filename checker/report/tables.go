@@ -4,10 +4,12 @@ import (
 	"fmt"
 	"headroom/checker/printable"
 	"io"
+	"math"
 	"math/cmplx"
 	"strconv"
 	"strings"
 
+	"headroom/checker/ac"
 	"headroom/checker/circuit"
 	"headroom/checker/quantity"
 )
@@ -65,17 +67,25 @@ func (r *Report) tables() []table {
 	}
 	ts = append(ts, pt)
 
-	bt := table{title: "Transistors", header: []string{"part", "device", "region", "IC", "VCE", "VBE", "IB", "dissipation", "hFE", "gm", "ft/f_high"}}
+	bt := table{title: "Transistors", header: []string{"part", "device", "configuration", "region", "IC", "VCE", "VBE", "IB", "dissipation", "hFE", "gm", "ft/f_high"}}
 	for _, p := range c.Parts {
 		b := op.BJTs[p.Ref]
 		if b == nil {
 			continue
 		}
-		row := []string{p.Ref, p.Device, b.Region, r.ranged(p.Ref+".ic", b.IC, quantity.Ampere),
+		config := ""
+		if tb := r.Case.Topo.BJTs[p.Ref]; tb != nil {
+			config = tb.Config
+		}
+		region := b.Region
+		if b.Reversed() {
+			region += ", conducts in reverse: collector and emitter may be swapped"
+		}
+		row := []string{p.Ref, p.Device, config, region, r.ranged(p.Ref+".ic", b.IC, quantity.Ampere),
 			r.ranged(p.Ref+".vce", b.VCE, quantity.Volt), v(b.VBE, quantity.Volt), v(b.IB, quantity.Ampere),
 			r.ranged(p.Ref+".power", b.Power, quantity.Watt), num(b.HFE), "", ""}
 		if ac != nil && ac.BJTs[p.Ref] != nil {
-			row[9], row[10] = v(ac.BJTs[p.Ref].GM, quantity.Ratio)+" S", num(ac.BJTs[p.Ref].BetaHigh)
+			row[10], row[11] = v(ac.BJTs[p.Ref].GM, quantity.Ratio)+" S", num(ac.BJTs[p.Ref].BetaHigh)
 		}
 		bt.rows = append(bt.rows, row)
 	}
@@ -103,7 +113,7 @@ func (r *Report) tables() []table {
 				row[3] = r.rangedDB(bandKey(i, "gain_db"), *bp.GainDB)
 			}
 			if bp.VoltageGainDB != nil {
-				row[4] = fmt.Sprintf("%.2f dB", *bp.VoltageGainDB)
+				row[4] = fixed2(*bp.VoltageGainDB) + " dB"
 			}
 		}
 		band.rows = append(band.rows, row)
@@ -140,6 +150,10 @@ func (r *Report) partRows(p *circuit.Part) [][]string {
 		}
 	case circuit.Transformer:
 		var rows [][]string
+		coupling := "coupling " + num(p.Coupling)
+		if !p.CouplingSet {
+			coupling += " (default)"
+		}
 		for _, w := range p.Windings {
 			wr := []string{p.Ref + "." + w.Name, "winding", fmt.Sprintf("%g turns, %s", w.Turns, v(p.AL*w.Turns*w.Turns, quantity.Henry)), "", "", "", ""}
 			if d != nil {
@@ -148,7 +162,11 @@ func (r *Report) partRows(p *circuit.Part) [][]string {
 			if ac != nil && ac.Windings[p.Ref] != nil && ac.Windings[p.Ref][w.Name] != nil {
 				x := ac.Windings[p.Ref][w.Name]
 				wr[4], wr[5] = v(x.Reactance, quantity.Ohm), v(x.Termination, quantity.Ohm)
+				if rl, ok := reflectedLoad(p, w, ac.Windings[p.Ref]); ok {
+					wr[5] = v(rl, quantity.Ohm) + " reflected (" + v(x.Termination, quantity.Ohm) + " across its own nets)"
+				}
 			}
+			wr[6] = coupling
 			rows = append(rows, wr)
 		}
 		return rows
@@ -157,6 +175,28 @@ func (r *Report) partRows(p *circuit.Part) [][]string {
 		row[4], row[5] = v(ac.Parts[p.Ref].Reactance, quantity.Ohm), v(ac.Parts[p.Ref].CircuitImpedance, quantity.Ohm)
 	}
 	return [][]string{row}
+}
+
+// reflectedLoad is what a winding works into through the transformer: the
+// other windings' terminations, each times (this winding's turns ÷ its
+// turns)², in parallel (magnitudes; leakage and magnetising inductance
+// left out). What sits across the winding's own nets (a transistor's output
+// on a collector winding) is its termination, shown apart. false when no
+// other winding has a termination.
+func reflectedLoad(p *circuit.Part, w *circuit.Winding, ws map[string]*ac.Winding) (float64, bool) {
+	g := 0.0
+	for _, o := range p.Windings {
+		x := ws[o.Name]
+		if o == w || x == nil || !(x.Termination > 0) || !(o.Turns > 0) {
+			continue
+		}
+		r := w.Turns / o.Turns
+		g += 1 / (x.Termination * r * r)
+	}
+	if !(g > 0) {
+		return 0, false
+	}
+	return 1 / g, true
 }
 
 func (r *Report) ranged(key string, x float64, u quantity.Unit) string {
@@ -168,11 +208,29 @@ func (r *Report) ranged(key string, x float64, u quantity.Unit) string {
 }
 
 func (r *Report) rangedDB(key string, x float64) string {
-	s := fmt.Sprintf("%.2f dB", x)
+	s := fixed2(x) + " dB"
 	if rg, ok := r.Ranges[key]; ok {
-		s += fmt.Sprintf(" (%.2f to %.2f)", rg[0], rg[1])
+		s += " (" + fixed2(rg[0]) + " to " + fixed2(rg[1]) + ")"
 	}
 	return s
+}
+
+// The numerical floor: the DC solution keeps a 1e-12 S conductance (the
+// gmin aid) from every net to ground, so a part that carries nothing can
+// show up to about 1e-12 S × 100 V. A current or power below these is that
+// aid, not the circuit, and is shown as 0.
+const (
+	currentFloor = 1e-10 // A: 1e-12 S × 100 V
+	powerFloor   = 1e-8  // W: currentFloor × 100 V
+)
+
+// floored is x with what lies below the numerical floor of its unit
+// (currents and powers) written as 0.
+func floored(x float64, u quantity.Unit) float64 {
+	if u == quantity.Ampere && math.Abs(x) < currentFloor || u == quantity.Watt && math.Abs(x) < powerFloor {
+		return 0
+	}
+	return x
 }
 
 // v writes a value with four significant figures and its unit.
@@ -180,10 +238,24 @@ func v(x float64, u quantity.Unit) string {
 	if u == quantity.Ratio {
 		return num(x)
 	}
-	return quantity.Format(round4(x), u)
+	return quantity.Format(round4(floored(x, u)), u)
 }
 
-func num(x float64) string { return fmt.Sprintf("%.4g", x) }
+func num(x float64) string {
+	if x == 0 {
+		x = 0 // never -0
+	}
+	return fmt.Sprintf("%.4g", x)
+}
+
+// fixed2 writes x with two decimals, never as -0.00.
+func fixed2(x float64) string {
+	s := fmt.Sprintf("%.2f", x)
+	if s == "-0.00" {
+		s = "0.00"
+	}
+	return s
+}
 
 func round4(x float64) float64 {
 	y, _ := strconv.ParseFloat(strconv.FormatFloat(x, 'g', 4, 64), 64)

@@ -30,12 +30,13 @@ type Set struct {
 	Baseline  string   // the baseline file's path, resolved; "" = none
 	Severity  map[string]engine.Severity
 	Params    map[string]map[string]float64
+	Fixes     engine.FixLimits // the [fixes] table: limits of the whole-circuit check of a fix
 }
 
 // Config returns the engine configuration for this set.
 func (s *Set) Config(rules []*engine.Rule) *engine.Config {
 	return &engine.Config{Rules: rules, Severity: s.Severity, Params: s.Params,
-		FailOn: s.FailOn, Corners: s.Corners, Name: s.Name}
+		FailOn: s.FailOn, Corners: s.Corners, Name: s.Name, Fixes: s.Fixes}
 }
 
 // Loader reads rule sets. ReadFile lets `check --staged` read from the git index.
@@ -92,7 +93,7 @@ func (l *Loader) load(ref string, seen []string) (*Set, error) {
 	}
 	root := doc.Root
 	root.What = "rule set"
-	root.Allow("name", "extends", "fail_on", "corners", "library", "baseline", "rules")
+	root.Allow("name", "extends", "fail_on", "corners", "library", "baseline", "rules", "fixes")
 	if err := doc.Err(); err != nil {
 		return nil, err
 	}
@@ -100,7 +101,7 @@ func (l *Loader) load(ref string, seen []string) (*Set, error) {
 	var set *Set
 	if builtin && ref == "default" {
 		set = &Set{Name: "default", FailOn: engine.Error, Corners: "worst",
-			Severity: map[string]engine.Severity{}, Params: map[string]map[string]float64{}}
+			Severity: map[string]engine.Severity{}, Params: map[string]map[string]float64{}, Fixes: engine.DefaultFixLimits}
 	} else {
 		parentRef := "default"
 		if s, ok := root.String("extends", false); ok {
@@ -207,6 +208,9 @@ func (l *Loader) apply(root *tomlfile.Table, set *Set, dir string) {
 			set.Libraries = append(set.Libraries, p)
 		}
 	}
+	if ft := root.Table("fixes", "fixes"); ft != nil {
+		applyFixLimits(ft, set)
+	}
 	rulesTable := root.Table("rules", "rules")
 	if rulesTable == nil {
 		return
@@ -254,6 +258,30 @@ func (l *Loader) apply(root *tomlfile.Table, set *Set, dir string) {
 				t.Errorf(pos, "[rules.%q] %s: %s", id, name, problem)
 			}
 		}
+	}
+}
+
+// FixParams are the [fixes] table's keys: the limits of the whole-circuit
+// check every fix passes before it is offered (docs/fixes.md).
+var FixParams = []engine.Param{
+	{Name: "max_ic_change", Unit: quantity.Fraction,
+		Help: "largest change of any transistor's nominal collector current a fix may cause, ÷ the present current"},
+	{Name: "max_gain_change_db", Unit: quantity.Decibel,
+		Help: "largest change of the nominal band gain, at any band point, a fix may cause"},
+}
+
+// applyFixLimits reads the [fixes] table over the limits set inherits.
+func applyFixLimits(t *tomlfile.Table, set *Set) {
+	names := make([]string, len(FixParams))
+	for i, p := range FixParams {
+		names[i] = p.Name
+	}
+	t.Allow(names...)
+	if x, ok := t.Quantity("max_ic_change", quantity.Fraction, tomlfile.NonNegative); ok {
+		set.Fixes.MaxICChange = x
+	}
+	if x, ok := t.Quantity("max_gain_change_db", quantity.Decibel, tomlfile.NonNegative); ok {
+		set.Fixes.MaxGainChangeDB = x
 	}
 }
 

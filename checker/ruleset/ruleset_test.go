@@ -183,3 +183,31 @@ func TestBaselineKey(t *testing.T) {
 		}
 	}
 }
+
+// The [fixes] table: the shipped limits (25 %, 1 dB, the figures),
+// units where the unit is known, inheritance through extends, and refusal
+// of unknown keys (with a suggestion) and negative limits.
+func TestFixLimits(t *testing.T) {
+	l := &Loader{Rules: testRules(t), ReadFile: files(map[string]string{
+		"a.toml":   "[fixes]\nmax_ic_change = \"10%\"\nmax_gain_change_db = \"0.5dB\"\n",
+		"b.toml":   "extends = \"a.toml\"\n",
+		"bad.toml": "[fixes]\nmax_ic_chnage = 0.1\n",
+		"neg.toml": "[fixes]\nmax_gain_change_db = \"-1dB\"\n",
+	})}
+	def, err := l.Load("default")
+	if err != nil || def.Fixes.MaxICChange != 0.25 || def.Fixes.MaxGainChangeDB != 1 {
+		t.Fatalf("default: %+v %v", def, err)
+	}
+	for _, name := range []string{"a.toml", "b.toml"} {
+		s, err := l.Load(name)
+		if err != nil || s.Fixes.MaxICChange != 0.1 || s.Fixes.MaxGainChangeDB != 0.5 {
+			t.Errorf("%s: %+v %v", name, s, err)
+		}
+	}
+	if _, err := l.Load("bad.toml"); err == nil || !strings.Contains(err.Error(), "did you mean max_ic_change?") {
+		t.Errorf("unknown key: %v", err)
+	}
+	if _, err := l.Load("neg.toml"); err == nil {
+		t.Error("a negative limit was accepted")
+	}
+}

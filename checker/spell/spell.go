@@ -4,7 +4,9 @@
 package spell
 
 import (
+	"slices"
 	"sort"
+	"strings"
 	"unicode/utf8"
 )
 
@@ -101,3 +103,29 @@ func Closest(name string, candidates []string, n int) []string {
 }
 
 func hasPrefix(s, p string) bool { return len(s) >= len(p) && s[:len(p)] == p }
+
+// Suggest is the one candidate close enough to name to be what was meant, or
+// "": the nearest that begins with what was typed (or that it begins with),
+// or else one within a third of name's length (at least two) edits. Names
+// are compared without regard to case, since a part number or a key typed
+// in the wrong case is still the same name.
+func Suggest(name string, candidates []string) string {
+	if name == "" || len(candidates) == 0 {
+		return ""
+	}
+	low := strings.ToLower(name)
+	lows := make([]string, len(candidates))
+	for i, c := range candidates {
+		lows[i] = strings.ToLower(c)
+	}
+	best := Closest(low, lows, 1)
+	if len(best) == 0 || best[0] == low && len(candidates) == 1 && candidates[0] == name {
+		return ""
+	}
+	i := slices.Index(lows, best[0])
+	limit := max(2, len(name)/3)
+	if hasPrefix(best[0], low) || hasPrefix(low, best[0]) || Distance(low, best[0]) <= limit {
+		return candidates[i]
+	}
+	return ""
+}

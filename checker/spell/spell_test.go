@@ -112,3 +112,19 @@ func TestDistanceLong(t *testing.T) {
 		t.Errorf("a far candidate allocated %v times", allocs)
 	}
 }
+
+// Suggest names one candidate only when it is close: a prefix, or within a
+// third of the name's length in edits; case does not matter.
+func TestSuggest(t *testing.T) {
+	cands := []string{"turns", "nets", "resistance"}
+	for name, want := range map[string]string{
+		"trns": "turns", "resistence": "resistance", "NETS": "nets", "turn": "turns", "core": "", "xyzzy": "",
+	} {
+		if got := Suggest(name, cands); got != want {
+			t.Errorf("Suggest(%q) = %q, want %q", name, got, want)
+		}
+	}
+	if got := Suggest("2N39O4", []string{"2N2222A", "2N3904", "2N3906"}); got != "2N3904" {
+		t.Errorf("a typed part number: %q", got)
+	}
+}

@@ -41,10 +41,30 @@ type BJT struct {
 	InductiveFeed bool
 	FeedInductor  string
 
-	// CommonEmitter is set when the collector is not directly on an
-	// AC-ground or decoupled net (the stages bias.emitter-fraction judges).
+	// Config is the stage's configuration: CommonBase when the base is held
+	// at AC ground (on a rail or a decoupled net, or by a capacitor of role
+	// bypass: a grounded-base stage, a cascode's upper device), else
+	// CommonCollector when the collector is on an AC-ground or decoupled net
+	// (an emitter follower), else CommonEmitter.
+	Config string
+	// CommonEmitter is Config == CommonEmitter (the stages
+	// bias.emitter-fraction and the emitter bypass rule judge).
 	CommonEmitter bool
+	// BaseBypass names the capacitors of role bypass that hold the base at
+	// AC ground, in file order.
+	BaseBypass []string
+	// Stacked names the transistor whose collector feeds this one's
+	// emitter with no other DC path on the net (a cascode: the upper device
+	// carries the lower one's collector current); "" otherwise.
+	Stacked string
 }
+
+// The configurations of BJT.Config.
+const (
+	CommonEmitter   = "common emitter"
+	CommonBase      = "common base"
+	CommonCollector = "common collector"
+)
 
 func (t *Topology) analyzeBJTs() {
 	for i, p := range t.c.Parts {
@@ -64,9 +84,50 @@ func (t *Topology) analyzeBJTs() {
 		}
 		q.FeedInductor = t.inductiveFeed(p, q)
 		q.InductiveFeed = q.FeedInductor != ""
-		q.CommonEmitter = !t.ACGround(q.Collector) && !t.Decoupled[q.Collector]
+		t.configure(q)
 		t.BJTs[p.Ref] = q
 	}
+	for _, q := range t.BJTs {
+		q.Stacked = t.stackedOn(q)
+	}
+}
+
+// configure classifies the stage (BJT.Config).
+func (t *Topology) configure(q *BJT) {
+	for _, term := range t.touches[q.Base] {
+		if term.Kind == circuit.Capacitor && t.Roles[term.Ref] == Bypass {
+			q.BaseBypass = append(q.BaseBypass, term.Ref)
+		}
+	}
+	switch {
+	case t.ACGround(q.Base) || t.Decoupled[q.Base] || len(q.BaseBypass) > 0:
+		q.Config = CommonBase
+	case t.ACGround(q.Collector) || t.Decoupled[q.Collector]:
+		q.Config = CommonCollector
+	default:
+		q.Config = CommonEmitter
+	}
+	q.CommonEmitter = q.Config == CommonEmitter
+}
+
+// stackedOn is the transistor whose collector alone feeds q's emitter in DC:
+// the net holds q's emitter, that collector, and otherwise only capacitors.
+func (t *Topology) stackedOn(q *BJT) string {
+	if t.Rails[q.Emitter] {
+		return ""
+	}
+	below := ""
+	for _, term := range t.touches[q.Emitter] {
+		switch {
+		case term.Kind == circuit.Capacitor:
+		case term.Ref == q.Ref && term.Pin == "emitter":
+		case term.Kind.IsBJT() && term.Pin == "collector" && term.Ref != q.Ref && below == "":
+			below = term.Ref
+		default:
+			return ""
+		}
+	}
+	return below
 }
 
 func (t *Topology) returnRail(p *circuit.Part, q *BJT) {

@@ -256,3 +256,44 @@ func TestCommonEmitter(t *testing.T) {
 		})
 	}
 }
+
+// The three configurations, named for the terminal common to input and
+// output (the textbook classification, e.g. Sedra and Smith, Microelectronic
+// Circuits, the basic single-transistor amplifier configurations; cited from
+// memory): a base held at AC ground by a capacitor or a rail is common base,
+// a collector on AC ground common collector, the rest common emitter.
+func TestConfiguration(t *testing.T) {
+	cascode := newCkt().supply("vcc", 12).port("in", "rf_in", "in").port("out", "rf_out", "out").
+		cap("C1", "rf_in", "b1").r("R1", "vcc", "b2").r("R2", "b2", "b1").r("R3", "b1", "gnd").
+		cap("C2", "b2", "gnd").npn("Q1", "mid", "b1", "e1").r("RE", "e1", "gnd").
+		npn("Q2", "coll", "b2", "mid").l("L1", "vcc", "coll").cap("C3", "coll", "rf_out")
+	cases := []struct {
+		name    string
+		ckt     *ckt
+		ref     string
+		want    string
+		stacked string
+	}{
+		{"common emitter", ceStage(), "Q1", CommonEmitter, ""},
+		{"emitter follower", newCkt().supply("vcc", 12).r("R1", "vcc", "b").r("R2", "b", "gnd").
+			npn("Q1", "vcc", "b", "e").r("RE", "e", "gnd"), "Q1", CommonCollector, ""},
+		{"grounded base, capacitor", newCkt().supply("vcc", 12).port("in", "rf_in", "in").cap("C1", "rf_in", "e").
+			r("RE", "e", "gnd").r("R1", "vcc", "b").r("R2", "b", "gnd").cap("CB", "b", "gnd").
+			npn("Q1", "c", "b", "e").l("L1", "vcc", "c"), "Q1", CommonBase, ""},
+		{"grounded base, base on the rail", newCkt().supply("vcc", 12).supply("vneg", -5).port("in", "rf_in", "in").
+			cap("C1", "rf_in", "e").r("RE", "e", "vneg").npn("Q1", "c", "gnd", "e").l("L1", "vcc", "c"), "Q1", CommonBase, ""},
+		{"cascode, lower device", cascode, "Q1", CommonEmitter, ""},
+		{"cascode, upper device", cascode, "Q2", CommonBase, "Q1"},
+	}
+	for _, tc := range cases {
+		t.Run(tc.name, func(t *testing.T) {
+			q := bjt(t, tc.ckt.analyze(), tc.ref)
+			if q.Config != tc.want || q.CommonEmitter != (tc.want == CommonEmitter) || q.Stacked != tc.stacked {
+				t.Errorf("Config %q (CommonEmitter %v), Stacked %q; want %q, %q", q.Config, q.CommonEmitter, q.Stacked, tc.want, tc.stacked)
+			}
+		})
+	}
+	if got := cascode.analyze().Roles["C2"]; got != Bypass {
+		t.Errorf("the capacitor holding the cascode's upper base has role %q, want bypass", got)
+	}
+}

@@ -55,6 +55,8 @@ func (t *Topology) capacitorRole(p *circuit.Part, memo map[string]bool) string {
 	switch {
 	case r:
 		return Bypass
+	case f.base && t.heldBase(x):
+		return Bypass
 	case f.collector || f.base || f.port:
 		return Tuning
 	}
@@ -84,6 +86,50 @@ func (t *Topology) reachesEmitter(net string) bool {
 		}
 	}
 	return false
+}
+
+// heldBase reports whether a capacitor to AC ground on net, which touches a
+// base, holds that base at AC ground (a grounded-base stage, a cascode's
+// upper device) rather than tuning it: nothing on the net brings a signal
+// in. Only bases, bias resistors (not from an emitter, collector or port),
+// potentiometers and capacitors to AC ground may touch it; no port,
+// collector, emitter, inductor, winding or coupling capacitor.
+func (t *Topology) heldBase(net string) bool {
+	f := t.flags[net]
+	if f.port || f.collector || f.emitter {
+		return false
+	}
+	for _, term := range t.touches[net] {
+		switch term.Kind {
+		case circuit.Resistor, circuit.Potentiometer:
+			// A bias resistor; one from an emitter, a collector or a
+			// port brings the signal in (a follower driving the base).
+			for _, n := range t.NetsOf(term.Ref) {
+				if g := t.flags[n]; n != net && !t.Rails[n] && (g.emitter || g.collector || g.port) {
+					return false
+				}
+			}
+		case circuit.NPN, circuit.PNP:
+			if term.Pin != "base" {
+				return false
+			}
+		case circuit.Capacitor:
+			p := t.c.Part(term.Ref)
+			if p == nil || len(p.Nets) != 2 {
+				return false
+			}
+			other := p.Nets[0]
+			if other == net {
+				other = p.Nets[1]
+			}
+			if !t.ACGround(other) {
+				return false
+			}
+		default:
+			return false
+		}
+	}
+	return true
 }
 
 func resistorOnly(e *edge) bool { return e.kind == eResistor }

@@ -67,6 +67,7 @@ const usage = `usage:
   headroom report  [--format text|markdown|json] [--corners worst|nominal] [--rules FILE|NAME] FILE
   headroom rules   [--rules FILE|NAME] [--format text|json]
   headroom explain RULE
+  headroom parts   [--format text|json]
   headroom hook    install [--force] | uninstall
   headroom version
 
@@ -123,6 +124,8 @@ func (e *env) run(args []string) int {
 		return e.rules(rest)
 	case "explain":
 		return e.explain(rest)
+	case "parts":
+		return e.parts(rest)
 	case "hook":
 		return e.hook(rest)
 	case "version", "--version":

@@ -4,6 +4,7 @@ import (
 	"encoding/json"
 	"flag"
 	"fmt"
+	"strings"
 
 	"headroom/checker/printable"
 	"headroom/checker/ruledoc"
@@ -44,10 +45,12 @@ func (e *env) rules(args []string) int {
 			Params   map[string]float64 `json:"params"`
 		}
 		doc := struct {
-			Version int    `json:"version"`
-			RuleSet string `json:"ruleset"`
-			Rules   []jr   `json:"rules"`
-		}{Version: 1, RuleSet: set.Name, Rules: []jr{}}
+			Version int                `json:"version"`
+			RuleSet string             `json:"ruleset"`
+			Rules   []jr               `json:"rules"`
+			Fixes   map[string]float64 `json:"fixes"`
+		}{Version: 1, RuleSet: set.Name, Rules: []jr{},
+			Fixes: map[string]float64{"max_ic_change": set.Fixes.MaxICChange, "max_gain_change_db": set.Fixes.MaxGainChangeDB}}
 		for _, r := range all {
 			params := map[string]float64{}
 			for _, p := range r.Doc.Params {
@@ -67,6 +70,14 @@ func (e *env) rules(args []string) int {
 			fmt.Fprintf(e.stdout, "%-26s   %s = %s\n", "", p.Name, ruledoc.Value(set.Params[r.ID][p.Name], p.Unit))
 		}
 	}
+	fmt.Fprintf(e.stdout, "\n%-26s %-8s %s\n", "[fixes]", "", "limits of the whole-circuit check of every fix (docs/fixes.md)")
+	for _, p := range ruleset.FixParams {
+		v := set.Fixes.MaxICChange
+		if p.Name == "max_gain_change_db" {
+			v = set.Fixes.MaxGainChangeDB
+		}
+		fmt.Fprintf(e.stdout, "%-26s   %s = %s\n", "", p.Name, ruledoc.Value(v, p.Unit))
+	}
 	return exitOK
 }
 
@@ -81,7 +92,23 @@ func (e *env) explain(args []string) int {
 	all := rules.All()
 	r := rules.ByID(args[0])
 	if r == nil {
-		return e.usageError("unknown rule %q; %s", args[0], ruleset.Closest(args[0], all))
+		// A unique prefix of an id, or of its name after the area
+		// ("emitter" for bias.emitter-fraction), names the rule.
+		var hits []string
+		for _, x := range all {
+			_, name, _ := strings.Cut(x.ID, ".")
+			if strings.HasPrefix(x.ID, args[0]) || strings.HasPrefix(name, args[0]) {
+				hits = append(hits, x.ID)
+			}
+		}
+		switch {
+		case len(hits) == 1:
+			r = rules.ByID(hits[0])
+		case len(hits) > 1:
+			return e.usageError("%q is the start of several rules: %s", args[0], strings.Join(hits, ", "))
+		default:
+			return e.usageError("unknown rule %q; %s", args[0], ruleset.Closest(args[0], all))
+		}
 	}
 	def, strict, err := ruledoc.Shipped(all)
 	if err != nil {

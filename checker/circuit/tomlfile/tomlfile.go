@@ -238,7 +238,11 @@ func (t *Table) Allow(accepted ...string) {
 	}
 	for _, k := range t.Keys() {
 		if !ok[k] {
-			t.Errorf(t.KeyPos(k), "%s: unknown key %q; accepted keys: %s", t.What, k, strings.Join(accepted, ", "))
+			hint := ""
+			if s := spell.Suggest(k, accepted); s != "" {
+				hint = fmt.Sprintf(" (did you mean %s?)", s)
+			}
+			t.Errorf(t.KeyPos(k), "%s: unknown key %q%s; accepted keys: %s", t.What, k, hint, strings.Join(accepted, ", "))
 		}
 	}
 }
