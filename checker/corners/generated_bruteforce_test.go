@@ -13,9 +13,7 @@ import (
 	"headroom/checker/analysis"
 	"headroom/checker/circuit"
 	"headroom/checker/engine"
-	"headroom/checker/ruleset"
 	"headroom/checker/topology"
-	"headroom/rules"
 )
 
 var generated = flag.Int("generated", 500, "circuits TestGeneratedMatchBruteForce compares with a brute-force search")
@@ -34,12 +32,7 @@ func TestGeneratedMatchBruteForce(t *testing.T) {
 	if testing.Short() {
 		t.Skip("brute force over every vertex")
 	}
-	all := rules.All()
-	set, err := (&ruleset.Loader{Rules: all}).Load("default")
-	if err != nil {
-		t.Fatal(err)
-	}
-	cfg := set.Config(all)
+	cfg := defaultConfig(t)
 	// The stability rules judge a minimum over a frequency sweep (μ) or over
 	// the poles (damping), whose frequency moves with the parameters: not
 	// monotonic, so the search's vertex is not promised to be the worst

@@ -23,12 +23,7 @@ func TestCatalogueMatchesBruteForce(t *testing.T) {
 	if testing.Short() {
 		t.Skip("brute force over every vertex")
 	}
-	all := rules.All()
-	set, err := (&ruleset.Loader{Rules: all}).Load("default")
-	if err != nil {
-		t.Fatal(err)
-	}
-	cfg := set.Config(all)
+	cfg := defaultConfig(t)
 	for _, name := range []string{"preamp-30m.toml", "buffer-20m.toml", "pnp-160m.toml", "cg-preamp-6m.toml", "dualgate-if-10m7.toml", "cs-tank-40m.toml"} {
 		t.Run(name, func(t *testing.T) {
 			c, err := circuit.Load("../../testdata/circuits/"+name, circuit.Options{})
@@ -103,4 +98,14 @@ func freeze(c *circuit.Circuit, n int) {
 			n--
 		}
 	}
+}
+
+// defaultConfig is the shipped default rule set over every rule.
+func defaultConfig(t *testing.T) *engine.Config {
+	all := rules.All()
+	set, err := (&ruleset.Loader{Rules: all}).Load("default")
+	if err != nil {
+		t.Fatal(err)
+	}
+	return set.Config(all)
 }
