@@ -27,7 +27,7 @@ const (
 	// Gamma is the channel thermal-noise factor of a FET in saturation,
 	// 2/3 for a long channel (A. van der Ziel, Proc. IRE 50, 1962; from
 	// memory).
-	Gamma = 2.0 / 3.0
+	Gamma  = 2.0 / 3.0
 	kelvin = 273.15
 )
 
