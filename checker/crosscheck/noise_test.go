@@ -130,7 +130,6 @@ func refWindingNoise(p *circuit.Part, w, kT4 float64, vout func(a, b string) (co
 	return nil
 }
 
-
 // TestNoiseAgainstReference compares checker/noise's adjoint computation
 // with the reference's source-by-source sum on generated circuits at the
 // band's three frequencies.
