@@ -133,7 +133,7 @@ func (ld *loader) circuitTable(root *tomlfile.Table) {
 	}
 	c := ld.c
 	c.Pos = ld.pos(t.Pos)
-	t.Allow("name", "band", "ambient", "library")
+	t.Allow("name", "band", "ambient", "library", "environment", "max_level")
 	if name, ok := t.String("name", true); ok {
 		if strings.TrimSpace(name) == "" {
 			t.Errorf(t.ValPos("name"), "[circuit] name: must not be empty")
@@ -165,6 +165,23 @@ func (ld *loader) circuitTable(root *tomlfile.Table) {
 			}
 		} else if v, ok := t.Quantity("ambient", quantity.Celsius, tomlfile.AnySign); ok {
 			c.Ambient = Ambient{Nominal: v, Lo: v, Hi: v}
+		}
+	}
+	c.Environment = DefaultEnvironment
+	if env, ok := t.String("environment", false); ok {
+		if !slices.Contains(Environments, env) {
+			t.Errorf(t.ValPos("environment"), "[circuit] environment: %q is not one of %s", env, environmentList())
+		} else {
+			c.Environment = env
+		}
+		c.EnvironmentSet = true
+	}
+	if t.Has("max_level") {
+		lv, err := parseLevel(t.Raw("max_level"))
+		if err != nil {
+			t.Errorf(t.ValPos("max_level"), "[circuit] max_level: %v", err)
+		} else {
+			c.MaxLevel, c.HasMaxLevel = lv, true
 		}
 	}
 	if libs, ok := t.Strings("library"); ok {

@@ -46,12 +46,21 @@ type Circuit struct {
 	Name      string     // [circuit] name
 	Band      [2]float64 // Hz: lowest, highest
 	Ambient   Ambient
-	Libraries []string  // library paths as written, resolved relative to Path by the loader
-	Supplies  []*Supply // file order
-	Ports     []*Port   // file order
-	Parts     []*Part   // file order
-	Waivers   []*Waiver // file order
-	Pos       Pos       // the [circuit] table header
+	Libraries []string // library paths as written, resolved relative to Path by the loader
+	// Environment is the man-made noise environment the receiver works in
+	// (one of Environments; DefaultEnvironment when not given), and
+	// EnvironmentSet whether the file gave it.
+	Environment    string
+	EnvironmentSet bool
+	// MaxLevel is the largest signal the in port is to take, dBm, when
+	// HasMaxLevel (the file gave max_level).
+	MaxLevel    float64
+	HasMaxLevel bool
+	Supplies    []*Supply // file order
+	Ports       []*Port   // file order
+	Parts       []*Part   // file order
+	Waivers     []*Waiver // file order
+	Pos         Pos       // the [circuit] table header
 
 	// Library is the merged library the parts were resolved against (shipped,
 	// then the rule set's, then the circuit's own): fixes that change a
