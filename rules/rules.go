@@ -36,6 +36,7 @@ func All() []*engine.Rule {
 		FETVoltage,
 		MatchInput,
 		NetConnectivity,
+		NoiseFigure,
 		ResistorPower,
 		SafetyVoltage,
 		StabilityOscillation,

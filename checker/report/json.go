@@ -19,6 +19,8 @@ type jsonBand struct {
 	ReturnLossDB   *float64              `json:"return_loss_db,omitempty"`
 	GainDB         *float64              `json:"gain_db"`
 	VoltageGainDB  *float64              `json:"voltage_gain_db"`
+	NFDB           *float64              `json:"nf_db"`
+	NoiseTempK     *float64              `json:"noise_temperature_k"`
 	Ranges         map[string][2]float64 `json:"ranges,omitempty"`
 	hasGain        bool
 }
@@ -139,8 +141,12 @@ func (r *Report) JSON(w io.Writer) error {
 		doc.Parts[p.Ref] = e
 	}
 	if ac != nil {
+		nz := r.noise()
 		for i, bp := range ac.Band {
 			jb := jsonBand{Frequency: bp.Frequency, hasGain: ac.HasGain, GainDB: finp(bp.GainDB), VoltageGainDB: finp(bp.VoltageGainDB)}
+			if p := nz[i]; p.Valid {
+				jb.NFDB, jb.NoiseTempK = finp(&p.NFDB), finp(&p.TemperatureK)
+			}
 			if ac.HasInput {
 				jb.InputImpedance = &jsonZ{quantity.Finite(real(bp.InputImpedance)), quantity.Finite(imag(bp.InputImpedance))}
 				rl := quantity.Finite(bp.ReturnLossDB)
@@ -148,7 +154,7 @@ func (r *Report) JSON(w io.Writer) error {
 			}
 			if r.Ranges != nil {
 				jb.Ranges = map[string][2]float64{}
-				for _, k := range []string{"gain_db", "return_loss_db"} {
+				for _, k := range []string{"gain_db", "return_loss_db", "nf_db"} {
 					if v, ok := r.Ranges[bandKey(i, k)]; ok {
 						jb.Ranges[k] = [2]float64{quantity.Finite(v[0]), quantity.Finite(v[1])}
 					}

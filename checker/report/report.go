@@ -7,6 +7,7 @@ package report
 import (
 	"headroom/checker/analysis"
 	"headroom/checker/circuit"
+	"headroom/checker/noise"
 	"headroom/checker/poles"
 	"headroom/checker/sweep"
 )
@@ -22,11 +23,37 @@ type Report struct {
 	stabDone bool
 	poles    *poles.Result
 	sweep    *sweep.Result
+
+	noiseDone bool
+	noisePts  [3]noise.Point // valid only where Valid
+}
+
+// noise is the nominal case's noise at the band points, computed once.
+func (r *Report) noise() [3]noise.Point {
+	if !r.noiseDone {
+		r.noiseDone = true
+		r.noisePts = noiseOf(r.Case)
+	}
+	return r.noisePts
+}
+
+// noiseOf is a case's noise at its band points; every point invalid when
+// the case has no band analysis or the noise analysis fails.
+func noiseOf(cs *analysis.Case) [3]noise.Point {
+	var pts [3]noise.Point
+	if cs.AC == nil || cs.OP == nil || !cs.AC.HasGain {
+		return pts
+	}
+	got, err := noise.Band(cs.Circuit, cs.OP, cs.AC)
+	if err != nil {
+		return pts
+	}
+	return got
 }
 
 // Quantities are the figures whose range over the box the report shows:
-// each BJT's IC, VCE and dissipation, and each band point's gain and input
-// return loss. Missing figures (no operating point, no ports) are left out.
+// each BJT's IC, VCE and dissipation, and each band point's gain, input
+// return loss and noise figure. Missing figures (no operating point, no ports) are left out.
 func Quantities(cs *analysis.Case) map[string]float64 {
 	q := map[string]float64{}
 	if cs.OP != nil {
@@ -44,6 +71,11 @@ func Quantities(cs *analysis.Case) map[string]float64 {
 			}
 			if cs.AC.HasInput {
 				q[bandKey(i, "return_loss_db")] = bp.ReturnLossDB
+			}
+		}
+		for i, p := range noiseOf(cs) {
+			if p.Valid {
+				q[bandKey(i, "nf_db")] = p.NFDB
 			}
 		}
 	}

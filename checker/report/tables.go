@@ -100,6 +100,10 @@ func (r *Report) tables() []table {
 		return ts
 	}
 	band := table{title: "Band", header: []string{"frequency", "input impedance", "return loss", "gain", "voltage gain"}}
+	if ac.HasGain {
+		band.header = append(band.header, "NF", "noise temperature")
+	}
+	nz := r.noise()
 	for i, bp := range ac.Band {
 		row := []string{v(bp.Frequency, quantity.Hertz), "-", "-", "-", "-"}
 		if ac.HasInput {
@@ -114,6 +118,11 @@ func (r *Report) tables() []table {
 			}
 			if bp.VoltageGainDB != nil {
 				row[4] = fixed2(*bp.VoltageGainDB) + " dB"
+			}
+			row = append(row, "no path", "no path")
+			if p := nz[i]; p.Valid {
+				row[5] = r.rangedDB(bandKey(i, "nf_db"), p.NFDB)
+				row[6] = num(p.TemperatureK) + " K"
 			}
 		}
 		band.rows = append(band.rows, row)
