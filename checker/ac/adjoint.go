@@ -108,3 +108,35 @@ func (a *Adjoint) Branches(ref string) (h, d []complex128, err error) {
 func (a *Adjoint) Source() (h complex128, rs float64) {
 	return across(a.z, branch{a.nw.inNode, ground}), a.nw.rs
 }
+
+// VoltageRatios returns V(net)/V(in net) at f for each net named, the source
+// connected (the ratio does not depend on the source's level or impedance):
+// how a signal at the in port reaches each net. A net at AC ground reads 0.
+func (r *Result) VoltageRatios(f float64, nets ...string) ([]complex128, error) {
+	nw := r.net
+	if !nw.hasIn || nw.inNode == ground {
+		return nil, fmt.Errorf("no in port off AC ground")
+	}
+	r.mu.Lock()
+	defer r.mu.Unlock()
+	fr, err := r.at(f)
+	if err != nil {
+		return nil, err
+	}
+	x0 := fr.solveBranch(branch{nw.inNode, ground})
+	vin := x0[nw.inNode]
+	if vin == 0 || !finite(vin) {
+		return nil, fmt.Errorf("the in net carries no signal at %g Hz", f)
+	}
+	out := make([]complex128, len(nets))
+	for i, n := range nets {
+		k, ok := nw.nodes[n]
+		if !ok {
+			return nil, fmt.Errorf("no net %q in the circuit", n)
+		}
+		if k != ground {
+			out[i] = x0[k] / vin
+		}
+	}
+	return out, nil
+}
