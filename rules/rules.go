@@ -39,6 +39,7 @@ func All() []*engine.Rule {
 		NoiseFigure,
 		ResistorPower,
 		SafetyVoltage,
+		SignalSwing,
 		StabilityOscillation,
 		StabilityUnconditional,
 		ValuesPreferred,

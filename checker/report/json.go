@@ -49,6 +49,7 @@ type jsonDoc struct {
 	Nets        map[string]float64        `json:"nets"`
 	Parts       map[string]map[string]any `json:"parts"`
 	Band        []jsonBand                `json:"band"`
+	Linearity   *jsonLinearity            `json:"linearity,omitempty"`
 	Stability   *jsonStability            `json:"stability,omitempty"`
 	Sweep       []jsonSweep               `json:"sweep,omitempty"`
 }
@@ -163,6 +164,7 @@ func (r *Report) JSON(w io.Writer) error {
 			doc.Band = append(doc.Band, jb)
 		}
 	}
+	doc.Linearity = r.linearityJSON()
 	doc.Stability, doc.Sweep = r.stabilityJSON()
 	enc := json.NewEncoder(w)
 	enc.SetIndent("", "  ")

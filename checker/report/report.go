@@ -7,6 +7,7 @@ package report
 import (
 	"headroom/checker/analysis"
 	"headroom/checker/circuit"
+	"headroom/checker/linearity"
 	"headroom/checker/noise"
 	"headroom/checker/poles"
 	"headroom/checker/sweep"
@@ -26,6 +27,12 @@ type Report struct {
 
 	noiseDone bool
 	noisePts  [3]noise.Point // valid only where Valid
+
+	// MinVCE is the rule set's signal.swing min_vce, V (negative or NaN:
+	// DefaultMinVCE).
+	MinVCE  float64
+	linDone bool
+	lin     *linearity.Result
 }
 
 // noise is the nominal case's noise at the band points, computed once.

@@ -66,7 +66,10 @@ func (e *env) report(args []string) int {
 		return exitInput
 	}
 	topo := topology.Analyze(c)
-	r := &report.Report{Circuit: c, Case: analysis.Run(c, topo)}
+	r := &report.Report{Circuit: c, Case: analysis.Run(c, topo), MinVCE: report.DefaultMinVCE}
+	if v, ok := set.Params["signal.swing"]["min_vce"]; ok {
+		r.MinVCE = v
+	}
 	if set.Corners == "worst" && r.Case.OP != nil {
 		r.Ranges = corners.Ranges(c, topo, r.Case, report.Quantities)
 	}
