@@ -20,13 +20,13 @@ var SignalSwing = &engine.Rule{
 			"swings to zero, the stage clips: it distorts, makes mixing products of every strong signal and " +
 			"may shift its own bias. The operating point sets how much signal it takes before that.",
 		Formula: "judged only when [circuit] max_level is given; for every active transistor, at the band point " +
-			"where its collector swing is largest, with Vin the peak voltage at the in net per volt of signal " +
-			"and the small-signal transfers of the band analysis: the peak collector–emitter swing " +
-			"Vin·|V(c) − V(e)|/|V(in)| within VCE − min_vce (down) and vceo − VCE (up: an inductively fed " +
+			"where its collector swing is largest, with V the peak voltage at the in net and the " +
+			"small-signal transfers of the band analysis: the peak collector–emitter swing " +
+			"V·|V(c) − V(e)|/|V(in)| within VCE − min_vce (down) and vceo − VCE (up: an inductively fed " +
 			"collector rests near its supply and swings above it), and the peak emitter current swing " +
-			"gm·Vin·|V(b) − V(e)|/|V(in)| within IC (no cut-off). The largest input level the transistor " +
-			"takes, Vin²/(2·RS) in dBm for the in port's impedance RS, >= max_level; unit dB (levels in dBm). " +
-			"See docs/noise.md.",
+			"gm·V·|V(b) − V(e)|/|V(in)| within IC (no cut-off). The largest input level the transistor " +
+			"takes, V²/(2·RS) in dBm for the in port's impedance RS, >= max_level; unit dB (levels in dBm). " +
+			"At max_level of +20 dBm (100 mW) or more the message adds the RF-power caution. See docs/noise.md.",
 		Source: "the class-A load line: the swing a collector takes is bounded by saturation and by cut-off of " +
 			"the quiescent current (standard analysis, as in C. Bowick, RF Circuit Design, ch. 7; from memory); " +
 			"the small-signal transfer is an estimate up to the point where the stage compresses",
@@ -64,16 +64,20 @@ func runSignalSwing(p *engine.Pass) error {
 			"vceo":    "the collector swings up to its VCEO",
 			"cut-off": "the emitter current swings to zero (cut-off)",
 		}[st.Limit]
-		vin := vAt(c.MaxLevel)
+		vin, vt := vAt(c.MaxLevel), p.A.OP.VT
 		f.MessageLater = func() string {
 			m, l := approx2(st.MaxInputDBm, c.MaxLevel, quantity.Ratio)
+			caution := ""
+			if c.MaxLevel >= 20 {
+				caution = "; a level of 100 mW or more is RF power: mind RF exposure, hot parts and the local rules for transmitting, and defer to licensed practice"
+			}
 			return fmt.Sprintf("%s takes at most %s dBm at the in port (at %s: %s), max_level is %s dBm: there the collector swings %s peak against %s of room down, and the emitter current %s peak against %s",
 				st.Ref, m, quantity.Approx(st.AtHz, quantity.Hertz), why, l,
 				quantity.Approx(vin*st.CollectorGain, quantity.Volt), quantity.Approx(st.RoomDown, quantity.Volt),
-				quantity.Approx(vin*st.JunctionGain*st.RoomCurrent/p.A.OP.VT, quantity.Ampere), quantity.Approx(st.RoomCurrent, quantity.Ampere))
+				quantity.Approx(vin*st.JunctionGain*st.RoomCurrent/vt, quantity.Ampere), quantity.Approx(st.RoomCurrent, quantity.Ampere)) + caution
 		}
 		if engine.Fails(st.MaxInputDBm, c.MaxLevel, ">=") {
-			f.Fix = swingAdvice(st, vin, minVCE, p.A.OP.VT)
+			f.Fix = swingAdvice(st, vin, minVCE, vt)
 		}
 		p.Report(f)
 	}

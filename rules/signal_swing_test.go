@@ -127,3 +127,15 @@ func TestSignalSwingThresholds(t *testing.T) {
 		t.Errorf("min_vce %g [%g], want 0.3 [1]", d, s)
 	}
 }
+
+// A level of 100 mW or more carries the RF-power caution.
+func TestSignalSwingCaution(t *testing.T) {
+	f := biasItem(t, judgeRule(t, rules.SignalSwing, swingStage("470", "+23dBm"), nil, false), "Q1", "")
+	if !strings.Contains(f.Message, "RF power") {
+		t.Errorf("message %q has no RF-power caution", f.Message)
+	}
+	g := biasItem(t, judgeRule(t, rules.SignalSwing, swingStage("470", "+3dBm"), nil, false), "Q1", "")
+	if strings.Contains(g.Message, "RF power") {
+		t.Errorf("message %q cautions at +3 dBm", g.Message)
+	}
+}
