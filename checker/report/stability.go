@@ -2,6 +2,7 @@ package report
 
 import (
 	"fmt"
+	"headroom/checker/noise"
 	"math"
 
 	"headroom/checker/poles"
@@ -128,6 +129,7 @@ type jsonSweep struct {
 	GainDB       *float64 `json:"gain_db"`
 	ReturnLossDB float64  `json:"return_loss_db"`
 	Mu           *float64 `json:"mu"`
+	NFDB         *float64 `json:"nf_db,omitempty"` // where the source reaches the out port
 }
 
 // stabilityJSON fills the report's stability and sweep members.
@@ -153,6 +155,11 @@ func (r *Report) stabilityJSON() (*jsonStability, []jsonSweep) {
 			if sw.TwoPort {
 				m := quantity.Finite(p.Mu)
 				j.Mu = &m
+			}
+			if cs := r.Case; cs.AC != nil && cs.AC.HasGain {
+				if np, err := noise.At(r.Circuit, cs.OP, cs.AC, p.Frequency); err == nil && np.Valid {
+					j.NFDB = finp(&np.NFDB)
+				}
 			}
 			swp = append(swp, j)
 		}
