@@ -199,3 +199,44 @@ func TestShares(t *testing.T) {
 		t.Errorf("largest share %s, want R1 (series 100 Ω against a 10 kΩ shunt)", s[0].Ref)
 	}
 }
+
+// The optimum source resistance of REFERENCES-2 §2.3 ([C], from dF/dRs = 0
+// of the closed form): the model's NF there matches the tabulated "F at
+// Rs,opt" to the closed form's distance from the model, and a source 25 %
+// off either way is noisier.
+func TestOptimumSourceResistance(t *testing.T) {
+	for _, v := range []struct{ ic, beta, rb, f, ft, rsOpt, nf, tol float64 }{
+		{100e-6, 100, 10, 1e3, 300e6, 2610.1, 0.472, 0.01},
+		{100e-6, 200, 10, 1e3, 300e6, 3682.0, 0.330, 0.01},
+		{10e-3, 173.2, 10, 14e6, 300e6, 85.0, 1.174, 0.03},
+	} {
+		p := cePoint(t, v.ic, v.beta, v.rb, v.rsOpt, v.f, v.ft)
+		near(t, "NF at Rs,opt", p.NFDB, v.nf, v.tol)
+		for _, k := range []float64{0.75, 1.25} {
+			if q := cePoint(t, v.ic, v.beta, v.rb, v.rsOpt*k, v.f, v.ft); q.F <= p.F {
+				t.Errorf("Rs %.0f: F %.5f not above F %.5f at Rs,opt %.0f", v.rsOpt*k, q.F, p.F, v.rsOpt)
+			}
+		}
+	}
+}
+
+// Friis' cascade formula F = F1 + (F2 − 1)/G1 (Bowick-x Eq. 8-8, REFERENCES-2
+// §2.1): two matched pads of 3 and 6 dB at T0 in cascade, F1 = L1, G1 = 1/L1,
+// F2 = L2, give F = L1·L2, NF 9 dB.
+func TestFriisTwoPads(t *testing.T) {
+	c, op := ckt(1e6, 2e6)
+	port(c, "in", "a", "in", 50)
+	port(c, "out", "z", "out", 50)
+	for i, loss := range []float64{3, 6} {
+		k := math.Pow(10, loss/20)
+		a, b := []string{"a", "y"}[i], []string{"y", "z"}[i]
+		m := []string{"m1", "m2"}[i]
+		res(c, "RS"+m, a, m, 50*(k-1)/(k+1))
+		res(c, "RP"+m, m, "gnd", 2*50*k/(k*k-1))
+		res(c, "RL"+m, m, b, 50*(k-1)/(k+1))
+	}
+	l1, l2 := math.Pow(10, 0.3), math.Pow(10, 0.6)
+	p := at(t, c, op, 1e6)
+	near(t, "F of the cascade", p.F, l1+(l2-1)*l1, 1e-9)
+	near(t, "NF of the cascade", p.NFDB, 9, 1e-9)
+}
