@@ -30,9 +30,10 @@ var NoiseFigure = &engine.Rule{
 			"quiet-rural 53.6/28.6; default residential) and galactic noise (52.0/23.0); rise = 10·log10((fa + " +
 			"F − 1)/fa) at the band point where it is largest <= max_rise_db; unit dB. Judged only at band " +
 			"points within 0.3–250 MHz and with one in and one out port. The finding names the parts that " +
-			"make most of the stage's own noise.",
-		Source: "Recommendation ITU-R P.372 (radio noise), median man-made and galactic noise (parameters as " +
-			"editions -8 and -11 give them); the system noise factor fa + (F − 1) is P.372's; noise sources of " +
+			"make most of the stage's own noise. The model has no package parasitics or excess noise: at VHF " +
+			"it is optimistic by 1.5–2.5 dB against datasheet figures, so read its NF as a lower bound.",
+		Source: "Recommendation ITU-R P.372 (radio noise), median man-made and galactic noise (parameters of " +
+			"editions -8 and -11 as three independent public codes give them; the ITU table itself not seen); the system noise factor fa + (F − 1) is P.372's; noise sources of " +
 			"the hybrid-π model after P. R. Gray, P. J. Hurst, S. H. Lewis, R. G. Meyer, Analysis and Design of " +
 			"Analog Integrated Circuits, ch. 11; max_rise_db 1 dB is common practice, no published source",
 		Fix: "Advice: the noise figure the stage needs at the worst band point (10·log10(1 + fa·(10^(max_rise_db/10) " +
