@@ -2,6 +2,7 @@ package check
 
 import (
 	"os"
+	"slices"
 	"testing"
 	"time"
 
@@ -16,6 +17,22 @@ import (
 // the two stability rules, in one run, and reports the ratio: what the
 // stability check adds to a worst-case check.
 func BenchmarkStabilityCost(b *testing.B) {
+	with, bare := ruleCost(b, "stability.oscillation", "stability.unconditional")
+	b.ReportMetric(float64(with)/float64(bare), "x-without-stability")
+	b.ReportMetric(float64(with-bare)/float64(b.N)/1e6, "ms-added")
+}
+
+// BenchmarkNoiseCost is the same for noise.figure (docs/noise.md): what the
+// noise analysis at every corner adds to a worst-case check.
+func BenchmarkNoiseCost(b *testing.B) {
+	with, bare := ruleCost(b, "noise.figure")
+	b.ReportMetric(float64(with)/float64(bare), "x-without-noise")
+	b.ReportMetric(float64(with-bare)/float64(b.N)/1e6, "ms-added")
+}
+
+// ruleCost times the worst-case check of the README's example with every
+// rule and with every rule but those named, alternately in one run.
+func ruleCost(b *testing.B, leaveOut ...string) (with, bare time.Duration) {
 	src, err := os.ReadFile("../../testdata/circuits/preamp-30m.toml")
 	if err != nil {
 		b.Fatal(err)
@@ -23,7 +40,7 @@ func BenchmarkStabilityCost(b *testing.B) {
 	all := rules.All()
 	var without []*engine.Rule
 	for _, r := range all {
-		if r.ID != "stability.oscillation" && r.ID != "stability.unconditional" {
+		if !slices.Contains(leaveOut, r.ID) {
 			without = append(without, r)
 		}
 	}
@@ -40,11 +57,9 @@ func BenchmarkStabilityCost(b *testing.B) {
 		}
 		return time.Since(t0)
 	}
-	var with, bare time.Duration
 	for b.Loop() {
 		bare += time1(b, without)
 		with += time1(b, all)
 	}
-	b.ReportMetric(float64(with)/float64(bare), "x-without-stability")
-	b.ReportMetric(float64(with-bare)/float64(b.N)/1e6, "ms-added")
+	return with, bare
 }
