@@ -19,7 +19,8 @@ var SignalSwing = &engine.Rule{
 			"same house. When the collector swings down into saturation, up past VCEO, or the emitter current " +
 			"swings to zero, the stage clips: it distorts, makes mixing products of every strong signal and " +
 			"may shift its own bias. The operating point sets how much signal it takes before that.",
-		Formula: "judged only when [circuit] max_level is given; for every active transistor, at the band point " +
+		Formula: "judged only when [circuit] max_level is given; for every active bipolar transistor (FETs are not " +
+			"judged), at the band point " +
 			"where its collector swing is largest, with V the peak voltage at the in net and the " +
 			"small-signal transfers of the band analysis: the peak collector–emitter swing " +
 			"V·|V(c) − V(e)|/|V(in)| within VCE − min_vce (down) and vceo − VCE (up: an inductively fed " +
