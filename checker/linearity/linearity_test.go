@@ -211,3 +211,31 @@ func analyse(c *circuit.Circuit) (*analysis.Case, error) {
 	}
 	return cs, cs.ACErr
 }
+
+// At the IM3 null (gm·RE = 1/2) the closed form is floored and reports a
+// finite intercept, below what the memoryless DC model gives there: the
+// floor errs on the safe side (the null moves with the baseband impedance
+// in a real stage, which the DC model cannot show).
+func TestNullIsFlooredSafely(t *testing.T) {
+	checked := 0
+	for _, re := range []float64{1.70, 1.75, 1.80, 1.85, 1.90} {
+		op, err := dc.Solve(stage(0.7, re))
+		if err != nil {
+			t.Fatal(err)
+		}
+		q := op.BJTs["Q1"]
+		r := q.ICf / op.VT * re * (1 + 1/q.HFE)
+		if math.Abs(1-2*r) >= nullFloor {
+			continue
+		}
+		checked++
+		fund, im3 := twoTone(t, 0.7, re, 1e-3)
+		got := 1e-3 * math.Sqrt(fund/im3)
+		if want := LoopIIP3(op.VT, r); got < want {
+			t.Errorf("R′ %.4f: two-tone %.1f mV below the floored closed form %.1f mV", r, got*1e3, want*1e3)
+		}
+	}
+	if checked == 0 {
+		t.Error("no emitter resistor put the stage at the null")
+	}
+}
