@@ -239,3 +239,49 @@ func TestNullIsFlooredSafely(t *testing.T) {
 		t.Error("no emitter resistor put the stage at the null")
 	}
 }
+
+// A common-base stage driven at its emitter through a large capacitor: the
+// emitter sees RE ∥ RS to AC ground (the source is part of the loop), so
+// R′ = gm·(RE ∥ 50 Ω), and the junction swings the whole emitter voltage,
+// which is the in net's: the intercept at the in port is the loop's
+// LoopIIP3/(1 + R′) (handbook small-signal analysis of the grounded-base
+// stage, common practice).
+func TestCommonBaseStage(t *testing.T) {
+	part := func(ref string, k circuit.Kind, v float64, nets ...string) *circuit.Part {
+		return &circuit.Part{Ref: ref, Kind: k, Value: v, Nets: nets}
+	}
+	c := &circuit.Circuit{Name: "cb", Band: [2]float64{1e6, 1e6},
+		Ambient:  circuit.Ambient{Nominal: 26.85, Lo: 26.85, Hi: 26.85},
+		Supplies: []*circuit.Supply{{Net: "vcc", Volts: 12, Range: [2]float64{12, 12}}},
+		Ports: []*circuit.Port{{Name: "in", Net: "in", Direction: "in", Impedance: 50, Matched: true},
+			{Name: "out", Net: "out", Direction: "out", Impedance: 50, Matched: true}},
+		Parts: []*circuit.Part{
+			part("R1", circuit.Resistor, 10e3, "vcc", "b"), part("R2", circuit.Resistor, 2.2e3, "b", "gnd"),
+			{Ref: "CB", Kind: circuit.Capacitor, Value: 1e-3, Nets: []string{"b", "gnd"}, Role: "bypass"},
+			part("C1", circuit.Capacitor, 1e-3, "in", "e"), part("RE", circuit.Resistor, 680, "e", "gnd"),
+			part("RC", circuit.Resistor, 470, "vcc", "c"), part("C2", circuit.Capacitor, 1e-3, "c", "out"),
+			{Ref: "Q1", Kind: circuit.NPN, Nets: []string{"c", "b", "e"},
+				BJT: &circuit.BJTParams{FT: 1e12, HFEMin: 1e4, HFEMax: 1e4, VBE: 0.7, ICRef: 10e-3, PD: 1, TjMax: 150, VCEO: 40}},
+		}}
+	cs, err := analyse(c)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if got := cs.Topo.BJTs["Q1"].Config; got != "common base" {
+		t.Fatalf("configuration %q", got)
+	}
+	res, err := Analyze(c, cs.Topo, cs.OP, cs.AC, 0.3)
+	if err != nil || len(res.Stages) != 1 || !res.Stages[0].HasIntercept {
+		t.Fatalf("%v %+v", err, res)
+	}
+	st := res.Stages[0]
+	gm := cs.OP.BJTs["Q1"].ICf / cs.OP.VT
+	r := gm * 680 * 50 / 730
+	if math.Abs(st.Degeneration-r) > 1e-3*r {
+		t.Errorf("R′ %g, want %g", st.Degeneration, r)
+	}
+	v := LoopIIP3(cs.OP.VT, r) / (1 + r)
+	if want := 10 * math.Log10(v*v/100/1e-3); math.Abs(st.IIP3DBm-want) > 0.05 {
+		t.Errorf("IIP3 %.3f dBm, want %.3f", st.IIP3DBm, want)
+	}
+}
