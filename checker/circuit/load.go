@@ -170,7 +170,7 @@ func (ld *loader) circuitTable(root *tomlfile.Table) {
 	c.Environment = DefaultEnvironment
 	if env, ok := t.String("environment", false); ok {
 		if !slices.Contains(Environments, env) {
-			t.Errorf(t.ValPos("environment"), "[circuit] environment: %q is not one of %s", env, environmentList())
+			t.Errorf(t.ValPos("environment"), "[circuit] environment: %q is not one of %s%s", env, environmentList(), didYouMean(env, Environments))
 		} else {
 			c.Environment = env
 		}
