@@ -4,6 +4,7 @@ import (
 	"fmt"
 
 	"headroom/checker/linearity"
+	"headroom/checker/quantity"
 )
 
 // DefaultMinVCE is the least VCE the collector may swing down to when the
@@ -86,3 +87,36 @@ func (r *Report) linearityJSON() *jsonLinearity {
 	}
 	return &j
 }
+
+// maxNoiseRows bounds the noise-contribution table.
+const maxNoiseRows = 8
+
+// noiseTable lists, at the band centre, the source's and the largest
+// parts' shares of the output noise; shares below 0.05 % and past the
+// first maxNoiseRows go into one last row.
+func (r *Report) noiseTable() []table {
+	p := r.noise()[1]
+	if !p.Valid {
+		return nil
+	}
+	total := p.Source
+	for _, x := range p.Parts {
+		total += x.Power
+	}
+	t := table{title: "Noise at " + v(p.Frequency, quantity.Hertz) + ": shares of the output noise", header: []string{"source", "noise", "share"}}
+	t.rows = append(t.rows, []string{"in port (source resistance at 290 K)", "thermal", pct1(p.Source / total)})
+	rest := 0.0
+	for i, x := range p.Parts {
+		if i < maxNoiseRows && x.Power >= 5e-4*total {
+			t.rows = append(t.rows, []string{x.Ref, x.Source, pct1(x.Power / total)})
+		} else {
+			rest += x.Power
+		}
+	}
+	if rest >= 5e-4*total {
+		t.rows = append(t.rows, []string{"the rest", "", pct1(rest / total)})
+	}
+	return []table{t}
+}
+
+func pct1(f float64) string { return fmt.Sprintf("%.1f %%", 100*f) }

@@ -128,6 +128,7 @@ func (r *Report) tables() []table {
 		band.rows = append(band.rows, row)
 	}
 	ts = append(ts, band)
+	ts = append(ts, r.noiseTable()...)
 	ts = append(ts, r.linearityTable()...)
 	return append(ts, r.stabilityTables()...)
 }
