@@ -432,86 +432,97 @@ func (n *refFETNet) settleMid(p *circuit.Part, x []float64) {
 	}
 }
 
+// refFETAdmittance is the reference's small-signal admittance matrix of a
+// FET circuit at angular frequency w, every port stamped: the FET
+// linearised by finite differences of its terminal currents (internal node
+// kept), its capacitances Cgs = ciss − crss, Cgd = crss, Cds = coss − crss,
+// capacitors jωC, inductors R + jωL, supplies AC ground behind their
+// impedance. idx is a net's row (−1 for an AC ground).
+func refFETAdmittance(c *circuit.Circuit, ref *refFETNet, x []float64, w float64) ([][]complex128, func(string) int) {
+	m := len(ref.nodes)
+	y := make([][]complex128, m)
+	for i := range y {
+		y[i] = make([]complex128, m)
+	}
+	idx := func(net string) int {
+		if i, ok := ref.index[net]; ok {
+			return i
+		}
+		return -1
+	}
+	stampY := func(a, b string, v complex128) {
+		ia, ib := idx(a), idx(b)
+		if ia >= 0 {
+			y[ia][ia] += v
+		}
+		if ib >= 0 {
+			y[ib][ib] += v
+		}
+		if ia >= 0 && ib >= 0 {
+			y[ia][ib] -= v
+			y[ib][ia] -= v
+		}
+	}
+	for _, net := range c.Nets() {
+		stampY(net, circuit.Gnd, complex(gminNet, 0))
+	}
+	for _, s := range c.Supplies {
+		if s.Impedance > 0 {
+			stampY(s.Net, circuit.Gnd, complex(1/s.Impedance, 0))
+		}
+	}
+	for _, pt := range c.Ports {
+		stampY(pt.Net, circuit.Gnd, complex(1/pt.Impedance, 0))
+	}
+	for _, p := range c.Parts {
+		switch p.Kind {
+		case circuit.Resistor:
+			stampY(p.Nets[0], p.Nets[1], complex(1/p.Value, 0))
+		case circuit.Capacitor:
+			stampY(p.Nets[0], p.Nets[1], complex(0, w*p.Value))
+		case circuit.Inductor:
+			stampY(p.Nets[0], p.Nets[1], 1/complex(p.Resistance, w*p.Value))
+		default:
+			f := p.FET
+			stampY(p.Nets[1], p.Nets[2], complex(0, w*math.Max(f.Ciss-f.Crss, 0)))
+			stampY(p.Nets[1], p.Nets[0], complex(0, w*f.Crss))
+			stampY(p.Nets[0], p.Nets[2], complex(0, w*math.Max(f.Coss-f.Crss, 0)))
+			// conductances by finite differences of the terminal currents
+			terms := append([]string{}, p.Nets...)
+			if p.Kind == circuit.DualGateMOSFET {
+				terms = append(terms, p.Ref+"#mid")
+			}
+			for _, wrt := range terms {
+				j := idx(wrt)
+				if j < 0 {
+					continue
+				}
+				h := 1e-6
+				xp := append([]float64(nil), x...)
+				xm := append([]float64(nil), x...)
+				xp[j] += h
+				xm[j] -= h
+				ip, im := ref.fetCurrents(p, xp), ref.fetCurrents(p, xm)
+				for _, at := range terms {
+					if i := idx(at); i >= 0 {
+						y[i][j] += complex((ip[at]-im[at])/(2*h), 0)
+					}
+				}
+			}
+		}
+	}
+	return y, idx
+}
+
 // compareFETBand solves the small-signal system at the band's three
 // frequencies: the FET linearised by finite differences of its terminal
 // currents (internal node kept), its capacitances Cgs = ciss − crss,
 // Cgd = crss, Cds = coss − crss, capacitors jωC, inductors R + jωL, supplies
 // AC ground behind their impedance, the in port a 1 V source behind 50 Ω.
 func compareFETBand(ty *tally, where string, c *circuit.Circuit, ref *refFETNet, x []float64, got *ac.Result) {
-	m := len(ref.nodes)
 	for bi, bp := range got.Band {
-		w := 2 * math.Pi * bp.Frequency
-		y := make([][]complex128, m)
-		for i := range y {
-			y[i] = make([]complex128, m)
-		}
-		idx := func(net string) int {
-			if i, ok := ref.index[net]; ok {
-				return i
-			}
-			return -1
-		}
-		stampY := func(a, b string, v complex128) {
-			ia, ib := idx(a), idx(b)
-			if ia >= 0 {
-				y[ia][ia] += v
-			}
-			if ib >= 0 {
-				y[ib][ib] += v
-			}
-			if ia >= 0 && ib >= 0 {
-				y[ia][ib] -= v
-				y[ib][ia] -= v
-			}
-		}
-		for _, net := range c.Nets() {
-			stampY(net, circuit.Gnd, complex(gminNet, 0))
-		}
-		for _, s := range c.Supplies {
-			if s.Impedance > 0 {
-				stampY(s.Net, circuit.Gnd, complex(1/s.Impedance, 0))
-			}
-		}
-		for _, pt := range c.Ports {
-			stampY(pt.Net, circuit.Gnd, complex(1/pt.Impedance, 0))
-		}
-		for _, p := range c.Parts {
-			switch p.Kind {
-			case circuit.Resistor:
-				stampY(p.Nets[0], p.Nets[1], complex(1/p.Value, 0))
-			case circuit.Capacitor:
-				stampY(p.Nets[0], p.Nets[1], complex(0, w*p.Value))
-			case circuit.Inductor:
-				stampY(p.Nets[0], p.Nets[1], 1/complex(p.Resistance, w*p.Value))
-			default:
-				f := p.FET
-				stampY(p.Nets[1], p.Nets[2], complex(0, w*math.Max(f.Ciss-f.Crss, 0)))
-				stampY(p.Nets[1], p.Nets[0], complex(0, w*f.Crss))
-				stampY(p.Nets[0], p.Nets[2], complex(0, w*math.Max(f.Coss-f.Crss, 0)))
-				// conductances by finite differences of the terminal currents
-				terms := append([]string{}, p.Nets...)
-				if p.Kind == circuit.DualGateMOSFET {
-					terms = append(terms, p.Ref+"#mid")
-				}
-				for _, wrt := range terms {
-					j := idx(wrt)
-					if j < 0 {
-						continue
-					}
-					h := 1e-6
-					xp := append([]float64(nil), x...)
-					xm := append([]float64(nil), x...)
-					xp[j] += h
-					xm[j] -= h
-					ip, im := ref.fetCurrents(p, xp), ref.fetCurrents(p, xm)
-					for _, at := range terms {
-						if i := idx(at); i >= 0 {
-							y[i][j] += complex((ip[at]-im[at])/(2*h), 0)
-						}
-					}
-				}
-			}
-		}
+		y, idx := refFETAdmittance(c, ref, x, 2*math.Pi*bp.Frequency)
+		m := len(ref.nodes)
 		// The in port's source: 1 V behind its 50 Ω (already stamped): inject 1/50 A.
 		in := idx("in")
 		rhs := make([]complex128, m)

@@ -181,3 +181,104 @@ func TestNoiseAgainstReference(t *testing.T) {
 		t.Errorf("only %d of %d circuits compared: the generator has drifted", compared, n)
 	}
 }
+
+// TestFETNoiseAgainstReference compares checker/noise on generated FET
+// stages with the FET reference (fet_test.go): each source driven alone into
+// a fresh solve of the reference admittance matrix; the channel's gm by
+// finite differences of the reference drain current (dual gate: the internal
+// node re-settled), the gate current from the reference's terminal currents;
+// inductors in series form.
+func TestFETNoiseAgainstReference(t *testing.T) {
+	ty := newTally(t)
+	n := circuitCount(200, 60)
+	compared := 0
+	for seed := uint64(1); seed <= uint64(n); seed++ {
+		c := genFETCircuit(seed)
+		got, err := dc.Solve(c)
+		ref := newRefFETNet(c)
+		x, rerr := ref.solve()
+		if err != nil || rerr != nil {
+			continue
+		}
+		gac, err := ac.Analyze(c, got)
+		if err != nil || !gac.HasGain {
+			continue
+		}
+		pts, err := noise.Band(c, got, gac)
+		if err != nil {
+			ty.fail("fet seed %d: noise.Band: %v", seed, err)
+			continue
+		}
+		p := c.Parts[len(c.Parts)-1]
+		s := 1.0
+		if p.Kind == circuit.PJFET {
+			s = -1
+		}
+		gate := p.Nets[1]
+		if _, free := ref.index[gate]; !free {
+			continue
+		}
+		h := 1e-5
+		xp := append([]float64(nil), x...)
+		xm := append([]float64(nil), x...)
+		xp[ref.index[gate]] += s * h
+		xm[ref.index[gate]] -= s * h
+		if p.Kind == circuit.DualGateMOSFET {
+			ref.settleMid(p, xp)
+			ref.settleMid(p, xm)
+		}
+		gm := math.Abs((s*ref.fetCurrents(p, xp)[p.Nets[0]] - s*ref.fetCurrents(p, xm)[p.Nets[0]]) / (2 * h))
+		ig := 0.0
+		if p.Kind != circuit.DualGateMOSFET {
+			ig = math.Abs(ref.fetCurrents(p, x)[gate])
+		}
+		kT4 := 4 * boltzmann * (c.Ambient.Nominal + kelvinAt0C)
+		for _, pt := range pts {
+			if !pt.Valid {
+				continue
+			}
+			w := 2 * math.Pi * pt.Frequency
+			y, idx := refFETAdmittance(c, ref, x, w)
+			vout := func(a, b string) complex128 {
+				rhs := make([]complex128, len(y))
+				if i := idx(a); i >= 0 {
+					rhs[i]++
+				}
+				if i := idx(b); i >= 0 {
+					rhs[i]--
+				}
+				v := solveComplex(y, rhs)
+				if v == nil || idx("out") < 0 {
+					return 0
+				}
+				return v[idx("out")]
+			}
+			var in *circuit.Port
+			for _, port := range c.Ports {
+				if port.Direction == "in" {
+					in = port
+				}
+			}
+			src := sqAbs(vout(in.Net, circuit.Gnd)) * 4 * boltzmann * noise.T0 / in.Impedance
+			total := src
+			for _, q := range c.Parts {
+				switch q.Kind {
+				case circuit.Resistor:
+					total += sqAbs(vout(q.Nets[0], q.Nets[1])) * kT4 / q.Value
+				case circuit.Inductor:
+					yl := 1 / complex(q.Resistance, w*q.Value)
+					total += sqAbs(vout(q.Nets[0], q.Nets[1])) * kT4 * q.Resistance * sqAbs(yl)
+				}
+			}
+			total += sqAbs(vout(p.Nets[0], p.Nets[2])) * kT4 * noise.Gamma * gm
+			total += sqAbs(vout(p.Nets[1], p.Nets[2])) * 2 * charge * ig
+			ty.cmp("fet NF dB", 1e-3, fmt.Sprintf("fet seed %d at %g Hz", seed, pt.Frequency), 10*math.Log10(total/src), pt.NFDB)
+			compared++
+		}
+	}
+	t.Logf("%d band points compared", compared)
+	ty.log()
+	if compared < n {
+		t.Errorf("only %d band points in %d circuits: the generator has drifted", compared, n)
+	}
+}

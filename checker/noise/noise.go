@@ -81,7 +81,8 @@ func Band(c *circuit.Circuit, op *dc.Result, r *ac.Result) ([3]Point, error) {
 // transistor's rb thermal noise 4kT/rb across b–b′, base shot noise 2q·IB
 // across b′–e and collector shot noise 2q·IC across c–e, uncorrelated as the
 // simple hybrid-π model has them; each FET's channel thermal noise
-// 4kT·γ·gm across drain–source and gate shot noise 2q·|IG| across
+// 4kT·γ·gm across drain–source (the saturation formula, used in every
+// region; for a dual gate, gm of gate 1 across the whole device) and gate shot noise 2q·|IG| across
 // gate–source (the gate diodes' leakage; the induced gate noise of the
 // channel is not modelled). Supplies and ports other than the in port
 // are noiseless; no flicker noise.
