@@ -2,7 +2,6 @@ package ac
 
 import (
 	"fmt"
-	"math"
 )
 
 // Adjoint is the circuit at one frequency seen backwards from the out port,
@@ -19,7 +18,11 @@ type Adjoint struct {
 	d         [][]complex128
 }
 
-// Adjoint solves the transposed system at f. It needs one in and one out port
+// Adjoint solves the transposed system at f on the factors the band
+// analysis keeps for f (no factorisation of its own at a band frequency):
+// Y0ᵀ·z0 = e_out, and the in port's source conductance gs, which Y0 leaves
+// out, added back by the Sherman–Morrison identity: with u = Y0⁻ᵀ·e_in,
+// z = z0 − u·gs·z0[in]/(1 + gs·u[in]). It needs one in and one out port
 // (HasGain); it fails when the network is singular at f.
 func (r *Result) Adjoint(f float64) (*Adjoint, error) {
 	nw := r.net
@@ -29,40 +32,29 @@ func (r *Result) Adjoint(f float64) (*Adjoint, error) {
 	if !positive(f) {
 		return nil, fmt.Errorf("frequency %g Hz is not a positive finite value", f)
 	}
-	a := &Adjoint{Frequency: f, nw: nw, z: make([]complex128, nw.n), d: make([][]complex128, len(nw.elems))}
+	r.mu.Lock()
+	defer r.mu.Unlock()
+	fr, err := r.at(f)
+	if err != nil {
+		return nil, err
+	}
+	a := &Adjoint{Frequency: f, nw: nw, z: make([]complex128, nw.n), d: fr.d}
 	if nw.outNd == ground {
 		return a, nil // the out port is AC ground: nothing reaches it
 	}
-	w := 2 * math.Pi * f
-	n := nw.n
-	lo, hi := make([]int, n), make([]int, n)
-	for i := range n {
-		lo[i], hi[i] = i, i
-	}
-	dt := make([][]complex128, len(nw.elems))
-	for i, e := range nw.elems {
-		d, err := e.adm(w)
-		if err != nil {
-			return nil, fmt.Errorf("%s at %g Hz: %w", name(e), f, err)
+	e := make([]complex128, nw.n)
+	e[nw.outNd] = 1
+	fr.f0.solveTransposeInto(a.z, e)
+	if nw.source >= 0 {
+		gs := fr.d[nw.source][0]
+		clear(e)
+		e[nw.inNode] = 1
+		u := fr.f0.solveTransposeInto(make([]complex128, nw.n), e)
+		k := gs * a.z[nw.inNode] / (1 + gs*u[nw.inNode])
+		for i := range a.z {
+			a.z[i] -= k * u[i]
 		}
-		a.d[i] = d
-		dt[i] = transpose(d, len(e.branches))
-		span(lo, hi, e.branches, dt[i])
 	}
-	y := newSparse(n, lo, hi)
-	for i := range n {
-		y.add(i, i, Gmin)
-	}
-	for i, e := range nw.elems {
-		stamp(y, e.branches, dt[i], 1) // the source too: the in port is terminated
-	}
-	fa, err := y.factor()
-	if err != nil {
-		return nil, fmt.Errorf("adjoint network at %g Hz: %w", f, err)
-	}
-	rhs := make([]complex128, n)
-	rhs[nw.outNd] = 1
-	fa.solveInto(a.z, rhs)
 	for _, v := range a.z {
 		if !finite(v) {
 			return nil, fmt.Errorf("adjoint network at %g Hz: %w", f, errSingular)
@@ -71,15 +63,45 @@ func (r *Result) Adjoint(f float64) (*Adjoint, error) {
 	return a, nil
 }
 
-// transpose returns the r×r row-major matrix d transposed.
-func transpose(d []complex128, r int) []complex128 {
-	t := make([]complex128, len(d))
-	for i := range r {
-		for j := range r {
-			t[j*r+i] = d[i*r+j]
+// solveTransposeInto returns z with Aᵀ·z = b in dst (length n, not b), b
+// untouched. With P·A = L·U (row i of the factors is row piv[i] of A),
+// Aᵀ = Uᵀ·Lᵀ·P: solve Uᵀ·w = b forwards and Lᵀ·y = w backwards, both by
+// scattering each finished entry along its row of the factors, then
+// z[piv[i]] = y[i].
+func (f *lu) solveTransposeInto(dst, b []complex128) []complex128 {
+	n := f.n
+	acc := make([]complex128, n)
+	copy(acc, b)
+	for j := range n {
+		r := &f.rows[j]
+		w := acc[j] / r.v[j-r.lo]
+		acc[j] = w
+		if w == 0 {
+			continue
+		}
+		for k := j + 1; k <= r.hi(); k++ {
+			if v := r.v[k-r.lo]; v != 0 {
+				acc[k] -= v * w
+			}
 		}
 	}
-	return t
+	for k := n - 1; k > 0; k-- {
+		r := &f.rows[k]
+		y := acc[k]
+		if y == 0 {
+			continue
+		}
+		for i := r.lo; i < k; i++ {
+			if v := r.v[i-r.lo]; v != 0 {
+				acc[i] -= v * y
+			}
+		}
+	}
+	z := dst[:n]
+	for i, p := range f.piv {
+		z[p] = acc[i]
+	}
+	return z
 }
 
 // Branches returns, for the element of part ref, the out-port voltage per

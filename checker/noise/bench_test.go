@@ -10,7 +10,8 @@ import (
 
 // BenchmarkNoiseBand against BenchmarkAnalysis: the noise analysis's cost
 // as a ratio of the analysis of one case it runs on (the worst-case search
-// runs both at every corner it visits).
+// runs both at every corner it visits); about 0.2 since the adjoint reuses
+// the band analysis's factors.
 func benchCase(b *testing.B) *analysis.Case {
 	src, err := os.ReadFile("../../testdata/circuits/two-stage-40m.toml")
 	if err != nil {
