@@ -382,17 +382,7 @@ func TestFETAgainstReference(t *testing.T) {
 		// gm by finite differences of the drain current with the gate moved.
 		gate := p.Nets[1]
 		if _, free := ref.index[gate]; free {
-			h := 1e-5
-			xp := append([]float64(nil), x...)
-			xm := append([]float64(nil), x...)
-			xp[ref.index[gate]] += s * h
-			xm[ref.index[gate]] -= s * h
-			if p.Kind == circuit.DualGateMOSFET {
-				// the internal node follows: re-solve it alone
-				ref.settleMid(p, xp)
-				ref.settleMid(p, xm)
-			}
-			gm := (s*ref.fetCurrents(p, xp)[p.Nets[0]] - s*ref.fetCurrents(p, xm)[p.Nets[0]]) / (2 * h)
+			gm := ref.gm(p, x)
 			gres, aerr := ac.Analyze(c, got)
 			if aerr != nil {
 				ty.fail("%s: ac.Analyze: %v", where, aerr)
@@ -409,6 +399,27 @@ func TestFETAgainstReference(t *testing.T) {
 			t.Errorf("no compared circuit had: %s", f)
 		}
 	}
+}
+
+// gm is ∂ID/∂VGS of FET p at x (forward sense) by central finite
+// differences of the drain current with the gate moved; a dual gate's
+// internal node follows (re-solved alone). The gate must be a free node.
+func (n *refFETNet) gm(p *circuit.Part, x []float64) float64 {
+	s := 1.0
+	if p.Kind == circuit.PJFET {
+		s = -1
+	}
+	g := n.index[p.Nets[1]]
+	h := 1e-5
+	xp := append([]float64(nil), x...)
+	xm := append([]float64(nil), x...)
+	xp[g] += s * h
+	xm[g] -= s * h
+	if p.Kind == circuit.DualGateMOSFET {
+		n.settleMid(p, xp)
+		n.settleMid(p, xm)
+	}
+	return (s*n.fetCurrents(p, xp)[p.Nets[0]] - s*n.fetCurrents(p, xm)[p.Nets[0]]) / (2 * h)
 }
 
 // settleMid re-solves a dual gate's internal node for the other voltages in x.

@@ -99,20 +99,7 @@ func refNoiseF(c *circuit.Circuit, op *refOP, f float64) (float64, error) {
 // matrix, u_j the j-th unit vector), whose output is Σ_i h_i·Y_ij·e_j.
 func refWindingNoise(p *circuit.Part, w, kT4 float64, vout func(a, b string) (complex128, error), total *float64) error {
 	n := len(p.Windings)
-	z := make([][]complex128, n)
-	for i, wi := range p.Windings {
-		z[i] = make([]complex128, n)
-		li := p.AL * wi.Turns * wi.Turns
-		for j, wj := range p.Windings {
-			lj := p.AL * wj.Turns * wj.Turns
-			if i == j {
-				z[i][j] = complex(wi.Resistance, w*li)
-			} else {
-				z[i][j] = complex(0, w*p.Coupling*math.Sqrt(li*lj))
-			}
-		}
-	}
-	y := invertComplex(z)
+	y := invertComplex(windingZ(p, w))
 	h := make([]complex128, n)
 	for i, wi := range p.Windings {
 		var err error
@@ -210,24 +197,11 @@ func TestFETNoiseAgainstReference(t *testing.T) {
 			continue
 		}
 		p := c.Parts[len(c.Parts)-1]
-		s := 1.0
-		if p.Kind == circuit.PJFET {
-			s = -1
-		}
 		gate := p.Nets[1]
 		if _, free := ref.index[gate]; !free {
 			continue
 		}
-		h := 1e-5
-		xp := append([]float64(nil), x...)
-		xm := append([]float64(nil), x...)
-		xp[ref.index[gate]] += s * h
-		xm[ref.index[gate]] -= s * h
-		if p.Kind == circuit.DualGateMOSFET {
-			ref.settleMid(p, xp)
-			ref.settleMid(p, xm)
-		}
-		gm := math.Abs((s*ref.fetCurrents(p, xp)[p.Nets[0]] - s*ref.fetCurrents(p, xm)[p.Nets[0]]) / (2 * h))
+		gm := math.Abs(ref.gm(p, x))
 		ig := 0.0
 		if p.Kind != circuit.DualGateMOSFET {
 			ig = math.Abs(ref.fetCurrents(p, x)[gate])

@@ -266,6 +266,21 @@ func (m *acModel) stamp(f float64, removed map[string]bool, withIn bool) *admitt
 // stampTransformer adds the windings as the inverse of their impedance matrix
 // Z = R + jωL, Lij = k·√(Li·Lj) off the diagonal, every dot at the first net.
 func stampTransformer(a *admittance, p *circuit.Part, w float64) {
+	y := invertComplex(windingZ(p, w))
+	// Winding i carries Ii = Σj Yij·(V(aj) − V(bj)) from ai to bi.
+	for i, wi := range p.Windings {
+		for j, wj := range p.Windings {
+			a.entry(wi.Nets[0], wj.Nets[0], y[i][j])
+			a.entry(wi.Nets[0], wj.Nets[1], -y[i][j])
+			a.entry(wi.Nets[1], wj.Nets[0], -y[i][j])
+			a.entry(wi.Nets[1], wj.Nets[1], y[i][j])
+		}
+	}
+}
+
+// windingZ is a transformer's winding impedance matrix Z = R + jωL,
+// Lij = k·√(Li·Lj) off the diagonal.
+func windingZ(p *circuit.Part, w float64) [][]complex128 {
 	nw := len(p.Windings)
 	z := make([][]complex128, nw)
 	for i, wi := range p.Windings {
@@ -280,16 +295,7 @@ func stampTransformer(a *admittance, p *circuit.Part, w float64) {
 			}
 		}
 	}
-	y := invertComplex(z)
-	// Winding i carries Ii = Σj Yij·(V(aj) − V(bj)) from ai to bi.
-	for i, wi := range p.Windings {
-		for j, wj := range p.Windings {
-			a.entry(wi.Nets[0], wj.Nets[0], y[i][j])
-			a.entry(wi.Nets[0], wj.Nets[1], -y[i][j])
-			a.entry(wi.Nets[1], wj.Nets[0], -y[i][j])
-			a.entry(wi.Nets[1], wj.Nets[1], y[i][j])
-		}
-	}
+	return z
 }
 
 // invertComplex inverts a small complex matrix by Gauss–Jordan elimination

@@ -49,19 +49,26 @@ func near(t *testing.T, what string, got, want, tol float64) {
 	}
 }
 
+// tPad adds a matched 50 ohm T pad of loss dB between nets a and b (parts
+// and middle net named with prefix): series Z0·(K − 1)/(K + 1), shunt
+// 2·Z0·K/(K² − 1), K = 10^(L/20) (the standard T-pad design formulas, common
+// practice).
+func tPad(c *circuit.Circuit, prefix, a, b string, loss float64) {
+	k := math.Pow(10, loss/20)
+	m := prefix + "m"
+	res(c, prefix+"R1", a, m, 50*(k-1)/(k+1))
+	res(c, prefix+"R2", m, "gnd", 2*50*k/(k*k-1))
+	res(c, prefix+"R3", m, b, 50*(k-1)/(k+1))
+}
+
 // A matched resistive T attenuator at T0 has NF equal to its loss (Bowick-x
-// p.194, 199, REFERENCES-2 §2.1). The pad's resistors for loss L dB in Z0:
-// series Z0·(K − 1)/(K + 1), shunt 2·Z0·K/(K² − 1), K = 10^(L/20) (the
-// standard T-pad design formulas, common practice).
+// p.194, 199, REFERENCES-2 §2.1).
 func TestAttenuatorNoiseFigureIsItsLoss(t *testing.T) {
 	for _, loss := range []float64{1, 3, 6, 10, 20} {
-		k := math.Pow(10, loss/20)
 		c, op := ckt(1e6, 2e6)
 		port(c, "in", "a", "in", 50)
 		port(c, "out", "b", "out", 50)
-		res(c, "R1", "a", "m", 50*(k-1)/(k+1))
-		res(c, "R2", "m", "gnd", 2*50*k/(k*k-1))
-		res(c, "R3", "m", "b", 50*(k-1)/(k+1))
+		tPad(c, "", "a", "b", loss)
 		p := at(t, c, op, 1.5e6)
 		near(t, "NF of the pad", p.NFDB, loss, 1e-9)
 		near(t, "noise temperature", p.TemperatureK, (math.Pow(10, loss/10)-1)*T0, 1e-6*T0*math.Pow(10, loss/10))
@@ -72,14 +79,11 @@ func TestAttenuatorNoiseFigureIsItsLoss(t *testing.T) {
 // temperature of a lossy line or pad, Te = (L − 1)·T; IEEE Std 161 noise
 // temperature definitions; from memory).
 func TestWarmAttenuator(t *testing.T) {
-	k := math.Pow(10, 6.0/20)
 	c, op := ckt(1e6, 2e6)
 	op.TempC = 85
 	port(c, "in", "a", "in", 50)
 	port(c, "out", "b", "out", 50)
-	res(c, "R1", "a", "m", 50*(k-1)/(k+1))
-	res(c, "R2", "m", "gnd", 2*50*k/(k*k-1))
-	res(c, "R3", "m", "b", 50*(k-1)/(k+1))
+	tPad(c, "", "a", "b", 6)
 	p := at(t, c, op, 1.5e6)
 	l := math.Pow(10, 0.6)
 	near(t, "noise temperature", p.TemperatureK, (l-1)*(85+kelvin), 1e-6)
@@ -227,14 +231,8 @@ func TestFriisTwoPads(t *testing.T) {
 	c, op := ckt(1e6, 2e6)
 	port(c, "in", "a", "in", 50)
 	port(c, "out", "z", "out", 50)
-	for i, loss := range []float64{3, 6} {
-		k := math.Pow(10, loss/20)
-		a, b := []string{"a", "y"}[i], []string{"y", "z"}[i]
-		m := []string{"m1", "m2"}[i]
-		res(c, "RS"+m, a, m, 50*(k-1)/(k+1))
-		res(c, "RP"+m, m, "gnd", 2*50*k/(k*k-1))
-		res(c, "RL"+m, m, b, 50*(k-1)/(k+1))
-	}
+	tPad(c, "A", "a", "y", 3)
+	tPad(c, "B", "y", "z", 6)
 	l1, l2 := math.Pow(10, 0.3), math.Pow(10, 0.6)
 	p := at(t, c, op, 1e6)
 	near(t, "F of the cascade", p.F, l1+(l2-1)*l1, 1e-7)
