@@ -225,6 +225,9 @@ func (r *Runner) judge(c *circuit.Circuit, cfg *engine.Config) (judged, error) {
 	if len(j.notJudged) > 0 {
 		cfg = withoutRules(cfg, j.notJudged)
 	}
+	if !c.HasTransistor() {
+		cfg = withoutRules(cfg, transistorRules(cfg))
+	}
 	fs, err := r.judgeCase(c, topo, nominal, cfg)
 	j.findings, j.nominal = fs, nominal
 	return j, err
@@ -238,6 +241,18 @@ func analysedRules(cfg *engine.Config) []string {
 	for _, rule := range cfg.Rules {
 		if rule.Run != nil && !rule.Static && !rule.FromFile && rule.ID != "net.connectivity" &&
 			rule.ID != "bias.region" && cfg.Enabled(rule) && !(rule.NeedsCorners && cfg.Corners != "worst") {
+			out = append(out, rule.ID)
+		}
+	}
+	return out
+}
+
+// transistorRules lists the rules that judge nothing without a transistor
+// (engine.Rule.NeedsTransistor).
+func transistorRules(cfg *engine.Config) []string {
+	var out []string
+	for _, rule := range cfg.Rules {
+		if rule.NeedsTransistor {
 			out = append(out, rule.ID)
 		}
 	}

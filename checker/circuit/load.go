@@ -318,9 +318,9 @@ func (ld *loader) checkNet(t *tomlfile.Table, what, n string, p tomlfile.Pos) bo
 // Part kinds and the keys each accepts (FORMAT.md §2).
 var partKeys = map[Kind][]string{
 	Resistor:       {"kind", "value", "nets", "tolerance", "rating"},
-	Capacitor:      {"kind", "value", "nets", "tolerance", "rating", "role"},
-	Inductor:       {"kind", "value", "turns", "core", "al", "al_tolerance", "nets", "tolerance", "resistance", "role"},
-	Transformer:    {"kind", "core", "al", "al_tolerance", "coupling", "windings"},
+	Capacitor:      {"kind", "value", "nets", "tolerance", "rating", "role", "q", "q_freq"},
+	Inductor:       {"kind", "value", "turns", "core", "al", "al_tolerance", "nets", "tolerance", "resistance", "role", "q", "q_freq"},
+	Transformer:    {"kind", "core", "al", "al_tolerance", "coupling", "windings", "q", "q_freq"},
 	Potentiometer:  {"kind", "value", "nets", "setting", "rating", "tolerance"},
 	NPN:            append([]string{"kind", "device", "nets"}, library.TransistorKeys...),
 	PNP:            append([]string{"kind", "device", "nets"}, library.TransistorKeys...),
@@ -393,13 +393,16 @@ func (ld *loader) part(t *tomlfile.Table) *Part {
 		p.Tolerance = tolerance(t, "tolerance", 0.10)
 		p.Rating, _ = t.Quantity("rating", quantity.Volt, tomlfile.Positive)
 		p.Role = role(t, "coupling", "bypass", "decoupling", "tuning")
+		ld.quality(t, p)
 	case Inductor:
 		ld.twoNets(t, p)
 		ld.inductor(t, p)
 		p.Resistance, _ = t.Quantity("resistance", quantity.Ohm, tomlfile.NonNegative)
 		p.Role = role(t, "choke", "tuning")
+		ld.quality(t, p)
 	case Transformer:
 		ld.magnetics(t, p)
+		ld.quality(t, p)
 		p.Coupling = 0.98
 		if k, ok := t.Quantity("coupling", quantity.Ratio, tomlfile.Positive); ok {
 			if k >= 1 {
@@ -579,6 +582,27 @@ func (ld *loader) magnetics(t *tomlfile.Table, p *Part) {
 		t.Errorf(t.Pos, `%s: missing "core" (a library core) or "al" (inductance per turn squared, as in al = "360nH")`, t.What)
 	}
 	p.ALTolerance = tolerance(t, "al_tolerance", p.ALTolerance)
+}
+
+// quality reads q and q_freq (the unloaded Q and the frequency it is given
+// at); without q, a library core's typical Q range gives the nominal Q (the
+// geometric mean of its ends) and the range the corner box sweeps.
+func (ld *loader) quality(t *tomlfile.Table, p *Part) {
+	if q, ok := t.Quantity("q", quantity.Ratio, tomlfile.Positive); ok {
+		p.Q = q
+	} else if !t.Has("q") && p.Core != "" {
+		if core := ld.lib.Cores[p.Core]; core != nil && core.Q[0] > 0 {
+			p.Q = math.Sqrt(core.Q[0] * core.Q[1])
+			p.QRange = core.Q
+			p.QFreq = core.QFreq
+		}
+	}
+	if f, ok := t.Quantity("q_freq", quantity.Hertz, tomlfile.Positive); ok {
+		if !t.Has("q") {
+			t.Errorf(t.KeyPos("q_freq"), "%s q_freq: the frequency a Q is given at needs q beside it, as in q = 150", t.What)
+		}
+		p.QFreq = f
+	}
 }
 
 func sortedKeys[V any](m map[string]V) []string {
