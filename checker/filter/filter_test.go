@@ -1,0 +1,152 @@
+package filter
+
+import (
+	"fmt"
+	"math"
+	"strings"
+	"testing"
+
+	"headroom/checker/ac"
+	"headroom/checker/circuit"
+)
+
+// coupled builds a top-C coupled band-pass filter of shunt resonators from
+// the normalised k and q values of a coupled-resonator table (Kikkert ch. 7,
+// eq. 7.8, as in REFERENCES-2.md §4.1): Q_BW = f0/BW, node capacitance
+// C_node = 1/(ω0²·L), coupling C_ij = k_ij/Q_BW·C_node, each shunt capacitor
+// C_node less its neighbours' couplings, end resistances R = Q_E·X0 with the
+// table's end q read as the end resonator's total loaded Q, its own loss
+// included: 1/Q_E = 1/(q·Q_BW) − 1/Q_U (the reading rule of §4.1). qu = 0
+// is lossless.
+func coupled(f0, bw, l, qu float64, q1, qn float64, k []float64) string {
+	w := 2 * math.Pi * f0
+	qbw := f0 / bw
+	x0 := w * l
+	cn := 1 / (w * x0)
+	end := func(q float64) float64 {
+		inv := 1 / (q * qbw)
+		if qu > 0 {
+			inv -= 1 / qu
+		}
+		return x0 / inv
+	}
+	var b strings.Builder
+	fmt.Fprintf(&b, "[circuit]\nname = \"table filter\"\nband = [%g, %g]\n\n", f0*0.999, f0/0.999)
+	n := len(k) + 1
+	fmt.Fprintf(&b, "[ports.in]\nnet = \"n1\"\ndirection = \"in\"\nimpedance = %g\n\n", end(q1))
+	fmt.Fprintf(&b, "[ports.out]\nnet = \"n%d\"\ndirection = \"out\"\nimpedance = %g\n\n", n, end(qn))
+	cc := make([]float64, len(k))
+	for i, ki := range k {
+		cc[i] = ki / qbw * cn
+		fmt.Fprintf(&b, "[parts.CC%d]\nkind = \"capacitor\"\nvalue = %g\nnets = [\"n%d\", \"n%d\"]\n\n", i+1, cc[i], i+1, i+2)
+	}
+	for i := 1; i <= n; i++ {
+		c := cn
+		if i > 1 {
+			c -= cc[i-2]
+		}
+		if i < n {
+			c -= cc[i-1]
+		}
+		fmt.Fprintf(&b, "[parts.L%d]\nkind = \"inductor\"\nvalue = %g\nnets = [\"n%d\", \"gnd\"]\nrole = \"tuning\"\n", i, l, i)
+		if qu > 0 {
+			fmt.Fprintf(&b, "q = %g\nq_freq = %g\n", qu, f0)
+		}
+		fmt.Fprintf(&b, "\n[parts.C%d]\nkind = \"capacitor\"\nvalue = %g\nnets = [\"n%d\", \"gnd\"]\nrole = \"tuning\"\n\n", i, c, i)
+	}
+	return b.String()
+}
+
+func analyse(t *testing.T, src string) (*circuit.Circuit, *ac.Result) {
+	t.Helper()
+	c, err := circuit.LoadBytes("filter.toml", []byte(src), circuit.Options{})
+	if err != nil {
+		t.Fatalf("%v\n%s", err, src)
+	}
+	r, err := ac.Analyze(c, nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	return c, r
+}
+
+func lossAt(t *testing.T, r *ac.Result, f float64) float64 {
+	t.Helper()
+	pts, err := Response(r, []float64{f})
+	if err != nil {
+		t.Fatal(err)
+	}
+	return pts[0].InsertionLossDB
+}
+
+// Zverev's Butterworth k–q tables with finite q0 = Q_U/Q_BW (Zverev,
+// Handbook of Filter Synthesis, p.341, as reproduced in Kikkert, RF
+// Electronics, Table 7.1a; REFERENCES-2.md §4.1): the printed insertion loss
+// at the centre, to the table's 0.001 dB, built at 7.1 MHz with Q_BW 20.
+func TestZverevFiniteQTables(t *testing.T) {
+	cases := []struct {
+		q0, il, q1, qn float64
+		k              []float64
+	}{
+		{14.142, 0.915, 1.4142, 1.4142, []float64{0.7071}},
+		{7.071, 1.938, 1.4142, 1.4142, []float64{0.7071}},
+		{3.536, 4.437, 1.4142, 1.4142, []float64{0.7071}},
+		{20.000, 0.958, 0.8041, 1.4156, []float64{0.7687, 0.6582}},
+		{10.000, 2.052, 0.8007, 1.5359, []float64{0.7388, 0.6716}},
+		// Printed q1 0.9097 is a slip for 0.8097 (REFERENCES-2.md §4.1: 0.9097
+		// gives 3.185 dB); the corrected row is tested.
+		{6.667, 3.300, 0.8097, 1.6301, []float64{0.7005, 0.6879}},
+		{26.131, 1.002, 0.5376, 1.4782, []float64{1.0927, 0.5668, 0.6670}},
+	}
+	const f0, qbw = 7.1e6, 20.0
+	for _, tc := range cases {
+		_, r := analyse(t, coupled(f0, f0/qbw, 1e-6, tc.q0*qbw, tc.q1, tc.qn, tc.k))
+		// The table is for the centre frequency; narrowband top-C coupling
+		// holds it to a few thousandths of a dB at Q_BW 20.
+		if got := lossAt(t, r, f0); math.Abs(got-tc.il) > 0.005 {
+			t.Errorf("n = %d, q0 %g: insertion loss %.4f dB, table %.3f dB", len(tc.k)+1, tc.q0, got, tc.il)
+		}
+	}
+}
+
+// The 3-pole Butterworth design vector of REFERENCES-2.md §4.2 (recomputed
+// there from the k–q tables): 7.1 MHz, BW 355 kHz, L 1 µH; lossless it has
+// no loss at the centre and a 3 dB bandwidth of 351.4 kHz (the narrowband
+// coupling formula's ~1 % error); with Q_U 400, 200, 100 the centre loss is
+// 0.868, 1.734, 3.452 dB, beside Cohn's estimate 4.343·Σg·Q_BW/Q_U
+// (S. B. Cohn, Proc. IRE 1959, from memory) of 0.869, 1.737, 3.474 dB.
+func TestButterworthDesignVector(t *testing.T) {
+	const f0, bw = 7.1e6, 355e3
+	c, r := analyse(t, coupled(f0, bw, 1e-6, 0, 1, 1, []float64{0.7071, 0.7071}))
+	if got := lossAt(t, r, f0); math.Abs(got) > 0.001 {
+		t.Errorf("lossless centre loss %.4f dB, want 0", got)
+	}
+	s, err := Measure(c, r)
+	if err != nil || !s.Found {
+		t.Fatalf("no 3 dB points: %v", err)
+	}
+	// The sheet's 351.4 kHz does not reproduce: a separate nodal solve of
+	// the same circuit (three nodes, Gaussian elimination, written by hand
+	// for this check) gives 3 dB points 6.93039 and 7.28590 MHz, 355.50 kHz
+	// apart, which is tested here; the figure is named in the report.
+	if math.Abs(s.BandwidthHz-355.50e3) > 0.05e3 {
+		t.Errorf("3 dB bandwidth %.2f kHz, want 355.50 kHz (recomputed; the sheet prints 351.4)", s.BandwidthHz/1e3)
+	}
+	if math.Abs(s.CenterHz-f0)/f0 > 0.002 {
+		t.Errorf("centre %.4f MHz, want about 7.1 MHz", s.CenterHz/1e6)
+	}
+	for _, tc := range []struct{ qu, il, cohn float64 }{{400, 0.868, 0.869}, {200, 1.734, 1.737}, {100, 3.452, 3.474}} {
+		// The reference's lossy runs keep the lossless end resistances.
+		src := coupled(f0, bw, 1e-6, 0, 1, 1, []float64{0.7071, 0.7071})
+		src = strings.ReplaceAll(src, "role = \"tuning\"\n\n[parts.C", fmt.Sprintf("role = \"tuning\"\nq = %g\nq_freq = %g\n\n[parts.C", tc.qu, f0))
+		_, r := analyse(t, src)
+		got := lossAt(t, r, f0)
+		if math.Abs(got-tc.il) > 0.002 {
+			t.Errorf("Q_U %g: centre loss %.4f dB, want %.3f dB", tc.qu, got, tc.il)
+		}
+		// Cohn's first-order estimate, Σg = 4 for n = 3 Butterworth.
+		if cohn := 4.343 * 4 * 20 / tc.qu; math.Abs(cohn-tc.cohn) > 0.001 {
+			t.Errorf("Cohn estimate %.4f, reference %.3f", cohn, tc.cohn)
+		}
+	}
+}

@@ -1,0 +1,168 @@
+package filter
+
+import (
+	"fmt"
+	"math"
+	"math/cmplx"
+	"slices"
+
+	"headroom/checker/ac"
+	"headroom/checker/circuit"
+	"headroom/checker/topology"
+)
+
+// Tank is an inductor or transformer winding with one or more capacitors
+// across it (the ends of a rail count as one: a capacitor from the collector
+// to gnd is across an inductor from the collector to the supply).
+type Tank struct {
+	Ref     string   // the inductor or transformer
+	Winding string   // the winding's name, "" for an inductor
+	Nets    [2]string
+	Caps    []string // the capacitors across it, file order
+	L, C    float64  // nominal inductance and the capacitors' sum, H and F
+	// Pos is where findings about the tank point: the part's line.
+	Pos circuit.Pos
+}
+
+// Key is the tank's name in findings and reports: REF or REF.winding.
+func (t Tank) Key() string {
+	if t.Winding == "" {
+		return t.Ref
+	}
+	return t.Ref + "." + t.Winding
+}
+
+// Tanks lists the tanks of c in file order: every inductor the topology
+// gave the tuning role, and every transformer winding, with a capacitor
+// across it.
+func Tanks(c *circuit.Circuit, topo *topology.Topology) []Tank {
+	end := func(n string) string {
+		if topo.Rails[n] {
+			return circuit.Gnd
+		}
+		return n
+	}
+	same := func(a, b [2]string) bool {
+		a0, a1, b0, b1 := end(a[0]), end(a[1]), end(b[0]), end(b[1])
+		return a0 != a1 && ((a0 == b0 && a1 == b1) || (a0 == b1 && a1 == b0))
+	}
+	across := func(nets [2]string) ([]string, float64) {
+		var refs []string
+		sum := 0.0
+		for _, p := range c.Parts {
+			if p.Kind == circuit.Capacitor && len(p.Nets) == 2 && same(nets, [2]string{p.Nets[0], p.Nets[1]}) {
+				refs = append(refs, p.Ref)
+				sum += p.Value
+			}
+		}
+		return refs, sum
+	}
+	var out []Tank
+	for _, p := range c.Parts {
+		switch {
+		case p.Kind == circuit.Inductor && len(p.Nets) == 2 && topo.Roles[p.Ref] == topology.Tuning:
+			nets := [2]string{p.Nets[0], p.Nets[1]}
+			if caps, sum := across(nets); len(caps) > 0 {
+				out = append(out, Tank{Ref: p.Ref, Nets: nets, Caps: caps, L: p.Inductance(), C: sum, Pos: p.Pos})
+			}
+		case p.Kind == circuit.Transformer:
+			for _, w := range p.Windings {
+				if caps, sum := across(w.Nets); len(caps) > 0 {
+					out = append(out, Tank{Ref: p.Ref, Winding: w.Name, Nets: w.Nets, Caps: caps,
+						L: p.AL * w.Turns * w.Turns, C: sum, Pos: p.Pos})
+				}
+			}
+		}
+	}
+	return out
+}
+
+// Resonance is a tank with the loading it sees: the impedance between its
+// nets with the whole circuit in place peaks at Hz, and falls to 1/√2 of
+// the peak at the two frequencies BandwidthHz apart; LoadedQ = Hz/BandwidthHz.
+type Resonance struct {
+	Hz, LoadedQ, BandwidthHz float64
+	PeakOhm                  float64 // |Z| at Hz
+	// Found is false when no peak lies within a factor of 4 of the tank's
+	// own 1/(2π√(LC)), or its 3 dB points were not both found (LoadedQ and
+	// BandwidthHz are then 0).
+	Found bool
+}
+
+// Resonate finds the tank's loaded resonance in r.
+func Resonate(r *ac.Result, t Tank) (Resonance, error) {
+	var res Resonance
+	if !(t.L > 0) || !(t.C > 0) {
+		return res, fmt.Errorf("tank %s: no inductance or capacitance", t.Key())
+	}
+	f0 := 1 / (2 * math.Pi * math.Sqrt(t.L*t.C))
+	mag := func(f float64) float64 {
+		z, err := r.Impedance(f, t.Nets[0], t.Nets[1])
+		if err != nil {
+			return math.NaN()
+		}
+		return cmplx.Abs(z)
+	}
+	grid := LogGrid(f0/4, f0*4, 97)
+	zs := make([]float64, len(grid))
+	best := 0
+	for i, f := range grid {
+		zs[i] = mag(f)
+		if math.IsNaN(zs[i]) {
+			return res, fmt.Errorf("tank %s: no impedance at %g Hz", t.Key(), f)
+		}
+		if zs[i] > zs[best] {
+			best = i
+		}
+	}
+	if best == 0 || best == len(grid)-1 {
+		return res, nil // the impedance rises to the end of the search: no peak
+	}
+	res.Hz = golden(grid[best-1], grid[best+1], func(f float64) float64 { return -mag(f) })
+	res.PeakOhm = mag(res.Hz)
+	if res.PeakOhm < zs[best] {
+		res.Hz, res.PeakOhm = grid[best], zs[best]
+	}
+	edge := res.PeakOhm / math.Sqrt2
+	side := func(dir int) (float64, bool) {
+		for j := best + dir; j >= 0 && j < len(grid); j += dir {
+			if zs[j] < edge {
+				in, out := grid[j-dir], grid[j]
+				if j-dir == best {
+					in = res.Hz
+				}
+				for range 40 {
+					mid := math.Sqrt(in * out)
+					if mag(mid) < edge {
+						out = mid
+					} else {
+						in = mid
+					}
+				}
+				return math.Sqrt(in * out), true
+			}
+		}
+		return 0, false
+	}
+	f1, ok1 := side(-1)
+	f2, ok2 := side(+1)
+	if ok1 && ok2 && f2 > f1 {
+		res.Found = true
+		res.BandwidthHz = f2 - f1
+		res.LoadedQ = res.Hz / res.BandwidthHz
+	}
+	return res, nil
+}
+
+// Resonances resonates every tank of c in r, in Tanks' order.
+func Resonances(c *circuit.Circuit, topo *topology.Topology, r *ac.Result) ([]Tank, []Resonance, error) {
+	tanks := Tanks(c, topo)
+	out := make([]Resonance, len(tanks))
+	for i, t := range tanks {
+		var err error
+		if out[i], err = Resonate(r, t); err != nil {
+			return tanks, out, err
+		}
+	}
+	return tanks, slices.Clip(out), nil
+}
