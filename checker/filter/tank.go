@@ -15,8 +15,8 @@ import (
 // across it (the ends of a rail count as one: a capacitor from the collector
 // to gnd is across an inductor from the collector to the supply).
 type Tank struct {
-	Ref     string   // the inductor or transformer
-	Winding string   // the winding's name, "" for an inductor
+	Ref     string // the inductor or transformer
+	Winding string // the winding's name, "" for an inductor
 	Nets    [2]string
 	Caps    []string // the capacitors across it, file order
 	L, C    float64  // nominal inductance and the capacitors' sum, H and F
