@@ -133,7 +133,7 @@ func (ld *loader) circuitTable(root *tomlfile.Table) {
 	}
 	c := ld.c
 	c.Pos = ld.pos(t.Pos)
-	t.Allow("name", "band", "ambient", "library")
+	t.Allow("name", "band", "ambient", "library", "reject")
 	if name, ok := t.String("name", true); ok {
 		if strings.TrimSpace(name) == "" {
 			t.Errorf(t.ValPos("name"), "[circuit] name: must not be empty")
@@ -167,11 +167,40 @@ func (ld *loader) circuitTable(root *tomlfile.Table) {
 			c.Ambient = Ambient{Nominal: v, Lo: v, Hi: v}
 		}
 	}
+	ld.rejects(t)
 	if libs, ok := t.Strings("library"); ok {
 		c.Libraries = libs
 		for i := range libs {
 			ld.libPos = append(ld.libPos, t.ElemPos("library", i))
 		}
+	}
+}
+
+// rejects reads reject = [{ freq = "7MHz", min_db = 40 }, ...]: each
+// frequency must lie outside the band, where a filter is meant to pass.
+func (ld *loader) rejects(t *tomlfile.Table) {
+	if !t.Has("reject") {
+		return
+	}
+	band := ld.c.Band
+	for _, e := range t.TableArray("reject", func(i int) string { return fmt.Sprintf("[circuit] reject[%d]", i) }) {
+		e.Allow("freq", "min_db")
+		r := Reject{Pos: ld.pos(e.Pos)}
+		if !e.Has("freq") {
+			e.Missing("freq", `(the frequency to stop, as in { freq = "7MHz", min_db = 40 })`)
+		} else if f, ok := e.Quantity("freq", quantity.Hertz, tomlfile.Positive); ok {
+			r.Freq, r.Pos = f, ld.pos(e.ValPos("freq"))
+			if band[1] > 0 && f >= band[0] && f <= band[1] {
+				e.Errorf(e.ValPos("freq"), "%s freq: %s lies inside the band %s to %s, which a filter passes; a rejection frequency must lie outside it",
+					e.What, quantity.Format(f, quantity.Hertz), quantity.Format(band[0], quantity.Hertz), quantity.Format(band[1], quantity.Hertz))
+			}
+		}
+		if !e.Has("min_db") {
+			e.Missing("min_db", `(the least loss wanted there, as in min_db = 40)`)
+		} else if v, ok := e.Quantity("min_db", quantity.Decibel, tomlfile.Positive); ok {
+			r.MinDB = v
+		}
+		ld.c.Rejects = append(ld.c.Rejects, r)
 	}
 }
 

@@ -52,12 +52,23 @@ type Circuit struct {
 	Parts     []*Part   // file order
 	Waivers   []*Waiver // file order
 	Pos       Pos       // the [circuit] table header
+	// Rejects are the frequencies a filter must stop ([circuit] reject,
+	// docs/filters.md), file order; read-only, shared by clones.
+	Rejects []Reject
 
 	// Library is the merged library the parts were resolved against (shipped,
 	// then the rule set's, then the circuit's own): fixes that change a
 	// transistor look here, and core.frequency finds a core's f_range here.
 	// Shared, read-only.
 	Library *library.Library
+}
+
+// Reject is one frequency, outside the band, where the insertion loss must
+// be at least MinDB.
+type Reject struct {
+	Freq  float64 // Hz
+	MinDB float64 // dB, > 0
+	Pos   Pos     // the entry's freq value
 }
 
 // Ambient is the ambient temperature in °C: a nominal value and the range the
