@@ -14,8 +14,9 @@ import (
 // WindingReactance checks that a broadband transformer's magnetising
 // reactance stays large against what it works into at the bottom of the band.
 var WindingReactance = &engine.Rule{
-	ID:       "winding.reactance",
-	FixMoves: []string{engine.MoveGain}, // its fix restores the gain the part costs
+	ID:              "winding.reactance",
+	NeedsTransistor: true,
+	FixMoves:        []string{engine.MoveGain}, // its fix restores the gain the part costs
 	Doc: engine.Doc{
 		Title: "a transformer's loaded winding must have ample reactance at the lowest band frequency",
 		Why: "The magnetising inductance shunts the signal path. With the winding's reactance four times the impedance it " +

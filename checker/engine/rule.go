@@ -48,6 +48,9 @@ type Rule struct {
 	// amplifier's coupling, bypass, decoupling and chokes, stability): a
 	// circuit without one (a passive filter) is not judged by it.
 	NeedsTransistor bool
+	// PassiveOnly marks a rule whose items exist only in a circuit without
+	// a transistor (the filter rules): an amplifier is not judged by it.
+	PassiveOnly bool
 }
 
 // The measures a fix may be meant to move (Rule.FixMoves).
