@@ -2,6 +2,7 @@ package rules
 
 import (
 	"fmt"
+	"math"
 
 	"headroom/checker/analysis"
 	"headroom/checker/engine"
@@ -78,7 +79,7 @@ func runFilterPassband(p *engine.Pass) error {
 					}
 					b, err := filter.Band(cs.Circuit, cs.AC)
 					return figure(b), err == nil
-				}, quantity.Decibel), nil
+				}, quantity.Decibel, 0), nil
 			}
 		}
 		p.Report(f)
@@ -90,16 +91,24 @@ func runFilterPassband(p *engine.Pass) error {
 func db(v float64) string { return quantity.Approx(quantity.Round(v, 3), quantity.Decibel) }
 
 // filterAdvice says where the passband sits in the case judged and which
-// parts' tolerances move the figure most.
-func filterAdvice(p *engine.Pass, figure func(*analysis.Case) (float64, bool), u quantity.Unit) string {
+// parts' tolerances move the figure most; with short > 0 (the figure's
+// shortfall), it says when no single tolerance could make it up.
+func filterAdvice(p *engine.Pass, figure func(*analysis.Case) (float64, bool), u quantity.Unit, short float64) string {
 	c := p.Circuit
 	var s string
 	if shape, err := filter.Measure(c, p.A.AC); err == nil && shape.Found {
 		s = fmt.Sprintf("In the case judged the passband is centred at %s with a 3 dB bandwidth of %s (the band is %s to %s, centre %s). ",
 			hz(shape.CenterHz), hz(shape.BandwidthHz), hz(c.Band[0]), hz(c.Band[1]), hz(c.BandCentre()))
 	}
-	if t := spreadText(spread(p.Circuit, p.NominalCircuit, figure), u, 3); t != "" {
-		s += t + ": make the first adjustable (a trimmer) or of closer tolerance"
+	ms := spread(p.Circuit, p.NominalCircuit, figure)
+	if t := spreadText(ms, u, 3); t != "" {
+		s += t
+		if short > 0 && math.Abs(ms[0].delta) < short {
+			s += fmt.Sprintf("; no one tolerance makes up the %s missing: more resonators, a narrower passband or "+
+				"higher-Q parts", quantity.Approx(quantity.Round(short, 3), u))
+		} else {
+			s += ": make the first adjustable (a trimmer) or of closer tolerance"
+		}
 	} else {
 		s += "No part's tolerance moves it: change the design (resonator Q, coupling, or end loading)"
 	}

@@ -34,6 +34,7 @@ func runFilterRejection(p *engine.Pass) error {
 		return nil
 	}
 	for _, r := range c.Rejects {
+		r := r
 		pts, err := filter.Response(p.A.AC, []float64{r.Freq})
 		if err != nil {
 			return nil
@@ -51,7 +52,7 @@ func runFilterRejection(p *engine.Pass) error {
 					}
 					q, err := filter.Response(cs.AC, []float64{freq})
 					return q[0].InsertionLossDB, err == nil
-				}, quantity.Decibel), nil
+				}, quantity.Decibel, r.MinDB-f.Measured), nil
 			}
 		}
 		p.Report(f)

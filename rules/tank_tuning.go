@@ -18,7 +18,8 @@ import (
 // band with the loading it actually sees.
 var TankTuning = &engine.Rule{
 	ID:              "tank.tuning",
-	NeedsTransistor: true, // a filter's tanks are judged through filter.passband
+	NeedsTransistor: true,                      // a filter's tanks are judged through filter.passband
+	FixMoves:        []string{engine.MoveGain}, // retuning a tank restores the band gain by design
 	Doc: engine.Doc{
 		Title: "a tank must resonate inside the band, with its loading",
 		Why: "A tuned circuit passes its band only near resonance: a collector tank a fraction of a megahertz off " +
