@@ -8,6 +8,7 @@ import (
 
 	"headroom/checker/ac"
 	"headroom/checker/circuit"
+	"headroom/checker/topology"
 )
 
 // coupled builds a top-C coupled band-pass filter of shunt resonators from
@@ -148,5 +149,56 @@ func TestButterworthDesignVector(t *testing.T) {
 		if cohn := 4.343 * 4 * 20 / tc.qu; math.Abs(cohn-tc.cohn) > 0.001 {
 			t.Errorf("Cohn estimate %.4f, reference %.3f", cohn, tc.cohn)
 		}
+	}
+}
+
+// A parallel RLC tank: |Z| peaks at f0 = 1/(2π√(LC)) and falls to 1/√2 of the
+// peak at two frequencies exactly 1/(2π·R·C) apart, so Q = R/X0 (Bowick, RF
+// Circuit Design, eq. 2-1 and 2-6; the parallel RLC's half-power bandwidth
+// is exact, not a high-Q approximation). 1 µH, 100 pF, 10 kΩ: f0 15.9155 MHz,
+// X0 100 Ω, Q 100, bandwidth 159.155 kHz. The capacitor sits on the supply
+// rail, which Tanks counts as the inductor's gnd end.
+func TestParallelTank(t *testing.T) {
+	src := `[circuit]
+name = "tank"
+band = ["15MHz", "17MHz"]
+
+[supplies.vcc]
+volts = "12V"
+
+[parts.L1]
+kind = "inductor"
+value = "1uH"
+nets = ["a", "gnd"]
+role = "tuning"
+
+[parts.C1]
+kind = "capacitor"
+value = "100pF"
+nets = ["a", "vcc"]
+
+[parts.R1]
+kind = "resistor"
+value = "10k"
+nets = ["a", "gnd"]
+`
+	c, r := analyse(t, src)
+	tanks := Tanks(c, topology.Analyze(c))
+	if len(tanks) != 1 || tanks[0].Ref != "L1" || len(tanks[0].Caps) != 1 || tanks[0].Caps[0] != "C1" {
+		t.Fatalf("tanks %+v, want L1 with C1", tanks)
+	}
+	res, err := Resonate(r, tanks[0])
+	if err != nil || !res.Found {
+		t.Fatalf("resonance %+v, %v", res, err)
+	}
+	f0 := 1 / (2 * math.Pi * math.Sqrt(1e-6*100e-12))
+	if math.Abs(res.Hz-f0)/f0 > 1e-6 {
+		t.Errorf("resonance %.6f MHz, want %.6f", res.Hz/1e6, f0/1e6)
+	}
+	if bw := 1 / (2 * math.Pi * 10e3 * 100e-12); math.Abs(res.BandwidthHz-bw)/bw > 1e-5 {
+		t.Errorf("bandwidth %.4f kHz, want %.4f", res.BandwidthHz/1e3, bw/1e3)
+	}
+	if math.Abs(res.LoadedQ-100) > 1e-3 {
+		t.Errorf("loaded Q %.5f, want 100", res.LoadedQ)
 	}
 }
