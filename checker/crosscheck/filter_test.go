@@ -35,7 +35,7 @@ func refLoss(c *circuit.Circuit, f float64) (float64, error) {
 	y := make([][]complex128, n)
 	for i := range y {
 		y[i] = make([]complex128, n+1) // the last column is the right-hand side
-		y[i][i] += 1e-12                // Gmin, as the model has it
+		y[i][i] += 1e-12               // Gmin, as the model has it
 	}
 	node := func(net string) int {
 		if net == circuit.Gnd {
