@@ -230,12 +230,15 @@ func crossing(grid []float64, pts []Point, i, dir int, edge float64, above func(
 
 // golden finds the minimum of g on [a, b] by golden-section search on a log
 // scale of frequency.
-func golden(a, b float64, g func(float64) float64) float64 {
+func golden(a, b float64, g func(float64) float64) float64 { return goldenN(a, b, 60, g) }
+
+// goldenN is golden with n steps, each shrinking the bracket by 0.618.
+func goldenN(a, b float64, n int, g func(float64) float64) float64 {
 	la, lb := math.Log(a), math.Log(b)
 	phi := (math.Sqrt(5) - 1) / 2
 	c, d := lb-phi*(lb-la), la+phi*(lb-la)
 	gc, gd := g(math.Exp(c)), g(math.Exp(d))
-	for range 60 {
+	for range n {
 		if gc < gd {
 			lb, d, gd = d, c, gc
 			c = lb - phi*(lb-la)

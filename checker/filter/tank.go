@@ -103,7 +103,7 @@ func Resonate(r *ac.Result, t Tank) (Resonance, error) {
 		}
 		return cmplx.Abs(z)
 	}
-	grid := LogGrid(f0/4, f0*4, 97)
+	grid := LogGrid(f0/4, f0*4, 41) // steps of 7 %: a loaded Q below about 7 is still seen as a peak
 	zs := make([]float64, len(grid))
 	best := 0
 	for i, f := range grid {
@@ -118,7 +118,7 @@ func Resonate(r *ac.Result, t Tank) (Resonance, error) {
 	if best == 0 || best == len(grid)-1 {
 		return res, nil // the impedance rises to the end of the search: no peak
 	}
-	res.Hz = golden(grid[best-1], grid[best+1], func(f float64) float64 { return -mag(f) })
+	res.Hz = goldenN(grid[best-1], grid[best+1], 36, func(f float64) float64 { return -mag(f) })
 	res.PeakOhm = mag(res.Hz)
 	if res.PeakOhm < zs[best] {
 		res.Hz, res.PeakOhm = grid[best], zs[best]
@@ -131,7 +131,7 @@ func Resonate(r *ac.Result, t Tank) (Resonance, error) {
 				if j-dir == best {
 					in = res.Hz
 				}
-				for range 40 {
+				for range 24 { // the step of 7 % down to about 4e-9
 					mid := math.Sqrt(in * out)
 					if mag(mid) < edge {
 						out = mid
