@@ -200,7 +200,8 @@ func (p *Part) Inductance() float64 {
 // QLoss is the series resistance that gives a reactance of inductance l (H,
 // capacitance 0) or capacitance c (F, inductance 0) the part's unloaded Q:
 // R = ω·L/Q or 1/(ω·C·Q), ω = 2π·QFreq, or 2π times centre (the band's
-// geometric centre, Hz) when QFreq is 0. It is 0 without a Q.
+// geometric centre, Hz) when QFreq is 0. It is 0 without a Q, and at most
+// maxQLoss.
 func (p *Part) QLoss(l, c, centre float64) float64 {
 	if !(p.Q > 0) || math.IsInf(p.Q, 0) {
 		return 0
@@ -216,11 +217,15 @@ func (p *Part) QLoss(l, c, centre float64) float64 {
 	} else if c > 0 {
 		r = 1 / (w * c * p.Q)
 	}
-	if math.IsInf(r, 0) || math.IsNaN(r) {
+	if math.IsNaN(r) {
 		return 0
 	}
-	return r
+	return math.Min(r, maxQLoss)
 }
+
+// maxQLoss caps QLoss where a Q near zero (or a value near the float limits)
+// would make it overflow: 1e15 Ω is an open circuit to every analysis.
+const maxQLoss = 1e15
 
 // BandCentre is the geometric centre √(lo·hi) of the band, Hz.
 func (c *Circuit) BandCentre() float64 { return math.Sqrt(c.Band[0] * c.Band[1]) }
