@@ -26,7 +26,8 @@ var TankTuning = &engine.Rule{
 			"costs gain at one band edge, and one tuned to another band leaves the stage with a fraction of the gain " +
 			"it was designed for, with nothing else to show for it. The loading (the transistor, the transformer's " +
 			"load, the bias parts) pulls the resonance and lowers the Q, so the tank is judged in the circuit, not alone.",
-		Formula: "for each tank (an inductor of role tuning, or a transformer winding, with a capacitor across it; a rail " +
+		Formula: "in a circuit with a transistor (a filter's resonators are judged by filter.passband), for each tank " +
+			"(an inductor of role tuning, or a transformer winding, with a capacitor across it; a rail " +
 			"counts as gnd): the frequency where |Z| between its nets, the whole circuit in place, is greatest, searched " +
 			"from a quarter to four times 1/(2π√(LC)); it must be >= the band's lowest frequency − slack × BW (bound " +
 			"\"low\") and <= its highest + slack × BW (bound \"high\"), BW the tank's loaded 3 dB bandwidth (0 when its " +
@@ -34,10 +35,11 @@ var TankTuning = &engine.Rule{
 		Source: "f0 = 1/(2π√(LC)) and Q = f0/BW (C. Bowick, RF Circuit Design, 2nd ed., ch. 2, eq. 2-1 and p.26–27); " +
 			"judging in the circuit with its loading and at every corner, and the slack (a single tuned circuit a quarter " +
 			"of its bandwidth off is down 10·log10(1 + 0.5²) = 0.97 dB at the nearer band edge): common practice, no published source",
-		Fix: "The tank capacitance that centres the resonance (geometric band centre) at the case judged, with the " +
-			"loading's own capacitance kept, as a nominal preferred value of the tank's largest capacitor; or the whole " +
-			"turns that do; and, when no fixed value holds at every corner, a fixed capacitor with a trimmer range that " +
-			"covers the inductor's and capacitor's tolerances. The parts are ranked by how far their tolerance moves the resonance.",
+		Fix: "The capacitance that brings the nominal resonance (its loading kept) to the band's geometric centre, " +
+			"as a preferred value of the tank's largest capacitor, or the whole turns that do; when the tolerances still " +
+			"carry a corner out of the band, the capacitance range needed there and a fixed capacitor with a common " +
+			"trimmer range that covers it (a tank with a trimmer is set on the bench: waive the rule for it with that " +
+			"reason). The parts are ranked by how far their tolerance moves the resonance.",
 		Params: []engine.Param{
 			{Name: "slack", Unit: quantity.Ratio, Help: "how far outside the band the resonance may lie, in loaded 3 dB bandwidths"},
 		},
