@@ -29,7 +29,7 @@ var TankTuning = &engine.Rule{
 		Formula: "in a circuit with a transistor (a filter's resonators are judged by filter.passband), for each tank " +
 			"(an inductor of role tuning, or a transformer winding, with a capacitor across it; a rail " +
 			"counts as gnd): the frequency where |Z| between its nets, the whole circuit in place, is greatest, searched " +
-			"from a quarter to four times 1/(2π√(LC)); it must be >= the band's lowest frequency − slack × BW (bound " +
+			"within a factor 1.5 of 1/(2π√(LC)), else from a quarter to four times it; it must be >= the band's lowest frequency − slack × BW (bound " +
 			"\"low\") and <= its highest + slack × BW (bound \"high\"), BW the tank's loaded 3 dB bandwidth (0 when its " +
 			"3 dB points are not found); unit Hz. Loaded Q = f_res ÷ BW.",
 		Source: "f0 = 1/(2π√(LC)) and Q = f0/BW (C. Bowick, RF Circuit Design, 2nd ed., ch. 2, eq. 2-1 and p.26–27); " +

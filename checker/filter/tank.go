@@ -84,8 +84,9 @@ type Resonance struct {
 	Hz, LoadedQ, BandwidthHz float64
 	PeakOhm                  float64 // |Z| at Hz
 	// Found is false when no peak lies within a factor of 4 of the tank's
-	// own 1/(2π√(LC)), or its 3 dB points were not both found (LoadedQ and
-	// BandwidthHz are then 0).
+	// own 1/(2π√(LC)) (the peak nearest it is taken: within a factor 1.5
+	// when there is one), or its 3 dB points were not both found (LoadedQ
+	// and BandwidthHz are then 0).
 	Found bool
 }
 
@@ -103,22 +104,37 @@ func Resonate(r *ac.Result, t Tank) (Resonance, error) {
 		}
 		return cmplx.Abs(z)
 	}
-	grid := LogGrid(f0/4, f0*4, 41) // steps of 7 %: a loaded Q below about 7 is still seen as a peak
-	zs := make([]float64, len(grid))
+	// First within a factor 1.5 of the tank's own resonance (the loading
+	// seldom pulls it further), then, when the impedance still rises at an
+	// end, from a quarter to four times it; steps of 7 % either way, so a
+	// loaded Q down to about 7 shows as a peak between grid points.
+	var grid, zs []float64
 	best := 0
-	for i, f := range grid {
-		zs[i] = mag(f)
-		if math.IsNaN(zs[i]) {
-			return res, fmt.Errorf("tank %s: no impedance at %g Hz", t.Key(), f)
+	for _, span := range []struct {
+		k float64
+		n int
+	}{{1.5, 13}, {4, 41}} {
+		grid = LogGrid(f0/span.k, f0*span.k, span.n)
+		zs = make([]float64, len(grid))
+		best = 0
+		for i, f := range grid {
+			zs[i] = mag(f)
+			if math.IsNaN(zs[i]) {
+				return res, fmt.Errorf("tank %s: no impedance at %g Hz", t.Key(), f)
+			}
+			if zs[i] > zs[best] {
+				best = i
+			}
 		}
-		if zs[i] > zs[best] {
-			best = i
+		if best > 0 && best < len(grid)-1 {
+			break
 		}
 	}
 	if best == 0 || best == len(grid)-1 {
 		return res, nil // the impedance rises to the end of the search: no peak
 	}
-	res.Hz = goldenN(grid[best-1], grid[best+1], 36, func(f float64) float64 { return -mag(f) })
+	// 27 golden steps take the 14 % bracket to about 3e-7.
+	res.Hz = goldenN(grid[best-1], grid[best+1], 27, func(f float64) float64 { return -mag(f) })
 	res.PeakOhm = mag(res.Hz)
 	if res.PeakOhm < zs[best] {
 		res.Hz, res.PeakOhm = grid[best], zs[best]
@@ -131,7 +147,7 @@ func Resonate(r *ac.Result, t Tank) (Resonance, error) {
 				if j-dir == best {
 					in = res.Hz
 				}
-				for range 24 { // the step of 7 % down to about 4e-9
+				for range 26 { // the step of 7 % down to about 1e-9: the bandwidth of a Q of 1000 to 1e-6
 					mid := math.Sqrt(in * out)
 					if mag(mid) < edge {
 						out = mid
