@@ -202,3 +202,28 @@ nets = ["a", "gnd"]
 		t.Errorf("loaded Q %.5f, want 100", res.LoadedQ)
 	}
 }
+
+// In a filter each resonator is resonated with the others shorted (Dishal's
+// alignment): the design vector's nodes all ring at 7.1 MHz (C_node 502.49 pF
+// with 1 µH), the end resonators with the termination's loaded Q, q·Q_BW =
+// 1 × 20 (892.21 Ω over X0 = 44.611 Ω, REFERENCES-2.md §4.2), and the
+// middle one, with inductors of Q_U 200 and nothing else to load it, at
+// Q 200 (a series-loss Q converts to the parallel form as (Q² + 1)/Q: 200.005).
+func TestDishalResonances(t *testing.T) {
+	const f0 = 7.1e6
+	src := coupled(f0, 355e3, 1e-6, 0, 1, 1, []float64{0.7071, 0.7071})
+	src = strings.ReplaceAll(src, "role = \"tuning\"\n\n[parts.C2]", fmt.Sprintf("role = \"tuning\"\nq = 200\nq_freq = %g\n\n[parts.C2]", f0))
+	c, r := analyse(t, src)
+	tanks, res, err := Resonances(c, topology.Analyze(c), r)
+	if err != nil || len(tanks) != 3 {
+		t.Fatalf("%d tanks, %v", len(tanks), err)
+	}
+	for i, want := range []float64{20, 200, 20} {
+		if math.Abs(res[i].Hz-f0)/f0 > 2e-4 {
+			t.Errorf("%s: resonance %.5f MHz, want 7.1", tanks[i].Key(), res[i].Hz/1e6)
+		}
+		if !res[i].Found || math.Abs(res[i].LoadedQ-want)/want > 2e-3 {
+			t.Errorf("%s: loaded Q %.4f, want %g", tanks[i].Key(), res[i].LoadedQ, want)
+		}
+	}
+}

@@ -170,15 +170,52 @@ func Resonate(r *ac.Result, t Tank) (Resonance, error) {
 	return res, nil
 }
 
-// Resonances resonates every tank of c in r, in Tanks' order.
+// Resonances resonates every tank of c in r, in Tanks' order. In a filter
+// (Is) the resonators pull each other and the impedance across one has a
+// peak for every pole, so each is resonated as a coupled-resonator filter is
+// aligned (M. Dishal, Proc. IRE 1949): with every other tank's ends shorted
+// (a 1 mΩ resistor from each of its nets to gnd). A resonator then rings at
+// its node frequency, and an end resonator's loaded Q is the end Q_E = q·Q_BW
+// of the k–q design tables.
 func Resonances(c *circuit.Circuit, topo *topology.Topology, r *ac.Result) ([]Tank, []Resonance, error) {
 	tanks := Tanks(c, topo)
 	out := make([]Resonance, len(tanks))
+	passive := Is(c)
 	for i, t := range tanks {
+		rt := r
+		if passive {
+			var err error
+			if rt, err = shorted(c, tanks, i); err != nil {
+				return tanks, out, err
+			}
+		}
 		var err error
-		if out[i], err = Resonate(r, t); err != nil {
+		if out[i], err = Resonate(rt, t); err != nil {
 			return tanks, out, err
 		}
 	}
 	return tanks, slices.Clip(out), nil
+}
+
+// shorted analyses c with every tank but tanks[keep] shorted to gnd.
+func shorted(c *circuit.Circuit, tanks []Tank, keep int) (*ac.Result, error) {
+	d := c.Clone()
+	done := map[string]bool{circuit.Gnd: true}
+	for _, n := range tanks[keep].Nets {
+		done[n] = true // never short the tank judged
+	}
+	for j, t := range tanks {
+		if j == keep {
+			continue
+		}
+		for _, n := range t.Nets {
+			if done[n] || c.Supply(n) != nil {
+				continue
+			}
+			done[n] = true
+			d.Parts = append(d.Parts, &circuit.Part{Ref: fmt.Sprintf("short-%d-%s", j, n), Kind: circuit.Resistor,
+				Value: 1e-3, Nets: []string{n, circuit.Gnd}})
+		}
+	}
+	return ac.Analyze(d, nil)
 }

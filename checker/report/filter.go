@@ -53,7 +53,11 @@ func (r *Report) filterTables() []table {
 	ff := r.filterData()
 	var ts []table
 	if len(ff.tanks) > 0 {
-		tt := table{title: "Tanks (resonance with the loading each sees)",
+		title := "Tanks (resonance with the loading each sees)"
+		if ff.isFilter {
+			title = "Resonators (each with the others shorted, as a filter is aligned)"
+		}
+		tt := table{title: title,
 			header: []string{"tank", "capacitors", "L", "C", "resonance", "loaded Q", "3 dB bandwidth"}}
 		for i, t := range ff.tanks {
 			res := ff.res[i]
