@@ -5,6 +5,7 @@ import (
 	"math"
 	"strconv"
 	"strings"
+	"sync"
 
 	"headroom/checker/analysis"
 	"headroom/checker/circuit"
@@ -70,8 +71,9 @@ func runTankTuning(p *engine.Pass) error {
 			side := b.side
 			f.MessageLater = func() string { return tankMessage(t, res, side, b.limit) }
 			if engine.Fails(res.Hz, b.limit, b.cmp) {
-				f.FixLater = func() (string, []engine.Change) { return tankAdvice(p, t, res), nil }
-				f.FixForms = func() []engine.FixForm { return tankForms(p, t) }
+				rank := sync.OnceValue(func() string { return tankRanking(p, t) }) // costly: once for every form
+				f.FixLater = func() (string, []engine.Change) { return tankAdvice(p, t, res, rank), nil }
+				f.FixForms = func() []engine.FixForm { return tankForms(p, t, rank) }
 			}
 			p.Report(f)
 		}
@@ -136,7 +138,7 @@ func measureTank(c *circuit.Circuit, t filter.Tank, res filter.Resonance) (tankA
 // nominal tank (its loading kept) at the band's geometric centre. The
 // tolerances may still carry a corner out of the band: the whole-circuit
 // check then refuses the form and the advice (a trimmer) stands.
-func tankForms(p *engine.Pass, t filter.Tank) []engine.FixForm {
+func tankForms(p *engine.Pass, t filter.Tank, rank func() string) []engine.FixForm {
 	nom := p.Nominal
 	if nom == nil || nom.AC == nil {
 		return nil
@@ -152,7 +154,7 @@ func tankForms(p *engine.Pass, t filter.Tank) []engine.FixForm {
 	}
 	fc := c.BandCentre()
 	wc := 2 * math.Pi * fc
-	ranking := tankRanking(p, t)
+	ranking := rank()
 	var forms []engine.FixForm
 	if need := 1/(wc*wc*a.l) - a.extra - a.others; need > 0 {
 		v := eseries.Nearest(need, eseries.ForTolerance(a.big.Tolerance))
@@ -193,17 +195,17 @@ var trimmers = [][2]float64{{2e-12, 10e-12}, {4e-12, 20e-12}, {5e-12, 30e-12}, {
 // tankAdvice is the fix without changes: the capacitance that centres the
 // tank, and the fixed capacitor and trimmer that hold it in tune across the
 // inductor's and capacitors' tolerances.
-func tankAdvice(p *engine.Pass, t filter.Tank, res filter.Resonance) string {
+func tankAdvice(p *engine.Pass, t filter.Tank, res filter.Resonance, rank func() string) string {
 	a, ok := measureTank(p.Circuit, t, res)
 	if !ok {
-		return "Retune the tank to the band centre" + tankRanking(p, t)
+		return "Retune the tank to the band centre" + rank()
 	}
 	fc := p.Circuit.BandCentre()
 	wc := 2 * math.Pi * fc
 	need := 1/(wc*wc*a.l) - a.extra - a.others
 	if !(need > 0) {
 		return fmt.Sprintf("%s cannot be brought to %s with capacitance alone (the loading already holds %s); "+
-			"reduce the inductance%s", t.Key(), hz(fc), quantity.Approx(a.extra, quantity.Farad), tankRanking(p, t))
+			"reduce the inductance%s", t.Key(), hz(fc), quantity.Approx(a.extra, quantity.Farad), rank())
 	}
 	// The spread the trimmer must cover: the inductor at either end of its
 	// tolerance and the fixed capacitor at either end of its own.
@@ -230,7 +232,7 @@ func tankAdvice(p *engine.Pass, t filter.Tank, res filter.Resonance) string {
 			break
 		}
 	}
-	return text + tankRanking(p, t)
+	return text + rank()
 }
 
 // inductorTolerance is the spread of a tank inductor's inductance: AL's for
