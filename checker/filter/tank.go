@@ -106,32 +106,46 @@ func Resonate(r *ac.Result, t Tank) (Resonance, error) {
 	}
 	// First within a factor 1.5 of the tank's own resonance (the loading
 	// seldom pulls it further), then, when the impedance still rises at an
-	// end, from a quarter to four times it; steps of 7 % either way, so a
-	// loaded Q down to about 7 shows as a peak between grid points.
-	var grid, zs []float64
-	best := 0
+	// end or a 3 dB point lies beyond (a loaded Q below about 2), from a
+	// quarter to four times it; steps of 7 % either way, so a loaded Q down
+	// to about 7 shows as a peak between grid points.
+	var err error
 	for _, span := range []struct {
 		k float64
 		n int
 	}{{1.5, 13}, {4, 41}} {
-		grid = LogGrid(f0/span.k, f0*span.k, span.n)
-		zs = make([]float64, len(grid))
-		best = 0
-		for i, f := range grid {
-			zs[i] = mag(f)
-			if math.IsNaN(zs[i]) {
-				return res, fmt.Errorf("tank %s: no impedance at %g Hz", t.Key(), f)
-			}
-			if zs[i] > zs[best] {
-				best = i
-			}
+		var peak bool
+		var got Resonance
+		if got, peak, err = resonateOver(mag, LogGrid(f0/span.k, f0*span.k, span.n)); err != nil {
+			return res, fmt.Errorf("tank %s: %w", t.Key(), err)
 		}
-		if best > 0 && best < len(grid)-1 {
+		if peak && (got.Found || !res.Found) {
+			res = got
+		}
+		if res.Found {
 			break
 		}
 	}
+	return res, nil
+}
+
+// resonateOver finds the greatest of mag on grid, refines it by golden
+// section, and finds the 1/√2 points either side by bisection; peak is
+// false when mag is greatest at an end of the grid.
+func resonateOver(mag func(float64) float64, grid []float64) (res Resonance, peak bool, err error) {
+	zs := make([]float64, len(grid))
+	best := 0
+	for i, f := range grid {
+		zs[i] = mag(f)
+		if math.IsNaN(zs[i]) {
+			return res, false, fmt.Errorf("no impedance at %g Hz", f)
+		}
+		if zs[i] > zs[best] {
+			best = i
+		}
+	}
 	if best == 0 || best == len(grid)-1 {
-		return res, nil // the impedance rises to the end of the search: no peak
+		return res, false, nil // the impedance rises to the end of the search: no peak
 	}
 	// 27 golden steps take the 14 % bracket to about 3e-7.
 	res.Hz = goldenN(grid[best-1], grid[best+1], 27, func(f float64) float64 { return -mag(f) })
@@ -167,7 +181,7 @@ func Resonate(r *ac.Result, t Tank) (Resonance, error) {
 		res.BandwidthHz = f2 - f1
 		res.LoadedQ = res.Hz / res.BandwidthHz
 	}
-	return res, nil
+	return res, true, nil
 }
 
 // Resonances resonates every tank of c in r, in Tanks' order. In a filter
