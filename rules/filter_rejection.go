@@ -40,7 +40,7 @@ func runFilterRejection(p *engine.Pass) error {
 			return nil
 		}
 		freq := r.Freq
-		f := engine.Finding{Part: "reject-" + quantity.Code(freq, quantity.Hertz), Pos: r.Pos, AtHz: freq, HasMetric: true,
+		f := engine.Finding{Part: r.Name(), Pos: r.Pos, AtHz: freq, HasMetric: true,
 			Measured: pts[0].InsertionLossDB, Limit: r.MinDB, Comparison: ">=", Unit: "dB",
 			Message: fmt.Sprintf("the filter loses %s at %s, which it must stop by at least %s",
 				db(pts[0].InsertionLossDB), hz(freq), db(r.MinDB))}

@@ -176,6 +176,9 @@ func (ld *loader) circuitTable(root *tomlfile.Table) {
 	}
 }
 
+// Name is what findings about the rejection call it: "reject-14.2MHz".
+func (r Reject) Name() string { return "reject-" + quantity.Code(r.Freq, quantity.Hertz) }
+
 // rejects reads reject = [{ freq = "7MHz", min_db = 40 }, ...]: each
 // frequency must lie outside the band, where a filter is meant to pass.
 func (ld *loader) rejects(t *tomlfile.Table) {
@@ -810,6 +813,12 @@ func (ld *loader) waivers(root *tomlfile.Table) {
 	names := map[string]bool{}
 	for _, p := range ld.c.Parts {
 		names[p.Ref] = true
+		for _, w := range p.Windings {
+			names[p.Ref+"."+w.Name] = true // a tuned winding's findings (tank.tuning)
+		}
+	}
+	for _, r := range ld.c.Rejects {
+		names[r.Name()] = true // filter.rejection's items
 	}
 	for _, p := range ld.c.Ports {
 		names[p.Name] = true
