@@ -3,6 +3,10 @@ package rules
 import (
 	"fmt"
 	"math"
+	"strings"
+
+	"headroom/checker/circuit"
+	"headroom/checker/eseries"
 
 	"headroom/checker/analysis"
 	"headroom/checker/engine"
@@ -13,7 +17,8 @@ import (
 // FilterPassband checks that a passive filter passes the whole band with
 // little loss and little ripple.
 var FilterPassband = &engine.Rule{
-	ID: "filter.passband",
+	ID:       "filter.passband",
+	FixMoves: []string{engine.MoveGain}, // retuning a filter moves its loss across the band by design
 	Doc: engine.Doc{
 		Title: "a filter must pass the band with little loss and ripple",
 		Why: "A band-pass filter in front of an amplifier adds its insertion loss to the noise figure and takes it " +
@@ -26,7 +31,9 @@ var FilterPassband = &engine.Rule{
 			"the finding reports the worse bound. Parts without a q are lossless, and the finding says so.",
 		Source: "insertion loss and transducer gain as in C. Bowick, RF Circuit Design, 2nd ed., ch. 2–3; the limits " +
 			"(3 dB, 1 dB): common practice, no published source",
-		Fix: "Advice: where the passband sits in the case judged (centre and 3 dB bandwidth), and the parts ranked by how " +
+		Fix: "When the nominal passband is off the band: every capacitor scaled by (f_centre/f_band)², to preferred values, " +
+			"which retunes a filter of fixed inductors and keeps its shape, offered when the whole circuit then passes. " +
+			"Advice: where the passband sits in the case judged (centre and 3 dB bandwidth), and the parts ranked by how " +
 			"far their tolerance moves the failing figure; make the first adjustable or of closer tolerance, or use " +
 			"higher-Q inductors when the loss is the resonators' own.",
 		Params: []engine.Param{
@@ -71,6 +78,7 @@ func runFilterPassband(p *engine.Pass) error {
 		f := engine.Finding{Bound: it.bound, AtHz: pb.Worst.Frequency, HasMetric: true,
 			Measured: it.measured, Limit: it.limit, Comparison: "<=", Unit: "dB", Message: it.msg}
 		if engine.Fails(it.measured, it.limit, "<=") {
+			f.FixForms = func() []engine.FixForm { return retune(p) }
 			figure := it.figure
 			f.FixLater = func() (string, []engine.Change) {
 				return filterAdvice(p, func(cs *analysis.Case) (float64, bool) {
@@ -113,4 +121,41 @@ func filterAdvice(p *engine.Pass, figure func(*analysis.Case) (float64, bool), u
 		s += "No part's tolerance moves it: change the design (resonator Q, coupling, or end loading)"
 	}
 	return s
+}
+
+// retune is the concrete fix for a filter whose nominal passband is off the
+// band: every capacitor scaled by (f_now/f_band)², which moves a filter of
+// fixed inductors to f_band and keeps its shape (each coupling and node
+// capacitance scales alike), each rounded to the nearest preferred value of
+// its tolerance. The whole-circuit check decides whether it is offered.
+func retune(p *engine.Pass) []engine.FixForm {
+	nom := p.Nominal
+	if nom == nil || nom.AC == nil {
+		return nil
+	}
+	shape, err := filter.Measure(nom.Circuit, nom.AC)
+	fb := nom.Circuit.BandCentre()
+	if err != nil || !shape.Found || math.Abs(shape.CenterHz/fb-1) < 0.002 {
+		return nil
+	}
+	k := (shape.CenterHz / fb) * (shape.CenterHz / fb)
+	var changes []engine.Change
+	var said []string
+	for _, part := range p.NominalCircuit.Parts {
+		if part.Kind != circuit.Capacitor || !(part.Value > 0) {
+			continue
+		}
+		v := eseries.Nearest(part.Value*k, eseries.ForTolerance(part.Tolerance))
+		if v == part.Value {
+			continue
+		}
+		changes = append(changes, engine.Change{Part: part.Ref, Key: "value", To: quantity.Code(v, quantity.Farad)})
+		said = append(said, part.Ref+" = "+quantity.Approx(v, quantity.Farad))
+	}
+	if len(changes) == 0 {
+		return nil
+	}
+	return []engine.FixForm{{Changes: changes, Text: fmt.Sprintf("retune: %s (every capacitor scaled by (%s/%s)² = %s, "+
+		"to preferred values) moves the nominal passband's centre from %s towards the band's", strings.Join(said, ", "),
+		hz(shape.CenterHz), hz(fb), quantity.Approx(quantity.Round(k, 4), quantity.Ratio), hz(shape.CenterHz))}}
 }
