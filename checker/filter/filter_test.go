@@ -237,7 +237,9 @@ func TestDishalResonances(t *testing.T) {
 //     Q_U 85: Xp 44.118 Ω, L 70.215 nH, C 36.075 pF; Q_L 10, BW 10 MHz.
 //     The inductor's Q is a fixed series resistance here, whose parallel
 //     form X²/R grows with f² across the 10 % bandwidth: the measured Q_L
-//     is 10 to 1e-3 (10.005), the book's narrowband figure.
+//     is 10 to 1e-3 (10.005), the book's narrowband figure, and the |Z| peak
+//     sits 5e-4 above 100 MHz (the loss falls with f: d ln Rp/d ln f = 2
+//     with Rp carrying 0.118 of the loading, over (2·Q_L)² = 400).
 func TestBowickTankExamples(t *testing.T) {
 	for _, tc := range []struct {
 		name             string
@@ -259,7 +261,7 @@ func TestBowickTankExamples(t *testing.T) {
 		if err != nil || len(tanks) != 1 || !res[0].Found {
 			t.Fatalf("%s: %v %v", tc.name, tanks, err)
 		}
-		if math.Abs(res[0].Hz-tc.f0)/tc.f0 > 1e-4 {
+		if math.Abs(res[0].Hz-tc.f0)/tc.f0 > 1e-3 {
 			t.Errorf("%s: resonance %.6g Hz, want %g", tc.name, res[0].Hz, tc.f0)
 		}
 		if math.Abs(res[0].LoadedQ-tc.ql)/tc.ql > 1e-3 {
