@@ -2,6 +2,7 @@ package check
 
 import (
 	"os"
+	"path/filepath"
 	"slices"
 	"testing"
 	"time"
@@ -17,33 +18,31 @@ import (
 // the two stability rules, in one run, and reports the ratio: what the
 // stability check adds to a worst-case check.
 func BenchmarkStabilityCost(b *testing.B) {
-	with, bare := ruleCost(b, "stability.oscillation", "stability.unconditional")
-	b.ReportMetric(float64(with)/float64(bare), "x-without-stability")
-	b.ReportMetric(float64(with-bare)/float64(b.N)/1e6, "ms-added")
+	ruleCost(b, "../../testdata/circuits/preamp-30m.toml", "x-without-stability", "stability.oscillation", "stability.unconditional")
 }
 
 // BenchmarkNoiseCost is the same for noise.figure (docs/noise.md): what the
 // noise analysis at every corner adds to a worst-case check.
 func BenchmarkNoiseCost(b *testing.B) {
-	with, bare := ruleCost(b, "noise.figure")
-	b.ReportMetric(float64(with)/float64(bare), "x-without-noise")
-	b.ReportMetric(float64(with-bare)/float64(b.N)/1e6, "ms-added")
+	ruleCost(b, "../../testdata/circuits/preamp-30m.toml", "x-without-noise", "noise.figure")
 }
 
-// ruleCost times the worst-case check of the README's example with every
-// rule and with every rule but those named, alternately in one run.
-func ruleCost(b *testing.B, leaveOut ...string) (with, bare time.Duration) {
-	src, err := os.ReadFile("../../testdata/circuits/preamp-30m.toml")
+// ruleCost times a worst-case check of the circuit at path with every rule
+// and with every rule but those named, in one run, and reports the ratio
+// (under metric) and the milliseconds the named rules add.
+func ruleCost(b *testing.B, path, metric string, ids ...string) {
+	src, err := os.ReadFile(path)
 	if err != nil {
 		b.Fatal(err)
 	}
 	all := rules.All()
 	var without []*engine.Rule
 	for _, r := range all {
-		if !slices.Contains(leaveOut, r.ID) {
+		if !slices.Contains(ids, r.ID) {
 			without = append(without, r)
 		}
 	}
+	name := filepath.Base(path)
 	time1 := func(b *testing.B, list []*engine.Rule) time.Duration {
 		set, err := (&ruleset.Loader{Rules: all}).Load("default")
 		if err != nil {
@@ -51,15 +50,17 @@ func ruleCost(b *testing.B, leaveOut ...string) (with, bare time.Duration) {
 		}
 		set.Corners = "worst"
 		t0 := time.Now()
-		res := NewRunner(Options{Rules: list, Set: set, Worst: corners.Worst, Today: "2026-12-02"}).File("preamp-30m.toml", src)
+		res := NewRunner(Options{Rules: list, Set: set, Worst: corners.Worst, Today: "2026-12-02"}).File(name, src)
 		if res.Err != nil {
 			b.Fatal(res.Err)
 		}
 		return time.Since(t0)
 	}
+	var with, bare time.Duration
 	for b.Loop() {
 		bare += time1(b, without)
 		with += time1(b, all)
 	}
-	return with, bare
+	b.ReportMetric(float64(with)/float64(bare), metric)
+	b.ReportMetric(float64(with-bare)/float64(b.N)/1e6, "ms-added")
 }

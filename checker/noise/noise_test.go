@@ -238,3 +238,23 @@ func TestFriisTwoPads(t *testing.T) {
 	near(t, "F of the cascade", p.F, l1+(l2-1)*l1, 1e-7)
 	near(t, "NF of the cascade", p.NFDB, 10*math.Log10(l1*l2), 1e-8)
 }
+
+// A capacitor of finite Q (a series loss resistance r = 1/(ωC·Q) at the
+// band centre, docs/filters.md) shunting the source: its noise current is
+// 4kT·Re(y), y = jωC/(1 + jωC·r), against the source's 4kT/RS through the
+// same impedance, so F = 1 + RS·Re(y) at T0 (Nyquist's theorem for a lossy
+// reactance, common practice).
+func TestLossyCapacitorNoise(t *testing.T) {
+	c, op := ckt(10e6, 10e6)
+	port(c, "in", "a", "in", 50)
+	port(c, "out", "a", "out", 1e3)
+	c.Parts = append(c.Parts, &circuit.Part{Ref: "C1", Kind: circuit.Capacitor, Nets: []string{"a", "gnd"}, Value: 100e-12, Q: 50})
+	w := 2 * math.Pi * 10e6
+	r := 1 / (w * 100e-12 * 50)
+	y := complex(0, w*100e-12) / (1 + complex(0, w*100e-12)*complex(r, 0))
+	p := at(t, c, op, 10e6)
+	near(t, "F", p.F, 1+50*real(y), 1e-9)
+	// Without Q the capacitor is noiseless.
+	c.Parts[0].Q = 0
+	near(t, "F of a lossless capacitor", at(t, c, op, 10e6).F, 1, 1e-9)
+}

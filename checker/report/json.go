@@ -52,6 +52,7 @@ type jsonDoc struct {
 	Linearity   *jsonLinearity            `json:"linearity,omitempty"`
 	Stability   *jsonStability            `json:"stability,omitempty"`
 	Sweep       []jsonSweep               `json:"sweep,omitempty"`
+	Filter      *jsonFilter               `json:"filter,omitempty"`
 }
 
 // JSON writes the report as FORMAT.md §5's document.
@@ -165,6 +166,7 @@ func (r *Report) JSON(w io.Writer) error {
 		}
 	}
 	doc.Linearity = r.linearityJSON()
+	doc.Filter = r.filterJSON(doc.Parts)
 	doc.Stability, doc.Sweep = r.stabilityJSON()
 	enc := json.NewEncoder(w)
 	enc.SetIndent("", "  ")

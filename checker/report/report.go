@@ -33,6 +33,8 @@ type Report struct {
 	MinVCE  float64
 	linDone bool
 	lin     *linearity.Result
+
+	filt *filterFigures // filter.go, once
 }
 
 // noise is the nominal case's noise at the band points, computed once.

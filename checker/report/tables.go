@@ -130,6 +130,7 @@ func (r *Report) tables() []table {
 	ts = append(ts, band)
 	ts = append(ts, r.noiseTable()...)
 	ts = append(ts, r.linearityTable()...)
+	ts = append(ts, r.filterTables()...)
 	return append(ts, r.stabilityTables()...)
 }
 
