@@ -2,93 +2,22 @@ package check
 
 import (
 	"fmt"
-	"math/rand"
 	"testing"
 	"time"
 
 	"github.com/BurntSushi/toml"
 
 	"headroom/checker/corners"
+	"headroom/checker/corpus"
 	"headroom/checker/ruleset"
 	"headroom/rules"
 )
-
-// generated returns n circuit files: a divider-biased 2N3904 stage with a
-// toroid output transformer, its values drawn from the E12 series with a
-// fixed seed (invented demo values, for timing only).
-func generated(n int) [][]byte {
-	rng := rand.New(rand.NewSource(1))
-	e12 := []float64{1.0, 1.2, 1.5, 1.8, 2.2, 2.7, 3.3, 3.9, 4.7, 5.6, 6.8, 8.2}
-	pick := func(decade float64) string { return fmt.Sprintf("%g", e12[rng.Intn(len(e12))]*decade) }
-	out := make([][]byte, n)
-	for i := range out {
-		out[i] = []byte(fmt.Sprintf(`[circuit]
-name = "generated preamp %d"
-band = ["7MHz", "7.3MHz"]
-ambient = ["0C", "45C"]
-
-[supplies.vcc]
-volts = "12V"
-range = ["11V", "13.8V"]
-
-[ports.in]
-net = "rf_in"
-direction = "in"
-
-[ports.out]
-net = "rf_out"
-direction = "out"
-
-[parts.C1]
-kind = "capacitor"
-value = "%sn"
-nets = ["rf_in", "base"]
-
-[parts.R1]
-kind = "resistor"
-value = "%s"
-nets = ["vcc", "base"]
-
-[parts.R2]
-kind = "resistor"
-value = "%s"
-nets = ["base", "gnd"]
-
-[parts.Q1]
-kind = "npn"
-device = "2N3904"
-nets = { collector = "coll", base = "base", emitter = "emit" }
-
-[parts.R3]
-kind = "resistor"
-value = "%s"
-nets = ["emit", "gnd"]
-
-[parts.C2]
-kind = "capacitor"
-value = "%sn"
-nets = ["emit", "gnd"]
-
-[parts.T1]
-kind = "transformer"
-core = "toroid-9.5x4.75x3.25-mu800"
-windings.primary = { turns = %d, nets = ["vcc", "coll"] }
-windings.secondary = { turns = %d, nets = ["rf_out", "gnd"] }
-
-[parts.C3]
-kind = "capacitor"
-value = "100n"
-nets = ["vcc", "gnd"]
-`, i, pick(10), pick(1e4), pick(1e3), pick(100), pick(100), 6+rng.Intn(6), 3+rng.Intn(3)))
-	}
-	return out
-}
 
 // BenchmarkCheckFolder checks 200 generated circuit files per iteration and
 // reports files per second and how many times slower that is than merely
 // decoding the same TOML.
 func BenchmarkCheckFolder(b *testing.B) {
-	files := generated(200)
+	files := corpus.Preamps(200)
 	all := rules.All()
 	for _, mode := range []string{"nominal", "worst"} {
 		b.Run(mode, func(b *testing.B) {
@@ -127,7 +56,7 @@ func BenchmarkCheckFolder(b *testing.B) {
 // costs: the same 40 generated files checked with it and without it in one
 // run, reported as a ratio (x-unchecked) and as fixes checked per file.
 func BenchmarkFixCheck(b *testing.B) {
-	files := generated(40)
+	files := corpus.Preamps(40)
 	all := rules.All()
 	for _, mode := range []string{"nominal", "worst"} {
 		b.Run(mode, func(b *testing.B) {

@@ -6,12 +6,12 @@ import (
 	"math"
 	"math/rand/v2"
 	"runtime"
-	"strings"
 	"sync"
 	"testing"
 
 	"headroom/checker/analysis"
 	"headroom/checker/circuit"
+	"headroom/checker/corpus"
 	"headroom/checker/engine"
 	"headroom/checker/topology"
 )
@@ -43,7 +43,7 @@ func TestGeneratedMatchBruteForce(t *testing.T) {
 	srcs := make([]string, *generated)
 	limits := make([]int, *generated)
 	for n := range srcs {
-		srcs[n] = genCircuit(rng, n)
+		srcs[n] = corpus.Amplifier(rng, n)
 		limits[n] = 5 + rng.IntN(4) // most boxes 5–8 parameters, every 100th 12
 		if n%100 == 0 {
 			limits[n] = 12
@@ -177,89 +177,4 @@ func within(a, b engine.Finding, tol float64) bool {
 		return true
 	}
 	return math.Abs(a.Measured/a.Limit-b.Measured/b.Limit) <= tol
-}
-
-// genCircuit writes a random amplifier: one or two stages, each a
-// common-emitter stage (resistor, choke or transformer load; bypassed or
-// degenerated emitter) or an emitter follower, NPN or PNP, between 50 Ω
-// ports, on an HF band. Invented values, for exercising the search.
-func genCircuit(rng *rand.Rand, n int) string {
-	bands := [][2]float64{{1.8e6, 2e6}, {3.5e6, 3.8e6}, {7e6, 7.2e6}, {10.1e6, 10.15e6}, {14e6, 14.35e6}, {21e6, 21.45e6}, {28e6, 29.7e6}}
-	band := bands[rng.IntN(len(bands))]
-	tol := func() string { return []string{"1%", "2%", "5%", "10%"}[rng.IntN(4)] }
-	pick := func(xs ...float64) float64 { return xs[rng.IntN(len(xs))] }
-	var b strings.Builder
-	fmt.Fprintf(&b, "[circuit]\nname = \"generated %d\"\nband = [%g, %g]\n", n, band[0], band[1])
-	if rng.IntN(2) == 0 {
-		b.WriteString("ambient = [\"0C\", \"50C\"]\n")
-	}
-	vcc := pick(9, 12, 13.8)
-	pnp := rng.IntN(4) == 0
-	rail := "vcc"
-	fmt.Fprintf(&b, "[supplies.vcc]\nvolts = %g\n", vcc)
-	if rng.IntN(2) == 0 {
-		fmt.Fprintf(&b, "range = [%g, %g]\n", vcc*0.9, vcc*1.1)
-	}
-	b.WriteString("[ports.in]\nnet = \"in\"\ndirection = \"in\"\n[ports.out]\nnet = \"out\"\ndirection = \"out\"\n")
-	part := func(ref, kind string, v float64, nets ...string) {
-		fmt.Fprintf(&b, "[parts.%s]\nkind = %q\nvalue = %g\nnets = [%q, %q]\ntolerance = %q\n", ref, kind, v, nets[0], nets[1], tol())
-	}
-	part("CD", "capacitor", pick(10e-9, 100e-9), rail, "gnd")
-	in := "in"
-	stages := 1 + rng.IntN(2)
-	for s := 1; s <= stages; s++ {
-		x := func(name string) string { return fmt.Sprintf("%s%d", name, s) }
-		base, emit, coll := x("b"), x("e"), x("c")
-		// Bias: the base at 15–30 % of the supply, IE 1–15 mA.
-		vb := vcc * (0.15 + 0.15*rng.Float64())
-		ie := 1e-3 * (1 + 14*rng.Float64())
-		re := (vb - 0.7) / ie
-		rb := pick(1e3, 2.2e3, 4.7e3, 10e3)
-		ra := rb * (vcc - vb) / vb
-		top, bottom := rail, "gnd"
-		device := pick(0, 1, 2, 3)
-		dev := []string{"2N3904", "2N2222A", "2N4401", "BC547B"}[int(device)]
-		kind := "npn"
-		if pnp {
-			top, bottom = "gnd", rail // the PNP's emitter sits at the supply
-			dev, kind = "2N3906", "pnp"
-		}
-		part(x("C"), "capacitor", pick(10e-9, 100e-9), in, base)
-		part(x("RA"), "resistor", ra, top, base)
-		part(x("RB"), "resistor", rb, base, bottom)
-		part(x("RE"), "resistor", re, emit, bottom)
-		follower := s == 2 && rng.IntN(2) == 0 || rng.IntN(5) == 0
-		if follower {
-			fmt.Fprintf(&b, "[parts.%s]\nkind = %q\ndevice = %q\nnets = { collector = %q, base = %q, emitter = %q }\n", x("Q"), kind, dev, top, base, emit)
-			in = emit
-			continue
-		}
-		if rng.IntN(2) == 0 {
-			part(x("CE"), "capacitor", pick(10e-9, 100e-9), emit, bottom)
-		}
-		fmt.Fprintf(&b, "[parts.%s]\nkind = %q\ndevice = %q\nnets = { collector = %q, base = %q, emitter = %q }\n", x("Q"), kind, dev, coll, base, emit)
-		switch rng.IntN(3) {
-		case 0: // resistor load
-			rc := math.Min(0.4*vcc/ie, pick(470, 1e3, 2.2e3))
-			part(x("RC"), "resistor", rc, top, coll)
-			in = coll
-		case 1: // choke feed
-			fmt.Fprintf(&b, "[parts.%s]\nkind = \"inductor\"\nvalue = %g\nnets = [%q, %q]\nresistance = 0.5\n", x("L"), pick(10e-6, 22e-6, 100e-6), top, coll)
-			in = coll
-		default: // transformer into the next stage or the port
-			sec := x("s")
-			fmt.Fprintf(&b, "[parts.%s]\nkind = \"transformer\"\ncore = %q\nwindings.primary = { turns = %d, nets = [%q, %q], resistance = 0.1 }\nwindings.secondary = { turns = %d, nets = [%q, \"gnd\"], resistance = 0.05 }\n",
-				x("T"), pick2(rng, "toroid-9.5x4.75x3.25-mu800", "toroid-12.7x7.15x4.9-mu125"), 6+rng.IntN(10), top, coll, 2+rng.IntN(6), sec)
-			in = sec
-		}
-	}
-	part("CO", "capacitor", pick(10e-9, 100e-9), in, "out")
-	return b.String()
-}
-
-func pick2(rng *rand.Rand, a, b string) string {
-	if rng.IntN(2) == 0 {
-		return a
-	}
-	return b
 }

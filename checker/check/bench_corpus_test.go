@@ -1,0 +1,66 @@
+package check
+
+import (
+	"fmt"
+	"runtime"
+	"testing"
+	"time"
+
+	"github.com/BurntSushi/toml"
+
+	"headroom/checker/corners"
+	"headroom/checker/corpus"
+	"headroom/checker/ruleset"
+	"headroom/rules"
+)
+
+// BenchmarkCorpus decodes and checks the same 225 generated files of every
+// configuration (checker/corpus.Mixed) in one run, with every rule of the
+// default set, and reports what checking costs against merely decoding the
+// TOML: nominal-x-decode and worst-x-decode (corners = "worst", stability
+// included), and the allocations of one file's worst-case check. Run it on
+// one core (-cpu 1) to compare with the goals of docs/speed.md.
+func BenchmarkCorpus(b *testing.B) {
+	files := corpus.Mixed(225)
+	all := rules.All()
+	runner := func(mode string) *Runner {
+		set, err := (&ruleset.Loader{Rules: all}).Load("default")
+		if err != nil {
+			b.Fatal(err)
+		}
+		set.Corners = mode
+		return NewRunner(Options{Rules: all, Set: set, Worst: corners.Worst, Today: "2026-12-02"})
+	}
+	check := func(r *Runner) time.Duration {
+		t0 := time.Now()
+		for i, f := range files {
+			if res := r.File(fmt.Sprintf("gen%03d.toml", i), f); res.Err != nil {
+				b.Fatalf("%v\n%s", res.Err, f)
+			}
+		}
+		return time.Since(t0)
+	}
+	var decode, nominal, worst time.Duration
+	var mallocs uint64
+	var ms runtime.MemStats
+	for b.Loop() {
+		t0 := time.Now()
+		for _, f := range files {
+			var m map[string]any
+			if _, err := toml.Decode(string(f), &m); err != nil {
+				b.Fatal(err)
+			}
+		}
+		decode += time.Since(t0)
+		nominal += check(runner("nominal"))
+		runtime.ReadMemStats(&ms)
+		before := ms.Mallocs
+		worst += check(runner("worst"))
+		runtime.ReadMemStats(&ms)
+		mallocs += ms.Mallocs - before
+	}
+	b.ReportMetric(nominal.Seconds()/decode.Seconds(), "nominal-x-decode")
+	b.ReportMetric(worst.Seconds()/decode.Seconds(), "worst-x-decode")
+	b.ReportMetric(worst.Seconds()/float64(b.N)/float64(len(files))*1e3, "worst-ms/file")
+	b.ReportMetric(float64(mallocs)/float64(b.N)/float64(len(files)), "worst-allocs/file")
+}
