@@ -74,7 +74,11 @@ func refine(c *circuit.Circuit, topo *topology.Topology, nominal *analysis.Case,
 		}
 		cases, where := pack(reqs, len(box))
 		err := inOrder(len(cases), func(v int, buf []engine.Finding) ([]engine.Finding, error) {
-			return engine.MeasureAppend(buf, analysis.Run(at(c, box, cases[v]), topo), nominal, cfg)
+			ids := map[string]bool{}
+			for _, r := range where[v] {
+				ids[r.w.key.Rule] = true
+			}
+			return engine.MeasureAppend(buf, analysis.Run(at(c, box, cases[v]), topo), nominal, only(cfg, ids))
 		}, func(v int, fs []engine.Finding) {
 			got := make(map[engine.Key]engine.Finding, len(want))
 			for j := range fs {
@@ -241,7 +245,8 @@ func settle(c *circuit.Circuit, topo *topology.Topology, nominal *analysis.Case,
 		byCase[sig] = append(byCase[sig], k)
 	}
 	return inOrder(len(sigs), func(v int, buf []engine.Finding) ([]engine.Finding, error) {
-		return engine.MeasureAppend(buf, analysis.Run(at(c, box, items[byCase[sigs[v]][0]].state), topo), nominal, cfg)
+		keys := byCase[sigs[v]]
+		return engine.MeasureAppend(buf, analysis.Run(at(c, box, items[keys[0]].state), topo), nominal, only(cfg, rulesOf(keys)))
 	}, func(v int, fs []engine.Finding) {
 		keys := byCase[sigs[v]]
 		state := items[keys[0]].state
@@ -256,6 +261,30 @@ func settle(c *circuit.Circuit, topo *topology.Topology, nominal *analysis.Case,
 			}
 		}
 	})
+}
+
+// only is cfg restricted to the rules with the given ids: a case analysed
+// for a few items runs only their rules, not every rule of the set (the
+// stability sweep, a few hundred factorisations, above all). Rules judge a
+// case independently of each other, so the items' findings are the same.
+func only(cfg *engine.Config, ids map[string]bool) *engine.Config {
+	sub := *cfg
+	sub.Rules = make([]*engine.Rule, 0, len(ids))
+	for _, r := range cfg.Rules {
+		if ids[r.ID] {
+			sub.Rules = append(sub.Rules, r)
+		}
+	}
+	return &sub
+}
+
+// rulesOf is the set of the items' rule ids.
+func rulesOf(keys []engine.Key) map[string]bool {
+	ids := make(map[string]bool, len(keys))
+	for _, k := range keys {
+		ids[k.Rule] = true
+	}
+	return ids
 }
 
 // near reports whether a finding fails or comes within NearLimit of its limit.

@@ -117,8 +117,8 @@ func search(c *circuit.Circuit, topo *topology.Topology, nominal *analysis.Case,
 		vertices[sig] = append(vertices[sig], k)
 	}
 	err = inOrder(len(vorder), func(v int, buf []engine.Finding) ([]engine.Finding, error) {
-		dirs := items[vertices[vorder[v]][0]].dirs
-		return engine.MeasureAppend(buf, analysis.Run(at(c, box, dirs), topo), nominal, cfg)
+		keys := vertices[vorder[v]]
+		return engine.MeasureAppend(buf, analysis.Run(at(c, box, items[keys[0]].dirs), topo), nominal, only(cfg, rulesOf(keys)))
 	}, func(v int, vf []engine.Finding) {
 		keys := vertices[vorder[v]]
 		dirs := items[keys[0]].dirs
