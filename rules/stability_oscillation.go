@@ -4,6 +4,7 @@ import (
 	"fmt"
 	"math"
 	"strings"
+	"sync"
 
 	"headroom/checker/analysis"
 	"headroom/checker/circuit"
@@ -62,9 +63,15 @@ func runStabilityOscillation(p *engine.Pass) error {
 		p.Report(f)
 		return nil
 	}
-	shares, _ := r.Participation(least)
+	// The parts' shares cost two dense eigen-solves: only the message and
+	// the fix of a reported case need them, not every case of the search.
+	shares := sync.OnceValue(func() []poles.Share {
+		sh, _ := r.Participation(least)
+		return sh
+	})
 	growing := len(r.Growing())
 	f.MessageLater = func() string {
+		shares := shares()
 		var b strings.Builder
 		fmt.Fprintf(&b, "the circuit oscillates as terminated: a pole at %s grows %s dB/µs (s = %s)",
 			quantity.Approx(least.Freq(), quantity.Hertz),
@@ -95,7 +102,7 @@ func runStabilityOscillation(p *engine.Pass) error {
 			}
 			return 2 * r
 		}
-		return stabilityFix(p, transistorsBy(c, shares), judge, margin) + rfCaution, nil
+		return stabilityFix(p, transistorsBy(c, shares()), judge, margin) + rfCaution, nil
 	}
 	p.Report(f)
 	return nil
