@@ -18,18 +18,21 @@ import (
 // configuration (checker/corpus.Mixed) in one run, with every rule of the
 // default set, and reports what checking costs against merely decoding the
 // TOML: nominal-x-decode and worst-x-decode (corners = "worst", stability
-// included), and the allocations of one file's worst-case check. Run it on
-// one core (-cpu 1) to compare with the goals of docs/speed.md.
+// included, every offered fix checked on the whole circuit as check does),
+// worst-nofixcheck-x-decode (the same without the fix check, which searches
+// the worst case of each fixed file again), and the time and allocations of
+// one file's worst-case check. Run it on one core (-cpu 1); DEVELOPERS.md
+// has the goals and the figures.
 func BenchmarkCorpus(b *testing.B) {
 	files := corpus.Mixed(225)
 	all := rules.All()
-	runner := func(mode string) *Runner {
+	runner := func(mode string, noFixCheck bool) *Runner {
 		set, err := (&ruleset.Loader{Rules: all}).Load("default")
 		if err != nil {
 			b.Fatal(err)
 		}
 		set.Corners = mode
-		return NewRunner(Options{Rules: all, Set: set, Worst: corners.Worst, Today: "2026-12-02"})
+		return NewRunner(Options{Rules: all, Set: set, Worst: corners.Worst, Today: "2026-12-02", NoFixCheck: noFixCheck})
 	}
 	check := func(r *Runner) time.Duration {
 		t0 := time.Now()
@@ -41,7 +44,7 @@ func BenchmarkCorpus(b *testing.B) {
 		return time.Since(t0)
 	}
 	const decodes = 20 // decoding is quick: repeat it for a steady time
-	var decode, nominal, worst time.Duration
+	var decode, nominal, worst, bare time.Duration
 	var mallocs uint64
 	var ms runtime.MemStats
 	for b.Loop() {
@@ -55,15 +58,17 @@ func BenchmarkCorpus(b *testing.B) {
 			}
 		}
 		decode += time.Since(t0) / decodes
-		nominal += check(runner("nominal"))
+		nominal += check(runner("nominal", false))
+		bare += check(runner("worst", true))
 		runtime.ReadMemStats(&ms)
 		before := ms.Mallocs
-		worst += check(runner("worst"))
+		worst += check(runner("worst", false))
 		runtime.ReadMemStats(&ms)
 		mallocs += ms.Mallocs - before
 	}
 	b.ReportMetric(nominal.Seconds()/decode.Seconds(), "nominal-x-decode")
 	b.ReportMetric(worst.Seconds()/decode.Seconds(), "worst-x-decode")
+	b.ReportMetric(bare.Seconds()/decode.Seconds(), "worst-nofixcheck-x-decode")
 	b.ReportMetric(worst.Seconds()/float64(b.N)/float64(len(files))*1e3, "worst-ms/file")
 	b.ReportMetric(float64(mallocs)/float64(b.N)/float64(len(files)), "worst-allocs/file")
 }
