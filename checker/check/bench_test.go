@@ -2,6 +2,7 @@ package check
 
 import (
 	"fmt"
+	"runtime"
 	"testing"
 	"time"
 
@@ -13,43 +14,63 @@ import (
 	"headroom/rules"
 )
 
-// BenchmarkCheckFolder checks 200 generated circuit files per iteration and
-// reports files per second and how many times slower that is than merely
-// decoding the same TOML.
-func BenchmarkCheckFolder(b *testing.B) {
-	files := corpus.Preamps(200)
+// BenchmarkCorpus decodes and checks the same 225 generated files of every
+// configuration (checker/corpus.Mixed) in one run, with every rule of the
+// default set, and reports what checking costs against merely decoding the
+// TOML: nominal-x-decode and worst-x-decode (corners = "worst", stability
+// included, every offered fix checked on the whole circuit as check does),
+// worst-nofixcheck-x-decode (the same without the fix check, which searches
+// the worst case of each fixed file again), and the time and allocations of
+// one file's worst-case check. Run it on one core (-cpu 1); DEVELOPERS.md
+// has the goals and the figures.
+func BenchmarkCorpus(b *testing.B) {
+	files := corpus.Mixed(225)
 	all := rules.All()
-	for _, mode := range []string{"nominal", "worst"} {
-		b.Run(mode, func(b *testing.B) {
-			set, err := (&ruleset.Loader{Rules: all}).Load("default")
-			if err != nil {
-				b.Fatal(err)
-			}
-			set.Corners = mode
-			start := time.Now()
-			for range 5 {
-				for _, f := range files {
-					var m map[string]any
-					toml.Decode(string(f), &m)
-				}
-			}
-			decode := time.Since(start) / 5
-			var checked time.Duration
-			for b.Loop() {
-				t0 := time.Now()
-				r := NewRunner(Options{Rules: all, Set: set, Worst: corners.Worst, Today: "2026-12-02"})
-				for i, f := range files {
-					if res := r.File(fmt.Sprintf("gen%03d.toml", i), f); res.Err != nil {
-						b.Fatal(res.Err)
-					}
-				}
-				checked += time.Since(t0)
-			}
-			per := checked / time.Duration(b.N)
-			b.ReportMetric(float64(len(files))/per.Seconds(), "files/s")
-			b.ReportMetric(per.Seconds()/decode.Seconds(), "x-decode")
-		})
+	runner := func(mode string, noFixCheck bool) *Runner {
+		set, err := (&ruleset.Loader{Rules: all}).Load("default")
+		if err != nil {
+			b.Fatal(err)
+		}
+		set.Corners = mode
+		return NewRunner(Options{Rules: all, Set: set, Worst: corners.Worst, Today: "2026-12-02", NoFixCheck: noFixCheck})
 	}
+	check := func(r *Runner) time.Duration {
+		t0 := time.Now()
+		for i, f := range files {
+			if res := r.File(fmt.Sprintf("gen%03d.toml", i), f); res.Err != nil {
+				b.Fatalf("%v\n%s", res.Err, f)
+			}
+		}
+		return time.Since(t0)
+	}
+	const decodes = 20 // decoding is quick: repeat it for a steady time
+	var decode, nominal, worst, bare time.Duration
+	var mallocs uint64
+	var ms runtime.MemStats
+	for b.Loop() {
+		t0 := time.Now()
+		for range decodes {
+			for _, f := range files {
+				var m map[string]any
+				if _, err := toml.Decode(string(f), &m); err != nil {
+					b.Fatal(err)
+				}
+			}
+		}
+		decode += time.Since(t0) / decodes
+		nominal += check(runner("nominal", false))
+		bare += check(runner("worst", true))
+		runtime.ReadMemStats(&ms)
+		before := ms.Mallocs
+		worst += check(runner("worst", false))
+		runtime.ReadMemStats(&ms)
+		mallocs += ms.Mallocs - before
+	}
+	b.ReportMetric(nominal.Seconds()/decode.Seconds(), "nominal-x-decode")
+	b.ReportMetric(worst.Seconds()/decode.Seconds(), "worst-x-decode")
+	b.ReportMetric(bare.Seconds()/decode.Seconds(), "worst-nofixcheck-x-decode")
+	b.ReportMetric(worst.Seconds()/float64(b.N)/float64(len(files))*1e3, "worst-ms/file")
+	b.ReportMetric(float64(mallocs)/float64(b.N)/float64(len(files)), "worst-allocs/file")
 }
 
 // BenchmarkFixCheck measures what the whole-circuit check of every fix
