@@ -55,6 +55,7 @@ type sparse struct {
 	room    []int        // capacity reserved for each row, from its first column
 	buf     []complex128 // the block the rows were cut from
 	piv, nz []int        // factor's: the factors' row order (kept by them) and scratch
+	f       lu           // the factors factor returns (a later factor of m replaces them)
 }
 
 // newSparse allocates rows spanning lo[i] … hi[i] (every entry +0).
@@ -212,7 +213,8 @@ func (m *sparse) factor() (*lu, error) {
 			}
 		}
 	}
-	return &lu{n: n, piv: piv, rows: rows}, nil
+	m.f = lu{n: n, piv: piv, rows: rows}
+	return &m.f, nil
 }
 
 // solve returns x with A·x = b; b is left untouched.
