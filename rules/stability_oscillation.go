@@ -37,7 +37,8 @@ var StabilityOscillation = &engine.Rule{
 			"each re-checked by analysing the case again, with its cost in gain at the band's centre. Advice only: " +
 			"both need a new part.",
 	},
-	Run: runStabilityOscillation,
+	Run:  runStabilityOscillation,
+	Wide: true,
 }
 
 func runStabilityOscillation(p *engine.Pass) error {

@@ -1,6 +1,7 @@
 package corners
 
 import (
+	"slices"
 	"sort"
 
 	"headroom/checker/analysis"
@@ -59,10 +60,18 @@ func refine(c *circuit.Circuit, topo *topology.Topology, nominal *analysis.Case,
 		walks = append(walks, w)
 		want[k] = true
 	}
+	walks = append(walks, wideStarts(walks, items, order)...)
 	changed := map[engine.Key]item{} // the items the walk moved, with where they started
 	for round := 0; round < maxRounds && len(walks) > 0; round++ {
 		var reqs []request
 		for _, w := range walks {
+			if w.start != nil {
+				if _, ok := w.seen[signature(w.start)]; !ok {
+					reqs = append(reqs, request{w, w.start})
+					w.seen[signature(w.start)] = engine.Finding{} // queued
+				}
+				continue
+			}
 			for _, st := range w.frontier {
 				for _, nb := range w.neighbours(st) {
 					if _, ok := w.seen[signature(nb)]; !ok {
@@ -105,6 +114,12 @@ func refine(c *circuit.Circuit, topo *topology.Topology, nominal *analysis.Case,
 					changed[w.key] = start
 				}
 			}
+			if w.left > 0 {
+				w.left--
+				if w.left == 0 {
+					w.frontier = nil
+				}
+			}
 			if len(w.frontier) > 0 {
 				next = append(next, w)
 			}
@@ -123,6 +138,42 @@ type walk struct {
 	figure   []engine.Finding          // the item's finding at each frontier case
 	seen     map[string]engine.Finding // cases judged (or queued) for this item
 	walked   map[string]bool           // cases already walked from
+	start    []int8                    // a case to be judged and walked on from first, nil once it is
+	left     int                       // rounds left to a walk with a budget of its own, 0 without
+}
+
+// wideRounds is the budget of a Wide item's walk from another item's case:
+// the round that judges the start and two steps on (the extra walks must
+// not double the search's cost).
+const wideRounds = 3
+
+// wideStarts are the extra walks of Wide items: each also walks on from
+// every case where another Wide item is worst (the stability margins follow
+// one loop, so where one is worst is a good place to look for the other),
+// as a walk of its own so that its beam is its own, for wideRounds rounds.
+// The walk's live parameters include those the start sets.
+func wideStarts(walks []*walk, items map[engine.Key]*item, order []engine.Key) []*walk {
+	var out []*walk
+	for _, w := range walks {
+		if !w.it.wide {
+			continue
+		}
+		for _, k := range order {
+			o := items[k]
+			if o == w.it || !o.wide || signature(o.state) == signature(w.it.state) {
+				continue
+			}
+			st := append([]int8(nil), o.state...)
+			x := &walk{key: w.key, it: w.it, start: st, seen: map[string]engine.Finding{}, left: wideRounds}
+			for i := range st {
+				if st[i] != 0 || slices.Contains(w.live, i) {
+					x.live = append(x.live, i)
+				}
+			}
+			out = append(out, x)
+		}
+	}
+	return out
 }
 
 // neighbours are the cases one step from st over the walk's live parameters:
@@ -148,6 +199,19 @@ func (w *walk) neighbours(st []int8) [][]int8 {
 func (w *walk) step() bool {
 	if w.walked == nil {
 		w.walked = map[string]bool{}
+	}
+	if st := w.start; st != nil { // the start was judged this round
+		w.start = nil
+		f, ok := w.seen[signature(st)]
+		if !ok || !f.HasMetric {
+			return false // no frontier: the walk ends
+		}
+		w.frontier, w.figure = [][]int8{st}, []engine.Finding{f}
+		if engine.Worse(&f, &w.it.best) && moved(&f, &w.it.best) {
+			w.it.best, w.it.state = f, st
+			return true
+		}
+		return false
 	}
 	changed := false
 	var cands [][]int8
