@@ -62,10 +62,9 @@ func TestGeneratedMatchBruteForce(t *testing.T) {
 // -run TestGeneratedStabilityMatchBruteForce -generated-stability 500). The
 // stability figures are minima over a sweep or over the poles, whose
 // frequency moves with the parameters, so they are the figures most likely
-// to be non-monotonic; the bounds are the same as for every other rule. The
-// full run fails today on one item: circuit 386's μ, reported at −0.0854
-// where the worst vertex gives −0.0900, a hollow that three parameters must
-// leave together (README, "How close it gets").
+// to be non-monotonic; the bounds are the same as for every other rule.
+// (Circuit 386's μ is the case that needed the walk from the other stability
+// item's case: without it, −0.0854 where the worst vertex gives −0.0900.)
 func TestGeneratedStabilityMatchBruteForce(t *testing.T) {
 	if testing.Short() {
 		t.Skip("brute force over every vertex")
