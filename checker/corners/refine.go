@@ -143,8 +143,8 @@ type walk struct {
 }
 
 // wideRounds is the budget of a Wide item's walk from another item's case:
-// the round that judges the start and two steps on (the extra walks must
-// not double the search's cost).
+// the round that judges the start and two steps on, each to the worst flip
+// only (the extra walks must not multiply the search's cost).
 const wideRounds = 3
 
 // wideStarts are the extra walks of Wide items: each also walks on from
@@ -238,7 +238,11 @@ func (w *walk) step() bool {
 	}
 	sort.SliceStable(idx, func(a, b int) bool { return engine.Worse(&figs[idx[a]], &figs[idx[b]]) })
 	w.frontier, w.figure = w.frontier[:0], w.figure[:0]
-	for _, i := range idx[:min(beam, len(idx))] {
+	width := beam
+	if w.left > 0 {
+		width = 1 // a walk from another item's case follows its worst flip only
+	}
+	for _, i := range idx[:min(width, len(idx))] {
 		w.frontier, w.figure = append(w.frontier, cands[i]), append(w.figure, figs[i])
 	}
 	return changed
