@@ -147,6 +147,12 @@ type walk struct {
 // only (the extra walks must not multiply the search's cost).
 const wideRounds = 3
 
+// maxWideLive bounds the extra walks to items of at most this many live
+// parameters (a one- or two-stage amplifier's box): each step of a walk
+// judges a flip of every live parameter, each flip a sweep or a pole solve,
+// which on a large circuit would cost more than the rest of the search.
+const maxWideLive = 32
+
 // wideStarts are the extra walks of Wide items: each also walks on from
 // every case where another Wide item is worst (the stability margins follow
 // one loop, so where one is worst is a good place to look for the other),
@@ -170,7 +176,9 @@ func wideStarts(walks []*walk, items map[engine.Key]*item, order []engine.Key) [
 					x.live = append(x.live, i)
 				}
 			}
-			out = append(out, x)
+			if len(x.live) <= maxWideLive {
+				out = append(out, x)
+			}
 		}
 	}
 	return out
