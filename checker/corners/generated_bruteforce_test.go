@@ -63,8 +63,9 @@ func TestGeneratedMatchBruteForce(t *testing.T) {
 // stability figures are minima over a sweep or over the poles, whose
 // frequency moves with the parameters, so they are the figures most likely
 // to be non-monotonic; the bounds are the same as for every other rule.
-// (Circuit 386's μ is the case that needed the walk from the other stability
-// item's case: without it, −0.0854 where the worst vertex gives −0.0900.)
+// (Circuit 386's μ was the case that needed the walk from the other stability
+// item's case: without it, −0.0854 where the worst vertex gave −0.0900,
+// before parts' Q losses entered the model.)
 func TestGeneratedStabilityMatchBruteForce(t *testing.T) {
 	if testing.Short() {
 		t.Skip("brute force over every vertex")
