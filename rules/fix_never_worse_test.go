@@ -12,121 +12,12 @@ import (
 	"headroom/checker/check"
 	"headroom/checker/circuit"
 	"headroom/checker/corners"
+	"headroom/checker/corpus"
 	"headroom/checker/edit"
 	"headroom/checker/engine"
 	"headroom/checker/ruleset"
 	"headroom/rules"
 )
-
-// randomBaseStage writes a grounded-base stage (input at the emitter, the
-// base held by a capacitor) and randomFollower an emitter follower, with
-// careless values like randomStage's. (Invented values, to provoke fixes.)
-func randomBaseStage(rng *rand.Rand, i int) string {
-	return randomOther(rng, i, "common base", `[parts.C1]
-kind = "capacitor"
-value = "%s"
-nets = ["rf_in", "emit"]
-
-[parts.R3]
-kind = "resistor"
-value = "%s"
-nets = ["emit", "gnd"]
-
-[parts.C2]
-kind = "capacitor"
-value = "%s"
-nets = ["base", "gnd"]
-
-[parts.Q1]
-kind = "npn"
-device = "%s"
-nets = { collector = "coll", base = "base", emitter = "emit" }
-
-[parts.L1]
-kind = "inductor"
-value = "%s"
-nets = ["vcc", "coll"]
-resistance = "0.5"
-
-[parts.C5]
-kind = "capacitor"
-value = "%s"
-nets = ["coll", "rf_out"]
-`)
-}
-
-func randomFollower(rng *rand.Rand, i int) string {
-	return randomOther(rng, i, "common collector", `[parts.C1]
-kind = "capacitor"
-value = "%s"
-nets = ["rf_in", "base"]
-
-[parts.R3]
-kind = "resistor"
-value = "%s"
-nets = ["emit", "gnd"]
-
-[parts.C2]
-kind = "capacitor"
-value = "%s"
-nets = ["vcc", "gnd"]
-
-[parts.Q1]
-kind = "npn"
-device = "%s"
-nets = { collector = "vcc", base = "base", emitter = "emit" }
-
-[parts.L1]
-kind = "inductor"
-value = "%s"
-nets = ["emit", "gnd"]
-resistance = "1k"
-role = "choke"
-
-[parts.C5]
-kind = "capacitor"
-value = "%s"
-nets = ["emit", "rf_out"]
-`)
-}
-
-func randomOther(rng *rand.Rand, i int, what, body string) string {
-	e24 := []float64{1.0, 1.2, 1.5, 1.8, 2.2, 2.7, 3.3, 3.9, 4.7, 5.6, 6.8, 8.2}
-	r := func(decade float64) string { return fmt.Sprintf("%g", e24[rng.Intn(len(e24))]*decade) }
-	bands := [][2]string{{"1.8MHz", "2MHz"}, {"3.5MHz", "3.8MHz"}, {"7MHz", "7.3MHz"}, {"14MHz", "14.35MHz"}, {"28MHz", "29.7MHz"}}
-	b := bands[rng.Intn(len(bands))]
-	devices := []string{"2N3904", "2N2222A", "2N4401", "BC547B", "2N5179"}
-	head := fmt.Sprintf(`[circuit]
-name = "generated %s stage %d"
-band = ["%s", "%s"]
-ambient = ["0C", "%dC"]
-
-[supplies.vcc]
-volts = "%dV"
-range = ["%gV", "%gV"]
-
-[ports.in]
-net = "rf_in"
-direction = "in"
-
-[ports.out]
-net = "rf_out"
-direction = "out"
-
-[parts.R1]
-kind = "resistor"
-value = "%s"
-nets = ["vcc", "base"]
-
-[parts.R2]
-kind = "resistor"
-value = "%s"
-nets = ["base", "gnd"]
-
-`, what, i, b[0], b[1], 40+rng.Intn(40), 9+rng.Intn(6), 8.0, 15.0, r(1e4), r(1e3*float64(1+rng.Intn(9))))
-	return head + fmt.Sprintf(body, r(1e-9), r(100*float64(1+rng.Intn(9))), r(1e-10*float64(1+rng.Intn(100))),
-		devices[rng.Intn(len(devices))], r(1e-6), r(1e-9))
-}
 
 // stageMeasures are a file's nominal collector currents and band gains,
 // computed here from the loaded circuit (not by the check under test).
@@ -183,7 +74,7 @@ func TestFixesNeverWorsen(t *testing.T) {
 		byID[r.ID] = r
 	}
 	rng := rand.New(rand.NewSource(14))
-	gens := []func(*rand.Rand, int) string{randomStage, randomBaseStage, randomFollower}
+	gens := []func(*rand.Rand, int) string{corpus.Stage, corpus.BaseStage, corpus.Follower}
 	offered, stages := 0, 0
 	for g, gen := range gens {
 		for i := 0; i < n; i++ {

@@ -4,6 +4,7 @@ import (
 	"fmt"
 	"math"
 	"strings"
+	"sync"
 
 	"headroom/checker/analysis"
 	"headroom/checker/circuit"
@@ -37,7 +38,8 @@ var StabilityOscillation = &engine.Rule{
 			"each re-checked by analysing the case again, with its cost in gain at the band's centre. Advice only: " +
 			"both need a new part.",
 	},
-	Run: runStabilityOscillation,
+	Run:  runStabilityOscillation,
+	Wide: true,
 }
 
 func runStabilityOscillation(p *engine.Pass) error {
@@ -63,9 +65,15 @@ func runStabilityOscillation(p *engine.Pass) error {
 		p.Report(f)
 		return nil
 	}
-	shares, _ := r.Participation(least)
+	// The parts' shares cost two dense eigen-solves: only the message and
+	// the fix of a reported case need them, not every case of the search.
+	shares := sync.OnceValue(func() []poles.Share {
+		sh, _ := r.Participation(least)
+		return sh
+	})
 	growing := len(r.Growing())
 	f.MessageLater = func() string {
+		shares := shares()
 		var b strings.Builder
 		fmt.Fprintf(&b, "the circuit oscillates as terminated: a pole at %s grows %s dB/µs (s = %s)",
 			quantity.Approx(least.Freq(), quantity.Hertz),
@@ -96,7 +104,7 @@ func runStabilityOscillation(p *engine.Pass) error {
 			}
 			return 2 * r
 		}
-		return stabilityFix(p, transistorsBy(c, shares), judge, margin) + rfCaution, nil
+		return stabilityFix(p, transistorsBy(c, shares()), judge, margin) + rfCaution, nil
 	}
 	p.Report(f)
 	return nil

@@ -38,7 +38,8 @@ var StabilityUnconditional = &engine.Rule{
 			{Name: "min_mu", Unit: quantity.Ratio, Help: "least Edwards–Sinsky μ over the sweep"},
 		},
 	},
-	Run: runStabilityUnconditional,
+	Run:  runStabilityUnconditional,
+	Wide: true,
 }
 
 func runStabilityUnconditional(p *engine.Pass) error {

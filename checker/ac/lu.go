@@ -55,6 +55,7 @@ type sparse struct {
 	room    []int        // capacity reserved for each row, from its first column
 	buf     []complex128 // the block the rows were cut from
 	piv, nz []int        // factor's: the factors' row order (kept by them) and scratch
+	f       lu           // the factors factor returns (a later factor of m replaces them)
 }
 
 // newSparse allocates rows spanning lo[i] … hi[i] (every entry +0).
@@ -212,7 +213,8 @@ func (m *sparse) factor() (*lu, error) {
 			}
 		}
 	}
-	return &lu{n: n, piv: piv, rows: rows}, nil
+	m.f = lu{n: n, piv: piv, rows: rows}
+	return &m.f, nil
 }
 
 // solve returns x with A·x = b; b is left untouched.
@@ -295,23 +297,86 @@ func (f *lu) solvePart(dst, b []complex128, stop int) []complex128 {
 func abs1(z complex128) float64 { return math.Abs(real(z)) + math.Abs(imag(z)) }
 
 // invert returns the inverse of the small m×m matrix a (row-major); a is
-// destroyed.
+// destroyed. It eliminates a in place, densely, doing exactly the arithmetic
+// of factor and solveInto in their order (the same pivots, the same skipped
+// zeros), so the inverse is bit for bit theirs, without their row spans and
+// allocations: every transformer inverts its winding matrix at every
+// frequency of every sweep.
 func invert(a []complex128, m int) ([]complex128, error) {
-	f, err := factor(a, m)
-	if err != nil {
-		return nil, err
+	var pivBuf [8]int
+	var xBuf [8]complex128
+	piv, x := pivBuf[:0], xBuf[:0]
+	if m > len(pivBuf) {
+		piv, x = make([]int, 0, m), make([]complex128, 0, m)
 	}
-	inv := make([]complex128, m*m)
-	e := make([]complex128, m)
-	for j := 0; j < m; j++ {
-		clear(e)
-		e[j] = 1
-		col := f.solve(e)
-		for i, v := range col {
-			inv[i*m+j] = v
+	piv, x = piv[:m], x[:m]
+	for i := range piv {
+		piv[i] = i
+	}
+	for k := 0; k < m; k++ {
+		p, best := k, -1.0
+		for i := k; i < m; i++ {
+			if v := abs1(a[i*m+k]); v > best {
+				p, best = i, v
+			}
+		}
+		if best == 0 || math.IsNaN(best) || math.IsInf(best, 0) {
+			return nil, errSingular
+		}
+		if p != k {
+			for j := range m {
+				a[k*m+j], a[p*m+j] = a[p*m+j], a[k*m+j]
+			}
+			piv[k], piv[p] = piv[p], piv[k]
+		}
+		rk := a[k*m : (k+1)*m]
+		inv := 1 / rk[k]
+		for i := k + 1; i < m; i++ {
+			ri := a[i*m : (i+1)*m]
+			mult := ri[k]
+			if mult == 0 {
+				continue
+			}
+			mult *= inv
+			ri[k] = mult
+			for j := k + 1; j < m; j++ {
+				if rk[j] != 0 {
+					ri[j] -= mult * rk[j]
+				}
+			}
 		}
 	}
-	return inv, nil
+	out := make([]complex128, m*m)
+	for col := range m {
+		for i, p := range piv {
+			x[i] = 0
+			if p == col {
+				x[i] = 1
+			}
+		}
+		for i := 1; i < m; i++ {
+			s := x[i]
+			for j := 0; j < i; j++ {
+				if v := a[i*m+j]; v != 0 {
+					s -= v * x[j]
+				}
+			}
+			x[i] = s
+		}
+		for i := m - 1; i >= 0; i-- {
+			s := x[i]
+			for j := i + 1; j < m; j++ {
+				if v := a[i*m+j]; v != 0 {
+					s -= v * x[j]
+				}
+			}
+			x[i] = s / a[i*m+i]
+		}
+		for i, v := range x {
+			out[i*m+col] = v
+		}
+	}
+	return out, nil
 }
 
 // finite reports whether z has no NaN or infinite part.

@@ -2,132 +2,90 @@ package check
 
 import (
 	"fmt"
-	"math/rand"
+	"runtime"
 	"testing"
 	"time"
 
 	"github.com/BurntSushi/toml"
 
 	"headroom/checker/corners"
+	"headroom/checker/corpus"
 	"headroom/checker/ruleset"
 	"headroom/rules"
 )
 
-// generated returns n circuit files: a divider-biased 2N3904 stage with a
-// toroid output transformer, its values drawn from the E12 series with a
-// fixed seed (invented demo values, for timing only).
-func generated(n int) [][]byte {
-	rng := rand.New(rand.NewSource(1))
-	e12 := []float64{1.0, 1.2, 1.5, 1.8, 2.2, 2.7, 3.3, 3.9, 4.7, 5.6, 6.8, 8.2}
-	pick := func(decade float64) string { return fmt.Sprintf("%g", e12[rng.Intn(len(e12))]*decade) }
-	out := make([][]byte, n)
-	for i := range out {
-		out[i] = []byte(fmt.Sprintf(`[circuit]
-name = "generated preamp %d"
-band = ["7MHz", "7.3MHz"]
-ambient = ["0C", "45C"]
-
-[supplies.vcc]
-volts = "12V"
-range = ["11V", "13.8V"]
-
-[ports.in]
-net = "rf_in"
-direction = "in"
-
-[ports.out]
-net = "rf_out"
-direction = "out"
-
-[parts.C1]
-kind = "capacitor"
-value = "%sn"
-nets = ["rf_in", "base"]
-
-[parts.R1]
-kind = "resistor"
-value = "%s"
-nets = ["vcc", "base"]
-
-[parts.R2]
-kind = "resistor"
-value = "%s"
-nets = ["base", "gnd"]
-
-[parts.Q1]
-kind = "npn"
-device = "2N3904"
-nets = { collector = "coll", base = "base", emitter = "emit" }
-
-[parts.R3]
-kind = "resistor"
-value = "%s"
-nets = ["emit", "gnd"]
-
-[parts.C2]
-kind = "capacitor"
-value = "%sn"
-nets = ["emit", "gnd"]
-
-[parts.T1]
-kind = "transformer"
-core = "toroid-9.5x4.75x3.25-mu800"
-windings.primary = { turns = %d, nets = ["vcc", "coll"] }
-windings.secondary = { turns = %d, nets = ["rf_out", "gnd"] }
-
-[parts.C3]
-kind = "capacitor"
-value = "100n"
-nets = ["vcc", "gnd"]
-`, i, pick(10), pick(1e4), pick(1e3), pick(100), pick(100), 6+rng.Intn(6), 3+rng.Intn(3)))
-	}
-	return out
-}
-
-// BenchmarkCheckFolder checks 200 generated circuit files per iteration and
-// reports files per second and how many times slower that is than merely
-// decoding the same TOML.
-func BenchmarkCheckFolder(b *testing.B) {
-	files := generated(200)
+// BenchmarkCorpus decodes and checks the same 225 generated files of every
+// configuration (checker/corpus.Mixed) in one run, with every rule of the
+// default set, and reports what checking costs against merely decoding the
+// TOML: nominal-x-decode and worst-x-decode (corners = "worst", stability
+// included, every offered fix checked on the whole circuit as check does),
+// worst-nofixcheck-x-decode (the same without the fix check, which searches
+// the worst case of each fixed file again), and the time and allocations of
+// one file's worst-case check. Run it on one core (-cpu 1); DEVELOPERS.md
+// has the goals and the figures.
+func BenchmarkCorpus(b *testing.B) {
+	files := corpus.Mixed(225)
 	all := rules.All()
-	for _, mode := range []string{"nominal", "worst"} {
-		b.Run(mode, func(b *testing.B) {
-			set, err := (&ruleset.Loader{Rules: all}).Load("default")
-			if err != nil {
-				b.Fatal(err)
-			}
-			set.Corners = mode
-			start := time.Now()
-			for range 5 {
-				for _, f := range files {
-					var m map[string]any
-					toml.Decode(string(f), &m)
-				}
-			}
-			decode := time.Since(start) / 5
-			var checked time.Duration
-			for b.Loop() {
-				t0 := time.Now()
-				r := NewRunner(Options{Rules: all, Set: set, Worst: corners.Worst, Today: "2026-12-02"})
-				for i, f := range files {
-					if res := r.File(fmt.Sprintf("gen%03d.toml", i), f); res.Err != nil {
-						b.Fatal(res.Err)
-					}
-				}
-				checked += time.Since(t0)
-			}
-			per := checked / time.Duration(b.N)
-			b.ReportMetric(float64(len(files))/per.Seconds(), "files/s")
-			b.ReportMetric(per.Seconds()/decode.Seconds(), "x-decode")
-		})
+	runner := func(mode string, noFixCheck bool) *Runner {
+		set, err := (&ruleset.Loader{Rules: all}).Load("default")
+		if err != nil {
+			b.Fatal(err)
+		}
+		set.Corners = mode
+		return NewRunner(Options{Rules: all, Set: set, Worst: corners.Worst, Today: "2026-12-02", NoFixCheck: noFixCheck})
 	}
+	// Decoding and each kind of check take turns file by file, so that all
+	// of them see the same load on a shared machine.
+	const decodes = 20 // decoding is quick: repeat it for a steady time
+	var decode, nominal, worst, bare time.Duration
+	var mallocs uint64
+	var ms runtime.MemStats
+	for b.Loop() {
+		nom, wst, nofix := runner("nominal", false), runner("worst", false), runner("worst", true)
+		for i, f := range files {
+			name := fmt.Sprintf("gen%03d.toml", i)
+			t0 := time.Now()
+			for range decodes {
+				var m map[string]any
+				if _, err := toml.Decode(string(f), &m); err != nil {
+					b.Fatal(err)
+				}
+			}
+			t1 := time.Now()
+			decode += t1.Sub(t0) / decodes
+			if res := nom.File(name, f); res.Err != nil {
+				b.Fatalf("%v\n%s", res.Err, f)
+			}
+			t2 := time.Now()
+			nominal += t2.Sub(t1)
+			if res := nofix.File(name, f); res.Err != nil {
+				b.Fatal(res.Err)
+			}
+			t3 := time.Now()
+			bare += t3.Sub(t2)
+			runtime.ReadMemStats(&ms)
+			before := ms.Mallocs
+			t3 = time.Now()
+			if res := wst.File(name, f); res.Err != nil {
+				b.Fatal(res.Err)
+			}
+			worst += time.Since(t3)
+			runtime.ReadMemStats(&ms)
+			mallocs += ms.Mallocs - before
+		}
+	}
+	b.ReportMetric(nominal.Seconds()/decode.Seconds(), "nominal-x-decode")
+	b.ReportMetric(worst.Seconds()/decode.Seconds(), "worst-x-decode")
+	b.ReportMetric(bare.Seconds()/decode.Seconds(), "worst-nofixcheck-x-decode")
+	b.ReportMetric(worst.Seconds()/float64(b.N)/float64(len(files))*1e3, "worst-ms/file")
+	b.ReportMetric(float64(mallocs)/float64(b.N)/float64(len(files)), "worst-allocs/file")
 }
 
 // BenchmarkFixCheck measures what the whole-circuit check of every fix
 // costs: the same 40 generated files checked with it and without it in one
 // run, reported as a ratio (x-unchecked) and as fixes checked per file.
 func BenchmarkFixCheck(b *testing.B) {
-	files := generated(40)
+	files := corpus.Preamps(40)
 	all := rules.All()
 	for _, mode := range []string{"nominal", "worst"} {
 		b.Run(mode, func(b *testing.B) {

@@ -174,7 +174,7 @@ func (r *Runner) File(path string, data []byte) Result {
 		return res
 	}
 	cfg := set.Config(r.opt.Rules)
-	j, err := r.judge(c, cfg)
+	j, err := r.judge(c, cfg, true)
 	if err != nil {
 		res.Err = err
 		return res
@@ -187,7 +187,7 @@ func (r *Runner) File(path string, data []byte) Result {
 			if err != nil {
 				return nil, nil, err
 			}
-			j2, err := r.judge(c2, cfg)
+			j2, err := r.judge(c2, cfg, false) // a fix's check reads no fix of the fixed file
 			if err != nil {
 				return nil, nil, err
 			}
@@ -201,8 +201,8 @@ func (r *Runner) File(path string, data []byte) Result {
 
 // judge analyses the circuit and returns its failing findings with
 // severities, the nominal case, and the rules left unjudged in a broken
-// circuit.
-func (r *Runner) judge(c *circuit.Circuit, cfg *engine.Config) (judged, error) {
+// circuit. fixes asks for the findings' fixes to be worked out too.
+func (r *Runner) judge(c *circuit.Circuit, cfg *engine.Config, fixes bool) (judged, error) {
 	topo := topology.Analyze(c)
 	var j judged
 	// Rules with nothing to judge in this kind of circuit are left out
@@ -228,7 +228,7 @@ func (r *Runner) judge(c *circuit.Circuit, cfg *engine.Config) (judged, error) {
 	if len(j.notJudged) > 0 {
 		cfg = withoutRules(cfg, j.notJudged)
 	}
-	fs, err := r.judgeCase(c, topo, nominal, cfg)
+	fs, err := r.judgeCase(c, topo, nominal, cfg, fixes)
 	j.findings, j.nominal = fs, nominal
 	return j, err
 }
@@ -274,8 +274,10 @@ func withoutRules(cfg *engine.Config, ids []string) *engine.Config {
 	return &d
 }
 
-// judgeCase measures the analysed circuit under cfg.
-func (r *Runner) judgeCase(c *circuit.Circuit, topo *topology.Topology, nominal *analysis.Case, cfg *engine.Config) ([]engine.Finding, error) {
+// judgeCase measures the analysed circuit under cfg; fixes asks for the
+// failing findings' fixes (a rule's fix can cost as much as the check: the
+// stability fixes analyse the case again for every candidate value).
+func (r *Runner) judgeCase(c *circuit.Circuit, topo *topology.Topology, nominal *analysis.Case, cfg *engine.Config, fixes bool) ([]engine.Finding, error) {
 	var fs []engine.Finding
 	var err error
 	if cfg.Corners == "worst" {
@@ -296,7 +298,9 @@ func (r *Runner) judgeCase(c *circuit.Circuit, topo *topology.Topology, nominal 
 			continue
 		}
 		f.ResolveMessage()
-		f.ResolveFix()
+		if fixes {
+			f.ResolveFix()
+		}
 		f.Severity = cfg.Severity[f.Rule]
 		if f.Absolute > 1 {
 			f.Severity = engine.Error

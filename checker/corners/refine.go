@@ -1,6 +1,7 @@
 package corners
 
 import (
+	"slices"
 	"sort"
 
 	"headroom/checker/analysis"
@@ -59,10 +60,18 @@ func refine(c *circuit.Circuit, topo *topology.Topology, nominal *analysis.Case,
 		walks = append(walks, w)
 		want[k] = true
 	}
+	walks = append(walks, wideStarts(walks, items, order)...)
 	changed := map[engine.Key]item{} // the items the walk moved, with where they started
 	for round := 0; round < maxRounds && len(walks) > 0; round++ {
 		var reqs []request
 		for _, w := range walks {
+			if w.start != nil {
+				if _, ok := w.seen[signature(w.start)]; !ok {
+					reqs = append(reqs, request{w, w.start})
+					w.seen[signature(w.start)] = engine.Finding{} // queued
+				}
+				continue
+			}
 			for _, st := range w.frontier {
 				for _, nb := range w.neighbours(st) {
 					if _, ok := w.seen[signature(nb)]; !ok {
@@ -74,7 +83,11 @@ func refine(c *circuit.Circuit, topo *topology.Topology, nominal *analysis.Case,
 		}
 		cases, where := pack(reqs, len(box))
 		err := inOrder(len(cases), func(v int, buf []engine.Finding) ([]engine.Finding, error) {
-			return engine.MeasureAppend(buf, analysis.Run(at(c, box, cases[v]), topo), nominal, cfg)
+			ids := map[string]bool{}
+			for _, r := range where[v] {
+				ids[r.w.key.Rule] = true
+			}
+			return engine.MeasureAppend(buf, analysis.Run(at(c, box, cases[v]), topo), nominal, only(cfg, ids))
 		}, func(v int, fs []engine.Finding) {
 			got := make(map[engine.Key]engine.Finding, len(want))
 			for j := range fs {
@@ -101,6 +114,12 @@ func refine(c *circuit.Circuit, topo *topology.Topology, nominal *analysis.Case,
 					changed[w.key] = start
 				}
 			}
+			if w.left > 0 {
+				w.left--
+				if w.left == 0 {
+					w.frontier = nil
+				}
+			}
 			if len(w.frontier) > 0 {
 				next = append(next, w)
 			}
@@ -119,6 +138,50 @@ type walk struct {
 	figure   []engine.Finding          // the item's finding at each frontier case
 	seen     map[string]engine.Finding // cases judged (or queued) for this item
 	walked   map[string]bool           // cases already walked from
+	start    []int8                    // a case to be judged and walked on from first, nil once it is
+	left     int                       // rounds left to a walk with a budget of its own, 0 without
+}
+
+// wideRounds is the budget of a Wide item's walk from another item's case:
+// the round that judges the start and two steps on, each to the worst flip
+// only (the extra walks must not multiply the search's cost).
+const wideRounds = 3
+
+// maxWideLive bounds the extra walks to items of at most this many live
+// parameters (a one- or two-stage amplifier's box): each step of a walk
+// judges a flip of every live parameter, each flip a sweep or a pole solve,
+// which on a large circuit would cost more than the rest of the search.
+const maxWideLive = 32
+
+// wideStarts are the extra walks of Wide items: each also walks on from
+// every case where another Wide item is worst (the stability margins follow
+// one loop, so where one is worst is a good place to look for the other),
+// as a walk of its own so that its beam is its own, for wideRounds rounds.
+// The walk's live parameters include those the start sets.
+func wideStarts(walks []*walk, items map[engine.Key]*item, order []engine.Key) []*walk {
+	var out []*walk
+	for _, w := range walks {
+		if !w.it.wide {
+			continue
+		}
+		for _, k := range order {
+			o := items[k]
+			if o == w.it || !o.wide || signature(o.state) == signature(w.it.state) {
+				continue
+			}
+			st := append([]int8(nil), o.state...)
+			x := &walk{key: w.key, it: w.it, start: st, seen: map[string]engine.Finding{}, left: wideRounds}
+			for i := range st {
+				if st[i] != 0 || slices.Contains(w.live, i) {
+					x.live = append(x.live, i)
+				}
+			}
+			if len(x.live) <= maxWideLive {
+				out = append(out, x)
+			}
+		}
+	}
+	return out
 }
 
 // neighbours are the cases one step from st over the walk's live parameters:
@@ -145,6 +208,19 @@ func (w *walk) step() bool {
 	if w.walked == nil {
 		w.walked = map[string]bool{}
 	}
+	if st := w.start; st != nil { // the start was judged this round
+		w.start = nil
+		f, ok := w.seen[signature(st)]
+		if !ok || !f.HasMetric {
+			return false // no frontier: the walk ends
+		}
+		w.frontier, w.figure = [][]int8{st}, []engine.Finding{f}
+		if engine.Worse(&f, &w.it.best) && moved(&f, &w.it.best) {
+			w.it.best, w.it.state = f, st
+			return true
+		}
+		return false
+	}
 	changed := false
 	var cands [][]int8
 	var figs []engine.Finding
@@ -170,7 +246,11 @@ func (w *walk) step() bool {
 	}
 	sort.SliceStable(idx, func(a, b int) bool { return engine.Worse(&figs[idx[a]], &figs[idx[b]]) })
 	w.frontier, w.figure = w.frontier[:0], w.figure[:0]
-	for _, i := range idx[:min(beam, len(idx))] {
+	width := beam
+	if w.left > 0 {
+		width = 1 // a walk from another item's case follows its worst flip only
+	}
+	for _, i := range idx[:min(width, len(idx))] {
 		w.frontier, w.figure = append(w.frontier, cands[i]), append(w.figure, figs[i])
 	}
 	return changed
@@ -241,7 +321,8 @@ func settle(c *circuit.Circuit, topo *topology.Topology, nominal *analysis.Case,
 		byCase[sig] = append(byCase[sig], k)
 	}
 	return inOrder(len(sigs), func(v int, buf []engine.Finding) ([]engine.Finding, error) {
-		return engine.MeasureAppend(buf, analysis.Run(at(c, box, items[byCase[sigs[v]][0]].state), topo), nominal, cfg)
+		keys := byCase[sigs[v]]
+		return engine.MeasureAppend(buf, analysis.Run(at(c, box, items[keys[0]].state), topo), nominal, only(cfg, rulesOf(keys)))
 	}, func(v int, fs []engine.Finding) {
 		keys := byCase[sigs[v]]
 		state := items[keys[0]].state
@@ -256,6 +337,30 @@ func settle(c *circuit.Circuit, topo *topology.Topology, nominal *analysis.Case,
 			}
 		}
 	})
+}
+
+// only is cfg restricted to the rules with the given ids: a case analysed
+// for a few items runs only their rules, not every rule of the set (the
+// stability sweep, a few hundred factorisations, above all). Rules judge a
+// case independently of each other, so the items' findings are the same.
+func only(cfg *engine.Config, ids map[string]bool) *engine.Config {
+	sub := *cfg
+	sub.Rules = make([]*engine.Rule, 0, len(ids))
+	for _, r := range cfg.Rules {
+		if ids[r.ID] {
+			sub.Rules = append(sub.Rules, r)
+		}
+	}
+	return &sub
+}
+
+// rulesOf is the set of the items' rule ids.
+func rulesOf(keys []engine.Key) map[string]bool {
+	ids := make(map[string]bool, len(keys))
+	for _, k := range keys {
+		ids[k.Rule] = true
+	}
+	return ids
 }
 
 // near reports whether a finding fails or comes within NearLimit of its limit.

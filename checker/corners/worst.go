@@ -27,6 +27,7 @@ type item struct {
 	dirs   []int8             // per parameter: +1 high end hurts, −1 low end, 0 no effect
 	state  []int8             // the case best was found at: per parameter −1 low, 0 nominal, +1 high
 	hold   bool               // supplies stay nominal for this item
+	wide   bool               // engine.Rule.Wide: walked from the other wide items' cases too
 }
 
 // Worst judges every item at the most adverse case of the box and returns
@@ -44,9 +45,9 @@ func search(c *circuit.Circuit, topo *topology.Topology, nominal *analysis.Case,
 	if err != nil {
 		return nil, err
 	}
-	hold := map[string]bool{}
+	hold, wide := map[string]bool{}, map[string]bool{}
 	for _, r := range cfg.Rules {
-		hold[r.ID] = r.HoldSupplies
+		hold[r.ID], wide[r.ID] = r.HoldSupplies, r.Wide
 	}
 	items := map[engine.Key]*item{}
 	var order []engine.Key
@@ -54,7 +55,7 @@ func search(c *circuit.Circuit, topo *topology.Topology, nominal *analysis.Case,
 		k := engine.KeyOf(f)
 		it := items[k]
 		if it == nil {
-			it = &item{best: *f, corner: map[string]float64{}, dirs: make([]int8, len(box)), state: make([]int8, len(box)), hold: hold[f.Rule]}
+			it = &item{best: *f, corner: map[string]float64{}, dirs: make([]int8, len(box)), state: make([]int8, len(box)), hold: hold[f.Rule], wide: wide[f.Rule]}
 			items[k] = it
 			order = append(order, k)
 		}
@@ -117,8 +118,8 @@ func search(c *circuit.Circuit, topo *topology.Topology, nominal *analysis.Case,
 		vertices[sig] = append(vertices[sig], k)
 	}
 	err = inOrder(len(vorder), func(v int, buf []engine.Finding) ([]engine.Finding, error) {
-		dirs := items[vertices[vorder[v]][0]].dirs
-		return engine.MeasureAppend(buf, analysis.Run(at(c, box, dirs), topo), nominal, cfg)
+		keys := vertices[vorder[v]]
+		return engine.MeasureAppend(buf, analysis.Run(at(c, box, items[keys[0]].dirs), topo), nominal, only(cfg, rulesOf(keys)))
 	}, func(v int, vf []engine.Finding) {
 		keys := vertices[vorder[v]]
 		dirs := items[keys[0]].dirs

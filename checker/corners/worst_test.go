@@ -250,5 +250,26 @@ func BenchmarkWorst(b *testing.B) {
 				b.ReportMetric(float64(len(Box(c))), "params")
 			})
 		}
+		// One analysed case alone (every parameter at its high end, every
+		// rule): its allocations are the per-case figure of docs/speed.md.
+		c := testCircuit(stages)
+		b.Run(fmt.Sprintf("parts=%d/case", len(c.Parts)), func(b *testing.B) {
+			topo := topology.Analyze(c)
+			nominal := analysis.Run(c, topo)
+			box := Box(c)
+			high := make([]int8, len(box))
+			for i := range high {
+				high[i] = +1
+			}
+			b.ReportAllocs()
+			var buf []engine.Finding
+			for b.Loop() {
+				fs, err := engine.MeasureAppend(buf[:0], analysis.Run(at(c, box, high), topo), nominal, cfg)
+				if err != nil {
+					b.Fatal(err)
+				}
+				buf = fs
+			}
+		})
 	}
 }

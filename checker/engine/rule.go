@@ -38,6 +38,13 @@ type Rule struct {
 	// Static rule it is still judged when net.connectivity finds the wiring
 	// broken.
 	FromFile bool
+	// Wide marks a rule whose figure is a least value over frequencies or
+	// natural frequencies that move with every value (the stability
+	// margins): it can sit in a hollow of the box that no single parameter
+	// leads out of. The worst-case search's local search then also walks
+	// on from the cases where the other Wide rules' items are worst, since
+	// those figures follow the same loop.
+	Wide bool
 	// FixMoves names the circuit measures this rule's fix is meant to move
 	// (MoveIC: a transistor's nominal collector current; MoveGain: the band
 	// gain). The whole-circuit check of a fix (checker/check) lets those

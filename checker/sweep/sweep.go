@@ -101,6 +101,7 @@ func Run(c *circuit.Circuit, r *ac.Result) (*Result, error) {
 func RunAt(r *ac.Result, freqs []float64) (*Result, error) {
 	res := &Result{Points: make([]Point, 0, len(freqs)), MuMin: math.Inf(1), ReMin: math.Inf(1)}
 	first := true
+	gains := make([]float64, len(freqs)) // the points' GainDB, in one block
 	err := r.PortsEach(freqs, func(pp ac.PortPoint) error {
 		if first {
 			first = false
@@ -115,7 +116,7 @@ func RunAt(r *ac.Result, freqs []float64) (*Result, error) {
 				return errNoPort
 			}
 		}
-		pt := point(pp, res.TwoPort, res.OnePort)
+		pt := point(pp, res.TwoPort, res.OnePort, &gains[len(res.Points)])
 		if res.TwoPort && pt.Mu < res.MuMin {
 			res.MuMin, res.MuMinHz = pt.Mu, pp.Frequency
 		}
@@ -140,8 +141,9 @@ func RunAt(r *ac.Result, freqs []float64) (*Result, error) {
 	return res, nil
 }
 
-// point turns one two-port into S-parameters and stability figures.
-func point(pp ac.PortPoint, two bool, one string) Point {
+// point turns one two-port into S-parameters and stability figures; gain
+// holds the point's GainDB when it has one.
+func point(pp ac.PortPoint, two bool, one string, gain *float64) Point {
 	pt := Point{Frequency: pp.Frequency}
 	if !two {
 		z, z0 := pp.Z[0][0], pp.RS
@@ -159,8 +161,8 @@ func point(pp ac.PortPoint, two bool, one string) Point {
 	pt.Mu, pt.MuPrime, pt.K, pt.Delta = Figures(pt.S)
 	pt.ReturnLossDB = returnLoss(s11)
 	if a := cmplx.Abs(s21); a > 0 {
-		g := 20 * math.Log10(a)
-		pt.GainDB = &g
+		*gain = 20 * math.Log10(a)
+		pt.GainDB = gain
 	}
 	// The in port's impedance with the out port loaded by RL.
 	z := pp.Z
