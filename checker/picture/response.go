@@ -145,7 +145,7 @@ func logX(p *plot.Plot, freq []float64) {
 
 func grid() *plotter.Grid {
 	g := plotter.NewGrid()
-	g.Vertical.Color, g.Horizontal.Color = gridColour, gridColour
+	g.Vertical.Color, g.Horizontal.Color = GridColour, GridColour
 	g.Vertical.Width, g.Horizontal.Width = vg.Points(0.5), vg.Points(0.5)
 	return g
 }

@@ -1,0 +1,549 @@
+package main
+
+import (
+	"bytes"
+	"encoding/base64"
+	"encoding/json"
+	"encoding/xml"
+	"image/png"
+	"math"
+	"os"
+	"os/exec"
+	"path/filepath"
+	"regexp"
+	"slices"
+	"sort"
+	"strconv"
+	"strings"
+	"testing"
+	"time"
+
+	"headroom/checker/analysis"
+	"headroom/checker/circuit"
+	"headroom/checker/engine"
+	"headroom/checker/picture"
+	"headroom/checker/ruleset"
+	"headroom/checker/topology"
+	"headroom/rules"
+)
+
+// The pictures are checked by their numbers and structure, never byte for
+// byte (fonts and the plotting library move): each SVG is parsed as XML,
+// the axes' transform is recovered from the grid lines and tick labels the
+// picture itself carries, and what is plotted is mapped back through it.
+
+// runHere runs the command line in-process.
+func runHere(t *testing.T, args ...string) (string, string, int) {
+	t.Helper()
+	var out, errb strings.Builder
+	e := &env{stdin: strings.NewReader(""), stdout: &out, stderr: &errb, getenv: func(string) string { return "" }, today: "2026-01-01"}
+	code := e.run(args)
+	return out.String(), errb.String(), code
+}
+
+type svgPath struct {
+	pts          [][2]float64
+	stroke, fill string
+}
+
+type svgText struct {
+	x, y float64 // in the drawing's own coordinates (y up)
+	s    string
+}
+
+type svgDoc struct {
+	paths []svgPath
+	texts []svgText
+}
+
+var (
+	styleRe = regexp.MustCompile(`(fill|stroke):(#[0-9A-F]{6}|none)`)
+	numRe   = regexp.MustCompile(`-?[0-9.]+(e-?[0-9]+)?`)
+)
+
+// parseSVG reads the SVG as XML: every path's vertices (the back end writes
+// M and L commands with absolute coordinates, and Z) and every text.
+func parseSVG(t *testing.T, b []byte) svgDoc {
+	t.Helper()
+	if !bytes.Contains(b[:min(len(b), 200)], []byte(picture.Marker)) {
+		t.Fatalf("no marker comment at the top of the SVG")
+	}
+	var doc svgDoc
+	d := xml.NewDecoder(bytes.NewReader(b))
+	for {
+		tok, err := d.Token()
+		if err != nil {
+			if err.Error() == "EOF" {
+				break
+			}
+			t.Fatalf("SVG is not XML: %v", err)
+		}
+		se, ok := tok.(xml.StartElement)
+		if !ok {
+			continue
+		}
+		attr := map[string]string{}
+		for _, a := range se.Attr {
+			attr[a.Name.Local] = a.Value
+		}
+		switch se.Name.Local {
+		case "path":
+			p := svgPath{}
+			for _, m := range styleRe.FindAllStringSubmatch(attr["style"], -1) {
+				if m[1] == "fill" {
+					p.fill = m[2]
+				} else {
+					p.stroke = m[2]
+				}
+			}
+			for _, cmd := range regexp.MustCompile(`[ML][^MLZA]*`).FindAllString(attr["d"], -1) {
+				n := numRe.FindAllString(cmd, -1)
+				if len(n) != 2 {
+					continue
+				}
+				x, _ := strconv.ParseFloat(n[0], 64)
+				y, _ := strconv.ParseFloat(n[1], 64)
+				p.pts = append(p.pts, [2]float64{x, y})
+			}
+			doc.paths = append(doc.paths, p)
+		case "text":
+			var s string
+			if err := d.DecodeElement(&s, &se); err != nil {
+				t.Fatal(err)
+			}
+			x, _ := strconv.ParseFloat(attr["x"], 64)
+			y, _ := strconv.ParseFloat(attr["y"], 64)
+			doc.texts = append(doc.texts, svgText{x, -y, strings.TrimSpace(s)}) // text is flipped back: y is negated
+		}
+	}
+	return doc
+}
+
+// lines returns the straight two-point strokes of colour c: vertical ones
+// as (x, y0, y1) and horizontal ones as (y, x0, x1).
+func (d svgDoc) lines(c string) (vert, horiz [][3]float64) {
+	for _, p := range d.paths {
+		if p.stroke != c || len(p.pts) != 2 {
+			continue
+		}
+		a, b := p.pts[0], p.pts[1]
+		switch {
+		case a[0] == b[0]:
+			vert = append(vert, [3]float64{a[0], math.Min(a[1], b[1]), math.Max(a[1], b[1])})
+		case a[1] == b[1]:
+			horiz = append(horiz, [3]float64{a[1], math.Min(a[0], b[0]), math.Max(a[0], b[0])})
+		}
+	}
+	return vert, horiz
+}
+
+// fit is the least-squares line v = a + b·u.
+func fit(t *testing.T, u, v []float64) (a, b float64) {
+	t.Helper()
+	if len(u) < 2 || len(u) != len(v) {
+		t.Fatalf("cannot fit an axis to %d ticks and %d grid lines", len(u), len(v))
+	}
+	var su, sv, suu, suv float64
+	for i := range u {
+		su, sv, suu, suv = su+u[i], sv+v[i], suu+u[i]*u[i], suv+u[i]*v[i]
+	}
+	n := float64(len(u))
+	b = (n*suv - su*sv) / (n*suu - su*su)
+	a = (sv - b*su) / n
+	for i := range u {
+		if math.Abs(a+b*u[i]-v[i]) > 0.05 {
+			t.Fatalf("tick %g at %g is off the axis line (%g)", u[i], v[i], a+b*u[i])
+		}
+	}
+	return a, b
+}
+
+var unitScale = map[string]float64{"Hz": 1, "kHz": 1e3, "MHz": 1e6, "GHz": 1e9}
+
+type sweepJSON struct {
+	Band []struct {
+		Frequency float64 `json:"frequency"`
+	} `json:"band"`
+	Sweep []struct {
+		Frequency float64  `json:"frequency"`
+		GainDB    *float64 `json:"gain_db"`
+		VoltageDB *float64 `json:"voltage_gain_db"`
+		Return    float64  `json:"return_loss_db"`
+	} `json:"sweep"`
+}
+
+// TestResponseMapsBack: the response picture's transducer-gain, voltage-gain
+// and return-loss curves, read back through the axes drawn beside them, are
+// report --format json's swept numbers to 0.5 % at ten frequencies, and the
+// band's shading spans the band's edges.
+func TestResponseMapsBack(t *testing.T) {
+	circ, _ := filepath.Abs("../../testdata/circuits/two-stage-40m.toml")
+	dir := t.TempDir()
+	if out, errs, code := runHere(t, "plot", "--corners", "nominal", "-o", dir, circ); code != 0 {
+		t.Fatalf("plot: exit %d\n%s%s", code, out, errs)
+	}
+	js, errs, code := runHere(t, "report", "--corners", "nominal", "--format", "json", circ)
+	if code != 0 {
+		t.Fatalf("report: exit %d: %s", code, errs)
+	}
+	var rep sweepJSON
+	if err := json.Unmarshal([]byte(js), &rep); err != nil {
+		t.Fatal(err)
+	}
+	b, err := os.ReadFile(filepath.Join(dir, "two-stage-40m.response.svg"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	doc := parseSVG(t, b)
+	grid := picture.Hex(picture.GridColour)
+	vert, horiz := doc.lines(grid)
+	if len(vert) == 0 {
+		t.Fatal("no vertical grid lines")
+	}
+	// The upper panel is the one whose vertical grid lines reach highest.
+	top := vert[0]
+	for _, v := range vert {
+		if v[2] > top[2] {
+			top = v
+		}
+	}
+	y0, y1 := top[1], top[2]
+	var gx []float64
+	for _, v := range vert {
+		if v[1] == y0 && v[2] == y1 {
+			gx = append(gx, v[0])
+		}
+	}
+	var gy []float64
+	left := slices.Min(gx)
+	for _, h := range horiz {
+		if h[0] >= y0 && h[0] <= y1 {
+			gy = append(gy, h[0])
+		}
+	}
+	sort.Float64s(gx)
+	sort.Float64s(gy)
+	// Tick labels: frequencies below the upper panel, dB left of it.
+	fRe := regexp.MustCompile(`^([0-9.]+) (Hz|kHz|MHz|GHz)$`)
+	var fv, dbv []float64
+	for _, tx := range doc.texts {
+		if m := fRe.FindStringSubmatch(tx.s); m != nil && tx.y < y0 && tx.y > y0-30 {
+			v, _ := strconv.ParseFloat(m[1], 64)
+			fv = append(fv, math.Log10(v*unitScale[m[2]]))
+		}
+		if v, err := strconv.ParseFloat(tx.s, 64); err == nil && tx.x < left && tx.y > y0-10 && tx.y < y1+10 {
+			dbv = append(dbv, v)
+		}
+	}
+	sort.Float64s(fv)
+	sort.Float64s(dbv)
+	ax, bx := fit(t, fv, gx)
+	ay, by := fit(t, dbv, gy)
+	freqOf := func(x float64) float64 { return math.Pow(10, (x-ax)/bx) }
+	dbOf := func(y float64) float64 { return (y - ay) / by }
+
+	curve := func(c string) [][2]float64 {
+		var best [][2]float64
+		for _, p := range doc.paths {
+			if p.stroke == c && len(p.pts) > len(best) {
+				best = p.pts
+			}
+		}
+		return best
+	}
+	n := len(rep.Sweep)
+	for _, s := range []struct {
+		name   string
+		colour string
+		value  func(i int) (float64, bool)
+	}{
+		{"transducer gain", picture.Hex(picture.GainColour), func(i int) (float64, bool) {
+			g := rep.Sweep[i].GainDB
+			return deref(g), g != nil
+		}},
+		{"voltage gain", picture.Hex(picture.VoltageColour), func(i int) (float64, bool) {
+			g := rep.Sweep[i].VoltageDB
+			return deref(g), g != nil
+		}},
+		{"input return loss", picture.Hex(picture.ReturnColour), func(i int) (float64, bool) { return rep.Sweep[i].Return, true }},
+	} {
+		pts := curve(s.colour)
+		if len(pts) != n {
+			t.Fatalf("%s: %d points plotted, the sweep has %d", s.name, len(pts), n)
+		}
+		for k := range 10 {
+			i := k * (n - 1) / 9
+			want, ok := s.value(i)
+			if !ok {
+				t.Fatalf("%s missing at %g Hz", s.name, rep.Sweep[i].Frequency)
+			}
+			// The plotted vertex nearest the frequency, read back.
+			j := 0
+			for m := range pts {
+				if math.Abs(freqOf(pts[m][0])/rep.Sweep[i].Frequency-1) < math.Abs(freqOf(pts[j][0])/rep.Sweep[i].Frequency-1) {
+					j = m
+				}
+			}
+			f, db := freqOf(pts[j][0]), dbOf(pts[j][1])
+			if math.Abs(f/rep.Sweep[i].Frequency-1) > 0.005 {
+				t.Errorf("%s: plotted frequency %g, swept %g", s.name, f, rep.Sweep[i].Frequency)
+			}
+			if math.Abs(db-want) > 0.005*math.Max(math.Abs(want), 1) {
+				t.Errorf("%s at %g Hz: plotted %.4g dB, swept %.4g dB", s.name, rep.Sweep[i].Frequency, db, want)
+			}
+		}
+	}
+	// The band's shading: its filled polygon in the upper panel spans the
+	// band's first to last frequency.
+	found := false
+	for _, p := range doc.paths {
+		if p.fill != picture.Hex(picture.BandColour) || len(p.pts) < 4 || p.pts[0][1] < y0-1 {
+			continue
+		}
+		xs := []float64{}
+		for _, q := range p.pts {
+			xs = append(xs, q[0])
+		}
+		lo, hi := freqOf(slices.Min(xs)), freqOf(slices.Max(xs))
+		if p.pts[0][1] > y1+1 || hi > rep.Sweep[n-1].Frequency*1.001 {
+			continue // the legend's swatch
+		}
+		found = true
+		b0, b1 := rep.Band[0].Frequency, rep.Band[len(rep.Band)-1].Frequency
+		if math.Abs(lo/b0-1) > 0.005 || math.Abs(hi/b1-1) > 0.005 {
+			t.Errorf("band shading spans %g to %g Hz, the band is %g to %g Hz", lo, hi, b0, b1)
+		}
+		break
+	}
+	if !found {
+		t.Error("no band shading in the upper panel")
+	}
+}
+
+func deref(p *float64) float64 {
+	if p == nil {
+		return math.NaN()
+	}
+	return *p
+}
+
+// TestMarginsListEveryItem: every item the rules judge (engine.Evaluate on
+// the nominal analysis, as the engine documents it) is a row of the margin
+// chart exactly once, under its rule's heading, and the chart has no other
+// row.
+func TestMarginsListEveryItem(t *testing.T) {
+	for _, name := range []string{"two-stage-40m.toml", "pnp-160m.toml"} {
+		circ, _ := filepath.Abs("../../testdata/circuits/" + name)
+		dir := t.TempDir()
+		if out, errs, code := runHere(t, "plot", "--corners", "nominal", "-o", dir, circ); code != 0 {
+			t.Fatalf("plot: exit %d\n%s%s", code, out, errs)
+		}
+		b, err := os.ReadFile(filepath.Join(dir, strings.TrimSuffix(name, ".toml")+".margins.svg"))
+		if err != nil {
+			t.Fatal(err)
+		}
+		doc := parseSVG(t, b)
+
+		// What the rules judge, from the engine directly.
+		set, err := (&ruleset.Loader{Rules: rules.All(), ReadFile: os.ReadFile}).Load("default")
+		if err != nil {
+			t.Fatal(err)
+		}
+		c, err := circuit.Load(circ, circuit.Options{Libraries: set.Libraries})
+		if err != nil {
+			t.Fatal(err)
+		}
+		cfg := set.Config(rules.All())
+		fs, err := engine.Evaluate(analysis.Run(c, topology.Analyze(c)), nil, cfg)
+		if err != nil {
+			t.Fatal(err)
+		}
+		want := map[string]int{}
+		ruleIDs := map[string]bool{}
+		for _, f := range fs {
+			label := f.Part
+			if label == "" {
+				label = "circuit"
+			}
+			if f.Bound != "" {
+				label += " " + f.Bound
+			}
+			want[f.Rule+" / "+label]++
+			ruleIDs[f.Rule] = true
+		}
+
+		// The rows: the texts left of the plot, top to bottom.
+		vert, _ := doc.lines(picture.Hex(picture.GridColour))
+		left, y0, y1 := math.Inf(1), math.Inf(1), math.Inf(-1)
+		for _, v := range vert {
+			left, y0, y1 = math.Min(left, v[0]), math.Min(y0, v[1]), math.Max(y1, v[2])
+		}
+		var rows []svgText
+		for _, tx := range doc.texts {
+			if tx.x < left && tx.y > y0 && tx.y < y1 {
+				rows = append(rows, tx)
+			}
+		}
+		sort.Slice(rows, func(i, j int) bool { return rows[i].y > rows[j].y })
+		got := map[string]int{}
+		rule := ""
+		for _, r := range rows {
+			if ruleIDs[r.s] {
+				if rule == r.s {
+					t.Errorf("%s: heading %s twice", name, r.s)
+				}
+				rule = r.s
+				continue
+			}
+			if rule == "" {
+				t.Fatalf("%s: row %q before any rule heading", name, r.s)
+			}
+			got[rule+" / "+strings.TrimSuffix(r.s, " (waived)")]++
+		}
+		for k, n := range want {
+			if got[k] != n {
+				t.Errorf("%s: %s judged %d times, on the chart %d times", name, k, n, got[k])
+			}
+		}
+		for k, n := range got {
+			if want[k] == 0 {
+				t.Errorf("%s: chart row %s (%d) that no rule judged", name, k, n)
+			}
+		}
+		if len(want) == 0 {
+			t.Fatalf("%s: no judged items", name)
+		}
+	}
+}
+
+// TestPlotKeepsOtherFiles: plot never overwrites a file it did not write
+// unless --force, and replaces its own.
+func TestPlotKeepsOtherFiles(t *testing.T) {
+	circ, _ := filepath.Abs("../../testdata/circuits/pnp-160m.toml")
+	dir := t.TempDir()
+	foreign := filepath.Join(dir, "pnp-160m.margins.svg")
+	write(t, dir, "pnp-160m.margins.svg", "<svg>someone's drawing</svg>\n")
+	if _, errs, code := runHere(t, "plot", "--corners", "nominal", "-o", dir, circ); code != 2 || !strings.Contains(errs, "--force") {
+		t.Fatalf("plot over a foreign file: exit %d, %q", code, errs)
+	}
+	if b, _ := os.ReadFile(foreign); string(b) != "<svg>someone's drawing</svg>\n" {
+		t.Fatal("the foreign file was changed")
+	}
+	if _, err := os.Stat(filepath.Join(dir, "pnp-160m.response.svg")); err == nil {
+		t.Fatal("a picture was written although the run stopped")
+	}
+	if _, errs, code := runHere(t, "plot", "--corners", "nominal", "--force", "-o", dir, circ); code != 0 {
+		t.Fatalf("plot --force: exit %d: %s", code, errs)
+	}
+	if _, errs, code := runHere(t, "plot", "--corners", "nominal", "-o", dir, circ); code != 0 {
+		t.Fatalf("plot over its own files: exit %d: %s", code, errs)
+	}
+}
+
+// TestReportEmbedsPictures: Markdown and HTML carry the three pictures as
+// data: URIs that decode to headroom's SVG; --pictures none leaves them out.
+func TestReportEmbedsPictures(t *testing.T) {
+	circ, _ := filepath.Abs("../../testdata/circuits/two-stage-40m.toml")
+	uri := regexp.MustCompile(`data:image/svg\+xml;base64,([A-Za-z0-9+/=]+)`)
+	for _, format := range []string{"markdown", "html"} {
+		out, errs, code := runHere(t, "report", "--corners", "nominal", "--format", format, circ)
+		if code != 0 {
+			t.Fatalf("%s: exit %d: %s", format, code, errs)
+		}
+		ms := uri.FindAllStringSubmatch(out, -1)
+		if len(ms) != 3 {
+			t.Fatalf("%s: %d embedded pictures, want 3", format, len(ms))
+		}
+		for _, m := range ms {
+			b, err := base64.StdEncoding.DecodeString(m[1])
+			if err != nil {
+				t.Fatal(err)
+			}
+			parseSVG(t, b)
+		}
+		if strings.Contains(out, "http://") && format == "html" && strings.Count(out, "http://") != strings.Count(out, "http://www.w3.org") {
+			t.Errorf("html refers to the network")
+		}
+		out, _, _ = runHere(t, "report", "--corners", "nominal", "--format", format, "--pictures", "none", circ)
+		if strings.Contains(out, "data:image") {
+			t.Errorf("%s --pictures none still embeds pictures", format)
+		}
+	}
+}
+
+// TestHTMLInBrowser renders the HTML report in headless Chromium, when one
+// is installed, and checks the screenshot has the size asked for and is
+// not blank.
+func TestHTMLInBrowser(t *testing.T) {
+	var browser string
+	for _, name := range []string{"chromium", "chromium-browser"} {
+		if p, err := exec.LookPath(name); err == nil {
+			browser = p
+			break
+		}
+	}
+	if browser == "" {
+		t.Skip("no chromium on PATH")
+	}
+	circ, _ := filepath.Abs("../../testdata/circuits/two-stage-40m.toml")
+	out, errs, code := runHere(t, "report", "--corners", "nominal", "--format", "html", circ)
+	if code != 0 {
+		t.Fatalf("exit %d: %s", code, errs)
+	}
+	dir := t.TempDir()
+	page := filepath.Join(dir, "report.html")
+	shot := filepath.Join(dir, "shot.png")
+	write(t, dir, "report.html", out)
+	cmd := exec.Command(browser, "--headless", "--no-sandbox", "--disable-gpu", "--hide-scrollbars",
+		"--user-data-dir="+filepath.Join(dir, "profile"), "--window-size=900,3000", "--screenshot="+shot, "file://"+page)
+	done := make(chan error, 1)
+	var so bytes.Buffer
+	cmd.Stdout, cmd.Stderr = &so, &so
+	if err := cmd.Start(); err != nil {
+		t.Fatal(err)
+	}
+	go func() { done <- cmd.Wait() }()
+	select {
+	case err := <-done:
+		if err != nil {
+			t.Fatalf("chromium: %v\n%s", err, so.String())
+		}
+	case <-time.After(90 * time.Second):
+		cmd.Process.Kill()
+		t.Fatal("chromium took more than 90 s")
+	}
+	f, err := os.Open(shot)
+	if err != nil {
+		t.Fatal(err)
+	}
+	defer f.Close()
+	img, err := png.Decode(f)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if b := img.Bounds(); b.Dx() != 900 || b.Dy() != 3000 {
+		t.Fatalf("screenshot %v, want 900×3000", b)
+	}
+	// Not blank: a fair share of the pixels is not white, and the pictures'
+	// colours are there (the transducer gain's blue among them).
+	dark, blue := 0, 0
+	b := img.Bounds()
+	for y := b.Min.Y; y < b.Max.Y; y += 2 {
+		for x := b.Min.X; x < b.Max.X; x += 2 {
+			r, g, bb, _ := img.At(x, y).RGBA()
+			if r < 0xe000 || g < 0xe000 || bb < 0xe000 {
+				dark++
+			}
+			if bb > r+0x4000 && bb > g+0x2000 {
+				blue++
+			}
+		}
+	}
+	total := b.Dx() * b.Dy() / 4
+	if dark < total/50 {
+		t.Errorf("screenshot nearly blank: %d of %d sampled pixels not white", dark, total)
+	}
+	if blue == 0 {
+		t.Error("no blue in the screenshot: the response picture did not render")
+	}
+}
