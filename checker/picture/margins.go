@@ -207,9 +207,9 @@ func WriteMargins(w io.Writer, title string, items []Item, worst bool) error {
 	p.Title.Text = title
 	p.X.Scale = plot.LogScale{}
 	p.X.Min, p.X.Max = MarginLo, MarginHi
-	p.X.Tick.Marker = plot.ConstantTicks{{Value: 0.1, Label: "0.1"}, {Value: 0.2}, {Value: 0.5, Label: "0.5"}, {Value: 1, Label: "1 (at the limit)"},
+	p.X.Tick.Marker = plot.ConstantTicks{{Value: 0.1, Label: "0.1"}, {Value: 0.2}, {Value: 0.5, Label: "0.5"}, {Value: 1, Label: "1"},
 		{Value: 2, Label: "2"}, {Value: 5}, {Value: 10, Label: "10"}}
-	p.X.Label.Text = "measured ÷ limit"
+	p.X.Label.Text = "measured ÷ limit (1: at the limit)"
 	if worst {
 		p.X.Label.Text += " (bar: worst case, ring: nominal)"
 	}
@@ -234,5 +234,5 @@ func WriteMargins(w io.Writer, title string, items []Item, worst bool) error {
 		lg.Add("nominal", legendGlyph{Color: color.Black, Radius: vg.Points(3.2), Shape: draw.RingGlyph{}})
 	}
 	h := vg.Length(len(rows))*vg.Points(15) + 1.6*vg.Inch
-	return render(w, 8*vg.Inch, h, func(dc draw.Canvas) { besideLegend(dc, p, lg) })
+	return render(w, 9*vg.Inch, h, func(dc draw.Canvas) { besideLegend(dc, p, lg) })
 }

@@ -4,6 +4,7 @@ import (
 	"image/color"
 	"io"
 	"math"
+	"strconv"
 
 	"gonum.org/v1/plot"
 	"gonum.org/v1/plot/plotter"
@@ -87,6 +88,7 @@ func WriteResponse(w io.Writer, r *Response) error {
 		addCurve(top, s.name, r.Freq, s.ys, s.colour, s.dashes)
 	}
 	top.Y.Min, top.Y.Max = lo-pad, hi+pad // Add widened them to the band's polygon
+	top.Y.Tick.Marker = stepTicks{}
 	top.X.Min, top.X.Max = r.Freq[0], r.Freq[len(r.Freq)-1]
 	lt := top.Legend
 	top.Legend = plot.NewLegend()
@@ -264,4 +266,28 @@ func addUnstable(p *plot.Plot, fs, mu []float64) {
 		}
 		i = j + 1
 	}
+}
+
+// stepTicks labels a linear axis every 1, 2 or 5 × 10ⁿ, at most eight
+// labels, so each grid line is a round number of dB.
+type stepTicks struct{}
+
+func (stepTicks) Ticks(lo, hi float64) []plot.Tick {
+	span := hi - lo
+	if !(span > 0) {
+		return nil
+	}
+	step := math.Pow(10, math.Floor(math.Log10(span/8)))
+	for _, m := range []float64{1, 2, 5, 10} {
+		if span/(step*m) <= 8 {
+			step *= m
+			break
+		}
+	}
+	var ts []plot.Tick
+	for v := math.Ceil(lo/step) * step; v <= hi; v += step {
+		v = math.Round(v/step) * step
+		ts = append(ts, plot.Tick{Value: v, Label: strconv.FormatFloat(v, 'g', -1, 64)})
+	}
+	return ts
 }

@@ -5,6 +5,7 @@ import (
 	"encoding/base64"
 	"encoding/json"
 	"encoding/xml"
+	"image/color"
 	"image/png"
 	"math"
 	"os"
@@ -182,7 +183,26 @@ func TestResponseMapsBack(t *testing.T) {
 	if out, errs, code := runHere(t, "plot", "--corners", "nominal", "-o", dir, circ); code != 0 {
 		t.Fatalf("plot: exit %d\n%s%s", code, out, errs)
 	}
-	js, errs, code := runHere(t, "report", "--corners", "nominal", "--format", "json", circ)
+	responseMatches(t, filepath.Join(dir, "two-stage-40m.response.svg"), circ, "nominal")
+}
+
+// TestReadmePicture: the README's picture is the response of its example
+// as the code computes it now (regenerate it with
+// `go run ./cmd/headroom plot --corners worst -o docs testdata/circuits/preamp-30m.toml`
+// and delete the other two files).
+func TestReadmePicture(t *testing.T) {
+	if !strings.Contains(readText(t, "../../README.md"), "](docs/preamp-30m.response.svg)") {
+		t.Fatal("README does not show docs/preamp-30m.response.svg")
+	}
+	circ, _ := filepath.Abs("../../testdata/circuits/preamp-30m.toml")
+	responseMatches(t, "../../docs/preamp-30m.response.svg", circ, "worst")
+}
+
+// responseMatches reads the response picture at svg back through its axes
+// and compares it with report --format json on circ.
+func responseMatches(t *testing.T, svg, circ, corners string) {
+	t.Helper()
+	js, errs, code := runHere(t, "report", "--corners", corners, "--format", "json", circ)
 	if code != 0 {
 		t.Fatalf("report: exit %d: %s", code, errs)
 	}
@@ -190,57 +210,13 @@ func TestResponseMapsBack(t *testing.T) {
 	if err := json.Unmarshal([]byte(js), &rep); err != nil {
 		t.Fatal(err)
 	}
-	b, err := os.ReadFile(filepath.Join(dir, "two-stage-40m.response.svg"))
+	b, err := os.ReadFile(svg)
 	if err != nil {
 		t.Fatal(err)
 	}
 	doc := parseSVG(t, b)
-	grid := picture.Hex(picture.GridColour)
-	vert, horiz := doc.lines(grid)
-	if len(vert) == 0 {
-		t.Fatal("no vertical grid lines")
-	}
-	// The upper panel is the one whose vertical grid lines reach highest.
-	top := vert[0]
-	for _, v := range vert {
-		if v[2] > top[2] {
-			top = v
-		}
-	}
-	y0, y1 := top[1], top[2]
-	var gx []float64
-	for _, v := range vert {
-		if v[1] == y0 && v[2] == y1 {
-			gx = append(gx, v[0])
-		}
-	}
-	var gy []float64
-	left := slices.Min(gx)
-	for _, h := range horiz {
-		if h[0] >= y0 && h[0] <= y1 {
-			gy = append(gy, h[0])
-		}
-	}
-	sort.Float64s(gx)
-	sort.Float64s(gy)
-	// Tick labels: frequencies below the upper panel, dB left of it.
-	fRe := regexp.MustCompile(`^([0-9.]+) (Hz|kHz|MHz|GHz)$`)
-	var fv, dbv []float64
-	for _, tx := range doc.texts {
-		if m := fRe.FindStringSubmatch(tx.s); m != nil && tx.y < y0 && tx.y > y0-30 {
-			v, _ := strconv.ParseFloat(m[1], 64)
-			fv = append(fv, math.Log10(v*unitScale[m[2]]))
-		}
-		if v, err := strconv.ParseFloat(tx.s, 64); err == nil && tx.x < left && tx.y > y0-10 && tx.y < y1+10 {
-			dbv = append(dbv, v)
-		}
-	}
-	sort.Float64s(fv)
-	sort.Float64s(dbv)
-	ax, bx := fit(t, fv, gx)
-	ay, by := fit(t, dbv, gy)
-	freqOf := func(x float64) float64 { return math.Pow(10, (x-ax)/bx) }
-	dbOf := func(y float64) float64 { return (y - ay) / by }
+	ax := responseAxes(t, doc)
+	freqOf, dbOf, y0, y1 := ax.freqOf, ax.dbOf, ax.y0, ax.y1
 
 	curve := func(c string) [][2]float64 {
 		var best [][2]float64
@@ -318,6 +294,70 @@ func TestResponseMapsBack(t *testing.T) {
 	if !found {
 		t.Error("no band shading in the upper panel")
 	}
+}
+
+// axes is the upper response panel's transform, recovered from the
+// picture: the grid lines are drawn at the labelled ticks.
+type axes struct {
+	freqOf, dbOf func(float64) float64 // from the drawing's x and y
+	xOf, yOf     func(float64) float64 // to them
+	y0, y1       float64               // the panel's extent
+}
+
+func responseAxes(t *testing.T, doc svgDoc) axes {
+	t.Helper()
+	grid := picture.Hex(picture.GridColour)
+	vert, horiz := doc.lines(grid)
+	if len(vert) == 0 {
+		t.Fatal("no vertical grid lines")
+	}
+	// The upper panel is the one whose vertical grid lines reach highest.
+	top := vert[0]
+	for _, v := range vert {
+		if v[2] > top[2] {
+			top = v
+		}
+	}
+	y0, y1 := top[1], top[2]
+	var gx []float64
+	for _, v := range vert {
+		if v[1] == y0 && v[2] == y1 {
+			gx = append(gx, v[0])
+		}
+	}
+	var gy []float64
+	left := slices.Min(gx)
+	for _, h := range horiz {
+		if h[0] >= y0 && h[0] <= y1 {
+			gy = append(gy, h[0])
+		}
+	}
+	sort.Float64s(gx)
+	sort.Float64s(gy)
+	// Tick labels: frequencies below the upper panel, dB left of it.
+	fRe := regexp.MustCompile(`^([0-9.]+) (Hz|kHz|MHz|GHz)$`)
+	var fv, dbv []float64
+	for _, tx := range doc.texts {
+		if m := fRe.FindStringSubmatch(tx.s); m != nil && tx.y < y0 && tx.y > y0-30 {
+			v, _ := strconv.ParseFloat(m[1], 64)
+			fv = append(fv, math.Log10(v*unitScale[m[2]]))
+		}
+		if v, err := strconv.ParseFloat(tx.s, 64); err == nil && tx.x < left && tx.y > y0-10 && tx.y < y1+10 {
+			dbv = append(dbv, v)
+		}
+	}
+	sort.Float64s(fv)
+	sort.Float64s(dbv)
+	ax, bx := fit(t, fv, gx)
+	ay, by := fit(t, dbv, gy)
+	return axes{
+		freqOf: func(x float64) float64 { return math.Pow(10, (x-ax)/bx) },
+		dbOf:   func(y float64) float64 { return (y - ay) / by },
+		xOf:    func(f float64) float64 { return ax + bx*math.Log10(f) },
+		yOf:    func(db float64) float64 { return ay + by*db },
+		y0:     y0, y1: y1,
+	}
+
 }
 
 func deref(p *float64) float64 {
@@ -465,9 +505,29 @@ func TestReportEmbedsPictures(t *testing.T) {
 			t.Errorf("html refers to the network")
 		}
 		out, _, _ = runHere(t, "report", "--corners", "nominal", "--format", format, "--pictures", "none", circ)
-		if strings.Contains(out, "data:image") {
-			t.Errorf("%s --pictures none still embeds pictures", format)
+		if strings.Contains(out, "data:image") || strings.Contains(out, "Pictures") {
+			t.Errorf("%s --pictures none still shows pictures", format)
 		}
+	}
+	// Markdown with a folder: the files are written and linked.
+	dir := t.TempDir()
+	out, errs, code := runHere(t, "report", "--corners", "nominal", "--format", "markdown", "--pictures", dir, circ)
+	if code != 0 {
+		t.Fatalf("markdown --pictures %s: exit %d: %s", dir, code, errs)
+	}
+	for _, kind := range []string{"response", "margins", "bias"} {
+		f := filepath.Join(dir, "two-stage-40m."+kind+".svg")
+		if !strings.Contains(out, "](<"+f+">)") {
+			t.Errorf("markdown does not link %s", f)
+		}
+		b, err := os.ReadFile(f)
+		if err != nil {
+			t.Fatal(err)
+		}
+		parseSVG(t, b)
+	}
+	if _, _, code := runHere(t, "report", "--format", "html", "--pictures", dir, circ); code != 2 {
+		t.Errorf("html with a pictures folder: exit %d, want 2", code)
 	}
 }
 
@@ -545,5 +605,79 @@ func TestHTMLInBrowser(t *testing.T) {
 	}
 	if blue == 0 {
 		t.Error("no blue in the screenshot: the response picture did not render")
+	}
+}
+
+// TestResponseSpread: with worst-case corners each curve's translucent band
+// reaches, at the band's three points, the ranges report --format json
+// gives there (report finds them with the band analysis, the picture with
+// the sweep: two routes to the same figures).
+func TestResponseSpread(t *testing.T) {
+	circ, _ := filepath.Abs("../../testdata/circuits/two-stage-40m.toml")
+	dir := t.TempDir()
+	if out, errs, code := runHere(t, "plot", "--corners", "worst", "-o", dir, circ); code != 0 {
+		t.Fatalf("plot: exit %d\n%s%s", code, out, errs)
+	}
+	js, errs, code := runHere(t, "report", "--corners", "worst", "--format", "json", circ)
+	if code != 0 {
+		t.Fatalf("report: exit %d: %s", code, errs)
+	}
+	var rep struct {
+		Band []struct {
+			Frequency float64               `json:"frequency"`
+			Ranges    map[string][2]float64 `json:"ranges"`
+		} `json:"band"`
+	}
+	if err := json.Unmarshal([]byte(js), &rep); err != nil {
+		t.Fatal(err)
+	}
+	b, err := os.ReadFile(filepath.Join(dir, "two-stage-40m.response.svg"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	doc := parseSVG(t, b)
+	ax := responseAxes(t, doc)
+	near := func(hex string, c color.RGBA) bool {
+		v, err := strconv.ParseUint(strings.TrimPrefix(hex, "#"), 16, 32)
+		if err != nil {
+			return false
+		}
+		d := func(a uint64, b uint8) bool { return math.Abs(float64(a)-float64(b)) <= 3 }
+		return d(v>>16&0xff, c.R) && d(v>>8&0xff, c.G) && d(v&0xff, c.B)
+	}
+	for _, s := range []struct {
+		key    string
+		colour color.RGBA
+	}{{"gain_db", picture.GainColour}, {"return_loss_db", picture.ReturnColour}} {
+		var poly [][2]float64
+		for _, p := range doc.paths {
+			if p.stroke == "" && near(p.fill, s.colour) && len(p.pts) > len(poly) {
+				poly = p.pts
+			}
+		}
+		if len(poly) == 0 {
+			t.Fatalf("%s: no spread drawn", s.key)
+		}
+		for _, bp := range rep.Band {
+			want, ok := bp.Ranges[s.key]
+			if !ok {
+				t.Fatalf("report gives no %s range at %g Hz", s.key, bp.Frequency)
+			}
+			x := ax.xOf(bp.Frequency)
+			var ys []float64
+			for _, q := range poly {
+				if math.Abs(q[0]-x) < 0.02 {
+					ys = append(ys, ax.dbOf(q[1]))
+				}
+			}
+			if len(ys) < 2 {
+				t.Fatalf("%s: spread has %d vertices at %g Hz", s.key, len(ys), bp.Frequency)
+			}
+			lo, hi := slices.Min(ys), slices.Max(ys)
+			tol := func(v float64) float64 { return 0.005*math.Max(math.Abs(v), 1) + 0.02 }
+			if math.Abs(lo-want[0]) > tol(want[0]) || math.Abs(hi-want[1]) > tol(want[1]) {
+				t.Errorf("%s at %g Hz: spread drawn %.4g to %.4g dB, report's range %.4g to %.4g dB", s.key, bp.Frequency, lo, hi, want[0], want[1])
+			}
+		}
 	}
 }

@@ -1,0 +1,34 @@
+package picture
+
+import "testing"
+
+// TestRatio: where an item sits on the margin axis and which side of 1
+// fails, from the definition "measured must be cmp limit" (FORMAT.md §4:
+// comparison reads "measured must be comparison limit"); the cases are
+// worked by hand.
+func TestRatio(t *testing.T) {
+	for _, c := range []struct {
+		name            string
+		measured, limit float64
+		cmp             string
+		failing         bool
+		x               float64
+		side            int
+		off             bool
+	}{
+		{"at least 10, measured 5: half the limit, fails left", 5, 10, ">=", true, 0.5, -1, false},
+		{"at most 0.5, measured 0.6: 1.2, fails right", 0.6, 0.5, "<=", true, 1.2, +1, false},
+		{"at most 0.5, measured 0.25: passes left", 0.25, 0.5, "<=", false, 0.5, +1, false},
+		{"at least -10 dB, measured -5 dB: ratio 0.5 passes, failing side turned right", -5, -10, ">=", false, 0.5, +1, false},
+		{"at most -20 dB, measured -10 dB: ratio 0.5 fails, failing side left", -10, -20, "<=", true, 0.5, -1, false},
+		{"at most 0, measured 0: limit 0 passes, left edge", 0, 0, "<=", false, MarginLo, +1, true},
+		{"at most 0, measured 1: limit 0 fails, right edge", 1, 0, "<=", true, MarginHi, +1, true},
+		{"at least 10, measured -1: below zero, left edge (fails)", -1, 10, ">=", true, MarginLo, -1, true},
+		{"at most 1, measured 50: off the scale right", 50, 1, "<=", true, MarginHi, +1, true},
+	} {
+		x, side, off := Ratio(c.measured, c.limit, c.cmp, c.failing)
+		if x != c.x || side != c.side || off != c.off {
+			t.Errorf("%s: got x %g side %d off %v, want %g %d %v", c.name, x, side, off, c.x, c.side, c.off)
+		}
+	}
+}
