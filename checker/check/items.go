@@ -19,7 +19,7 @@ type Judged struct {
 	// worst case, else nominal) fails.
 	Severity engine.Severity
 	Failing  bool
-	Waived   bool // a waiver in force covers it
+	Waived   bool // failing, and a waiver in force covers it
 }
 
 // Items judges c under set as File does and returns every item every rule
@@ -66,7 +66,7 @@ func (r *Runner) Items(c *circuit.Circuit, set *ruleset.Set) ([]Judged, *topolog
 			it.Severity = engine.Error
 		}
 		for _, w := range c.Waivers {
-			if w.Rule == f.Rule && (w.Part == "" || w.Part == f.Part) && !expired(w, r.opt.Today) {
+			if it.Failing && w.Rule == f.Rule && (w.Part == "" || w.Part == f.Part) && !expired(w, r.opt.Today) {
 				it.Waived = true
 				break
 			}

@@ -10,6 +10,8 @@ import (
 	"gonum.org/v1/plot/plotter"
 	"gonum.org/v1/plot/vg"
 	"gonum.org/v1/plot/vg/draw"
+
+	"headroom/checker/printable"
 )
 
 // Transistor is one bipolar transistor's operating point against its
@@ -39,7 +41,7 @@ func WriteBias(w io.Writer, title string, ts []Transistor) error {
 	for i, t := range ts {
 		p := biasPlot(t)
 		if i == 0 && title != "" {
-			p.Title.Text = title + "\n" + p.Title.Text
+			p.Title.Text = printable.String(title) + "\n" + p.Title.Text
 		}
 		legends = append(legends, p.Legend)
 		p.Legend = plot.NewLegend()
@@ -57,7 +59,7 @@ func WriteBias(w io.Writer, title string, ts []Transistor) error {
 
 func biasPlot(t Transistor) *plot.Plot {
 	p := plot.New()
-	p.Title.Text = fmt.Sprintf("%s: operating point against its ratings", t.Ref)
+	p.Title.Text = fmt.Sprintf("%s: operating point against its ratings", printable.String(t.Ref))
 	p.X.Label.Text, p.Y.Label.Text = "VCE", "IC"
 	p.X.Scale, p.Y.Scale = plot.LogScale{}, plot.LogScale{}
 	p.X.Tick.Marker = logTicks{label: func(v float64) string { return si(v, "V") }}

@@ -7,6 +7,8 @@ import (
 	"gonum.org/v1/plot"
 	"gonum.org/v1/plot/vg"
 	"gonum.org/v1/plot/vg/draw"
+
+	"headroom/checker/printable"
 )
 
 // Item is one judged item on the margin chart.
@@ -27,7 +29,7 @@ type Item struct {
 // Label is the item's row label: the part (or "circuit"), its bound, and
 // "waived" when a waiver covers it.
 func (it *Item) Label() string {
-	s := it.Part
+	s := printable.String(it.Part)
 	if s == "" {
 		s = "circuit"
 	}
@@ -204,7 +206,7 @@ func (g legendGlyph) Thumbnail(c *draw.Canvas) { c.DrawGlyph(draw.GlyphStyle(g),
 func WriteMargins(w io.Writer, title string, items []Item, worst bool) error {
 	rows := marginRows(items)
 	p := plot.New()
-	p.Title.Text = title
+	p.Title.Text = printable.String(title)
 	p.X.Scale = plot.LogScale{}
 	p.X.Min, p.X.Max = MarginLo, MarginHi
 	p.X.Tick.Marker = plot.ConstantTicks{{Value: 0.1, Label: "0.1"}, {Value: 0.2}, {Value: 0.5, Label: "0.5"}, {Value: 1, Label: "1"},

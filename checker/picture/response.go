@@ -10,6 +10,8 @@ import (
 	"gonum.org/v1/plot/plotter"
 	"gonum.org/v1/plot/vg"
 	"gonum.org/v1/plot/vg/draw"
+
+	"headroom/checker/printable"
 )
 
 // Response is the swept circuit between its ports and, with worst-case
@@ -55,7 +57,7 @@ func WriteResponse(w io.Writer, r *Response) error {
 		return errNoSweep
 	}
 	top := plot.New()
-	top.Title.Text = r.Title
+	top.Title.Text = printable.String(r.Title)
 	top.Y.Label.Text = "dB"
 	logX(top, r.Freq)
 	lo, hi := math.Inf(1), math.Inf(-1)

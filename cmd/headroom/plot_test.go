@@ -7,6 +7,7 @@ import (
 	"encoding/xml"
 	"image/color"
 	"image/png"
+	"maps"
 	"math"
 	"os"
 	"os/exec"
@@ -373,8 +374,13 @@ func deref(p *float64) float64 {
 // row.
 func TestMarginsListEveryItem(t *testing.T) {
 	for _, name := range []string{"two-stage-40m.toml", "pnp-160m.toml"} {
-		circ, _ := filepath.Abs("../../testdata/circuits/" + name)
 		dir := t.TempDir()
+		text := readText(t, "../../testdata/circuits/"+name)
+		if name == "two-stage-40m.toml" { // a waiver of a failing item: its row is marked
+			text += "\n[[waivers]]\nrule = \"bias.divider-stiffness\"\npart = \"R4\"\nreason = \"test: the divider was measured stiff enough\"\n"
+		}
+		write(t, dir, name, text)
+		circ := filepath.Join(dir, name)
 		if out, errs, code := runHere(t, "plot", "--corners", "nominal", "-o", dir, circ); code != 0 {
 			t.Fatalf("plot: exit %d\n%s%s", code, out, errs)
 		}
@@ -425,6 +431,28 @@ func TestMarginsListEveryItem(t *testing.T) {
 			}
 		}
 		sort.Slice(rows, func(i, j int) bool { return rows[i].y > rows[j].y })
+		// Which failing items a waiver covers, from check.
+		cj, _, _ := runHere(t, "check", "--corners", "nominal", "--format", "json", circ)
+		var chk struct {
+			Findings []struct {
+				Rule, Part string
+				Waived     bool
+			}
+		}
+		if err := json.Unmarshal([]byte(cj), &chk); err != nil {
+			t.Fatal(err)
+		}
+		wantWaived := map[string]bool{}
+		for _, f := range chk.Findings {
+			if f.Waived {
+				wantWaived[f.Rule+" / "+f.Part] = true
+			}
+		}
+		if name == "two-stage-40m.toml" && !wantWaived["bias.divider-stiffness / R4"] {
+			t.Fatalf("the test's waiver covers nothing: %s", cj)
+		}
+		gotWaived := map[string]bool{}
+
 		got := map[string]int{}
 		rule := ""
 		for _, r := range rows {
@@ -438,7 +466,15 @@ func TestMarginsListEveryItem(t *testing.T) {
 			if rule == "" {
 				t.Fatalf("%s: row %q before any rule heading", name, r.s)
 			}
-			got[rule+" / "+strings.TrimSuffix(r.s, " (waived)")]++
+			label, waived := strings.CutSuffix(r.s, " (waived)")
+			got[rule+" / "+label]++
+			if waived {
+				part, _, _ := strings.Cut(label, " ")
+				gotWaived[rule+" / "+part] = true
+			}
+		}
+		if !maps.Equal(gotWaived, wantWaived) {
+			t.Errorf("%s: rows marked waived %v, check's waived findings %v", name, gotWaived, wantWaived)
 		}
 		for k, n := range want {
 			if got[k] != n {
@@ -679,5 +715,52 @@ func TestResponseSpread(t *testing.T) {
 				t.Errorf("%s at %g Hz: spread drawn %.4g to %.4g dB, report's range %.4g to %.4g dB", s.key, bp.Frequency, lo, hi, want[0], want[1])
 			}
 		}
+	}
+}
+
+// BenchmarkReportPictures measures what the pictures add to an HTML report
+// of the README's example with worst-case corners: compare the two
+// sub-benchmarks' times as a ratio (docs/pictures.md quotes it).
+//
+//	go test -run '^$' -bench ReportPictures ./cmd/headroom
+func BenchmarkReportPictures(b *testing.B) {
+	circ, _ := filepath.Abs("../../testdata/circuits/preamp-30m.toml")
+	for _, pics := range []string{"none", "inline"} {
+		b.Run(pics, func(b *testing.B) {
+			for b.Loop() {
+				var out, errb strings.Builder
+				e := &env{stdin: strings.NewReader(""), stdout: &out, stderr: &errb, getenv: func(string) string { return "" }}
+				if code := e.run([]string{"report", "--corners", "worst", "--format", "html", "--pictures", pics, circ}); code > 1 {
+					b.Fatalf("exit %d: %s", code, errb.String())
+				}
+			}
+		})
+	}
+}
+
+// TestPlotEscapes: control characters in a circuit's name reach the
+// pictures and the HTML page escaped (XML forbids most of them, and a
+// review page must not carry terminal escapes).
+func TestPlotEscapes(t *testing.T) {
+	dir := t.TempDir()
+	write(t, dir, "board.toml", "[circuit]\nname = \"\\u001b[31mload\\u0007\\u202e\"\nband = [\"28MHz\", \"29.7MHz\"]\n\n"+
+		"[supplies.vcc]\nvolts = \"9V\"\n\n[parts.R1]\nkind = \"resistor\"\nvalue = \"1k\"\nnets = [\"vcc\", \"gnd\"]\n")
+	circ := filepath.Join(dir, "board.toml")
+	runHere(t, "plot", "--corners", "nominal", circ)
+	b, err := os.ReadFile(filepath.Join(dir, "board.margins.svg"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	doc := parseSVG(t, b) // fails on a control character
+	found := false
+	for _, tx := range doc.texts {
+		found = found || strings.Contains(tx.s, `\x1b[31mload\x07\u202e`)
+	}
+	if !found {
+		t.Errorf("the escaped name is not in the picture's title")
+	}
+	page, _, _ := runHere(t, "report", "--corners", "nominal", "--format", "html", circ)
+	if strings.ContainsAny(page, "\x1b\x07\u202e") {
+		t.Error("the HTML page carries a raw control character")
 	}
 }
