@@ -14,27 +14,29 @@ import (
 	"headroom/checker/printable"
 )
 
-// Transistor is one bipolar transistor's operating point against its
-// ratings, all as magnitudes (a PNP's VCE and IC are negative).
+// Transistor is one transistor's operating point against its ratings, all
+// as magnitudes (a PNP's VCE and IC are negative). For a FET, VCE and IC
+// are VDS and ID, VCEO is vds_max and ICMax idss_max (a JFET draws at most
+// about IDSS).
 type Transistor struct {
-	Ref        string
-	VCE, IC    float64 // V, A at nominal
-	ICMax      float64 // A
-	VCEO       float64 // V
-	PD         float64 // W, derated for Ambient
-	Ambient    float64 // °C the pd is derated for
-	HasSpread  bool
-	VCESpread  [2]float64 // V, over the corner box
-	ICSpread   [2]float64 // A
-	Dissipated float64    // W at nominal
+	Ref       string
+	FET       bool
+	VCE, IC   float64 // V, A at nominal
+	ICMax     float64 // A
+	VCEO      float64 // V
+	PD        float64 // W, derated for Ambient
+	Ambient   float64 // °C the pd is derated for
+	HasSpread bool
+	VCESpread [2]float64 // V, over the corner box
+	ICSpread  [2]float64 // A
 }
 
 // WriteBias draws each transistor's output plane on log–log axes, one panel
-// each: the ic_max line, the vceo line, the derated pd hyperbola (a straight
+// each: the ic_max (idss_max) line, the vceo (vds_max) line, the derated pd hyperbola (a straight
 // line on these axes), the nominal point and the box its corners span.
 func WriteBias(w io.Writer, title string, ts []Transistor) error {
 	if len(ts) == 0 {
-		return errorString("no bipolar transistor with an operating point to draw")
+		return errorString("no transistor with an operating point to draw")
 	}
 	var plots []*plot.Plot
 	var legends []plot.Legend
@@ -61,6 +63,11 @@ func biasPlot(t Transistor) *plot.Plot {
 	p := plot.New()
 	p.Title.Text = fmt.Sprintf("%s: operating point against its ratings", printable.String(t.Ref))
 	p.X.Label.Text, p.Y.Label.Text = "VCE", "IC"
+	iName, vName := "ic_max ", "vceo "
+	if t.FET {
+		p.X.Label.Text, p.Y.Label.Text = "VDS", "ID"
+		iName, vName = "idss_max ", "vds_max "
+	}
 	p.X.Scale, p.Y.Scale = plot.LogScale{}, plot.LogScale{}
 	p.X.Tick.Marker = logTicks{label: func(v float64) string { return si(v, "V") }}
 	p.Y.Tick.Marker = logTicks{label: func(v float64) string { return si(v, "A") }}
@@ -86,10 +93,10 @@ func biasPlot(t Transistor) *plot.Plot {
 		p.Legend.Add(name, l)
 	}
 	if t.ICMax > 0 {
-		line(plotter.XYs{{X: p.X.Min, Y: t.ICMax}, {X: p.X.Max, Y: t.ICMax}}, "ic_max "+si(t.ICMax, "A"), []vg.Length{vg.Points(6), vg.Points(3)}, 1.4)
+		line(plotter.XYs{{X: p.X.Min, Y: t.ICMax}, {X: p.X.Max, Y: t.ICMax}}, iName+si(t.ICMax, "A"), []vg.Length{vg.Points(6), vg.Points(3)}, 1.4)
 	}
 	if t.VCEO > 0 {
-		line(plotter.XYs{{X: t.VCEO, Y: p.Y.Min}, {X: t.VCEO, Y: p.Y.Max}}, "vceo "+si(t.VCEO, "V"),
+		line(plotter.XYs{{X: t.VCEO, Y: p.Y.Min}, {X: t.VCEO, Y: p.Y.Max}}, vName+si(t.VCEO, "V"),
 			[]vg.Length{vg.Points(8), vg.Points(3), vg.Points(2), vg.Points(3)}, 1.4)
 	}
 	if t.PD > 0 {
@@ -105,7 +112,9 @@ func biasPlot(t Transistor) *plot.Plot {
 		}
 	}
 	if t.HasSpread {
-		pg, err := plotter.NewPolygon(rect(t.VCESpread[0], t.VCESpread[1], t.ICSpread[0], t.ICSpread[1]))
+		// A corner that cuts the transistor off has no place on log axes:
+		// its side of the box sits at the axis.
+		pg, err := plotter.NewPolygon(rect(math.Max(t.VCESpread[0], p.X.Min), t.VCESpread[1], math.Max(t.ICSpread[0], p.Y.Min), t.ICSpread[1]))
 		if err == nil {
 			pg.Color = color.NRGBA{0x1b, 0x4f, 0x9c, 0x30}
 			pg.LineStyle.Color = GainColour

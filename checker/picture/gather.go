@@ -133,38 +133,51 @@ func ItemsOf(js []check.Judged) []Item {
 	return out
 }
 
-// TransistorsOf is every bipolar transistor with an operating point, its
-// pd derated for the hottest ambient of the circuit's range (whole up to
-// 25 °C, linearly to nothing at tj_max, as its datasheet derates it), and,
-// when ranges holds them (report.Quantities' keys), its corner spread.
+// TransistorsOf is every transistor with an operating point, in file
+// order, its pd derated for the hottest ambient of the circuit's range
+// (whole up to 25 °C, linearly to nothing at tj_max, as its datasheet
+// derates it), and, when ranges holds them (report.Quantities' keys), its
+// corner spread.
 func TransistorsOf(c *circuit.Circuit, cs *analysis.Case, ranges map[string][2]float64) []Transistor {
 	var out []Transistor
 	if cs == nil || cs.OP == nil {
 		return nil
 	}
 	amb := math.Max(c.Ambient.Nominal, c.Ambient.Hi)
+	derate := func(pd, tjMax float64) float64 {
+		if !(pd > 0) {
+			return 0
+		}
+		if amb > 25 && tjMax > 25 {
+			return pd * math.Max(0, math.Min(1, (tjMax-amb)/(tjMax-25)))
+		}
+		return pd
+	}
 	for _, p := range c.Parts {
-		q, b := cs.OP.BJTs[p.Ref], p.BJT
-		if q == nil || b == nil {
+		var t Transistor
+		var vk, ik string
+		switch q, f := cs.OP.BJTs[p.Ref], cs.OP.FETs[p.Ref]; {
+		case q != nil && p.BJT != nil:
+			b := p.BJT
+			t = Transistor{Ref: p.Ref, VCE: math.Abs(q.VCE), IC: math.Abs(q.IC), ICMax: b.ICMax, VCEO: b.VCEO, PD: derate(b.PD, b.TjMax)}
+			vk, ik = ".vce", ".ic"
+		case f != nil && p.FET != nil:
+			fp := p.FET
+			t = Transistor{Ref: p.Ref, FET: true, VCE: math.Abs(f.VDS), IC: math.Abs(f.ID), ICMax: fp.IDSSMax, VCEO: fp.VDSMax, PD: derate(fp.PD, fp.TjMax)}
+			vk, ik = ".vds", ".id"
+		default:
 			continue
 		}
-		t := Transistor{Ref: p.Ref, VCE: math.Abs(q.VCE), IC: math.Abs(q.IC), ICMax: b.ICMax, VCEO: b.VCEO, Ambient: amb, Dissipated: q.Power}
-		if b.PD > 0 {
-			der := 1.0
-			if amb > 25 && b.TjMax > 25 {
-				der = math.Max(0, (b.TjMax-amb)/(b.TjMax-25))
-			}
-			t.PD = b.PD * der
-		}
-		vr, ok1 := ranges[p.Ref+".vce"]
-		ir, ok2 := ranges[p.Ref+".ic"]
+		t.Ambient = amb
+		vr, ok1 := ranges[p.Ref+vk]
+		ir, ok2 := ranges[p.Ref+ik]
 		if ok1 && ok2 {
 			t.HasSpread = true
 			t.VCESpread = magnitudes(vr)
 			t.ICSpread = magnitudes(ir)
 		}
 		if !(t.VCE > 0 && t.IC > 0) {
-			continue // cut off or saturated hard: no point on log axes
+			continue // cut off or hard saturated: no point on log axes
 		}
 		out = append(out, t)
 	}

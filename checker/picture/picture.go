@@ -105,7 +105,7 @@ func hz(f float64) string {
 	return trim(f) + " Hz"
 }
 
-func trim(x float64) string { return strings.TrimSuffix(fmt.Sprintf("%.4g", x), ".0") }
+func trim(x float64) string { return strings.TrimSuffix(fmt.Sprintf("%.3g", x), ".0") }
 
 // logTicks marks every decade (labelled by label) and its 2…9 multiples
 // between lo and hi.
