@@ -45,6 +45,7 @@ func runHere(t *testing.T, args ...string) (string, string, int) {
 
 type svgPath struct {
 	pts          [][2]float64
+	arcs         [][2]float64 // the end points of A commands (a glyph's circle)
 	stroke, fill string
 }
 
@@ -106,6 +107,15 @@ func parseSVG(t *testing.T, b []byte) svgDoc {
 				x, _ := strconv.ParseFloat(n[0], 64)
 				y, _ := strconv.ParseFloat(n[1], 64)
 				p.pts = append(p.pts, [2]float64{x, y})
+			}
+			for _, cmd := range regexp.MustCompile(`A[^MLZA]*`).FindAllString(attr["d"], -1) {
+				n := numRe.FindAllString(cmd, -1)
+				if len(n) != 7 {
+					continue
+				}
+				x, _ := strconv.ParseFloat(n[5], 64)
+				y, _ := strconv.ParseFloat(n[6], 64)
+				p.arcs = append(p.arcs, [2]float64{x, y})
 			}
 			doc.paths = append(doc.paths, p)
 		case "text":
@@ -762,5 +772,138 @@ func TestPlotEscapes(t *testing.T) {
 	page, _, _ := runHere(t, "report", "--corners", "nominal", "--format", "html", circ)
 	if strings.ContainsAny(page, "\x1b\x07\u202e") {
 		t.Error("the HTML page carries a raw control character")
+	}
+}
+
+// TestBiasPicture: each transistor's panel, read back through its log
+// axes, puts the dot at report's nominal VCE and IC and the limits where
+// the 2N3904's datasheet puts them (ON Semiconductor 2N3904/D: VCEO 40 V,
+// IC 200 mA continuous, PD 625 mW at 25 °C derated 5.0 mW/°C above 25 °C,
+// so 550 mW at the 40 °C top of the circuit's ambient range).
+func TestBiasPicture(t *testing.T) {
+	circ, _ := filepath.Abs("../../testdata/circuits/two-stage-40m.toml")
+	dir := t.TempDir()
+	if out, errs, code := runHere(t, "plot", "--corners", "nominal", "-o", dir, circ); code != 0 {
+		t.Fatalf("plot: exit %d\n%s%s", code, out, errs)
+	}
+	js, _, _ := runHere(t, "report", "--corners", "nominal", "--format", "json", circ)
+	var rep struct {
+		Parts map[string]map[string]any `json:"parts"`
+	}
+	if err := json.Unmarshal([]byte(js), &rep); err != nil {
+		t.Fatal(err)
+	}
+	b, err := os.ReadFile(filepath.Join(dir, "two-stage-40m.bias.svg"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	doc := parseSVG(t, b)
+	vert, horiz := doc.lines(picture.Hex(picture.GridColour))
+	panels := map[[2]float64][]float64{} // a panel's y extent → its vertical grid lines
+	for _, v := range vert {
+		k := [2]float64{v[1], v[2]}
+		panels[k] = append(panels[k], v[0])
+	}
+	var keys [][2]float64
+	for k := range panels {
+		keys = append(keys, k)
+	}
+	sort.Slice(keys, func(i, j int) bool { return keys[i][1] > keys[j][1] }) // top panel first
+	if len(keys) != 2 {
+		t.Fatalf("%d panels, want 2 (Q1, Q2)", len(keys))
+	}
+	lbl := regexp.MustCompile(`^([0-9.]+) (µ|m|)(V|A)$`)
+	scale := map[string]float64{"µ": 1e-6, "m": 1e-3, "": 1}
+	black := "#000000"
+	bv, bh := doc.lines(black)
+	for n, ref := range []string{"Q1", "Q2"} {
+		y0, y1 := keys[n][0], keys[n][1]
+		gx := panels[keys[n]]
+		sort.Float64s(gx)
+		x0, x1 := gx[0], gx[len(gx)-1]
+		var gy []float64
+		for _, h := range horiz {
+			if h[0] >= y0 && h[0] <= y1 && h[1] >= x0-1 {
+				gy = append(gy, h[0])
+			}
+		}
+		sort.Float64s(gy)
+		var vs, is []float64
+		for _, tx := range doc.texts {
+			m := lbl.FindStringSubmatch(tx.s)
+			if m == nil {
+				continue
+			}
+			v, _ := strconv.ParseFloat(m[1], 64)
+			v = math.Log10(v * scale[m[2]])
+			switch {
+			case m[3] == "V" && tx.y < y0 && tx.y > y0-30:
+				vs = append(vs, v)
+			case m[3] == "A" && tx.x < x0 && tx.y > y0-10 && tx.y < y1+10:
+				is = append(is, v)
+			}
+		}
+		sort.Float64s(vs)
+		sort.Float64s(is)
+		ax, bx := fit(t, vs, gx)
+		ay, by := fit(t, is, gy)
+		volts := func(x float64) float64 { return math.Pow(10, (x-ax)/bx) }
+		amps := func(y float64) float64 { return math.Pow(10, (y-ay)/by) }
+		within := func(what string, got, want float64) {
+			if math.Abs(got/want-1) > 0.005 {
+				t.Errorf("%s %s: drawn at %.4g, want %.4g", ref, what, got, want)
+			}
+		}
+		// The dot: a filled circle inside the panel.
+		dots := 0
+		for _, p := range doc.paths {
+			if p.fill != picture.Hex(picture.GainColour) || len(p.arcs) == 0 || len(p.pts) == 0 {
+				continue
+			}
+			cx, cy := (p.pts[0][0]+p.arcs[0][0])/2, (p.pts[0][1]+p.arcs[0][1])/2
+			if cx < x0 || cx > x1 || cy < y0 || cy > y1 {
+				continue
+			}
+			dots++
+			within("VCE", volts(cx), math.Abs(rep.Parts[ref]["vce"].(float64)))
+			within("IC", amps(cy), math.Abs(rep.Parts[ref]["ic"].(float64)))
+		}
+		if dots != 1 {
+			t.Errorf("%s: %d dots in its panel", ref, dots)
+		}
+		// ic_max and vceo: black lines across the panel.
+		var icMax, vceo []float64
+		for _, h := range bh {
+			if h[0] > y0 && h[0] < y1 && h[1] <= x0+1 && h[2] >= x1-1 {
+				icMax = append(icMax, amps(h[0]))
+			}
+		}
+		for _, v := range bv {
+			if v[0] > x0 && v[0] < x1 && v[1] <= y0+1 && v[2] >= y1-1 {
+				vceo = append(vceo, volts(v[0]))
+			}
+		}
+		if len(icMax) != 1 || len(vceo) != 1 {
+			t.Fatalf("%s: %d ic_max and %d vceo lines", ref, len(icMax), len(vceo))
+		}
+		within("ic_max", icMax[0], 0.200)
+		within("vceo", vceo[0], 40)
+		// The pd line: every vertex dissipates 625 mW − 5.0 mW/°C × 15 °C.
+		pd := 0.625 - 0.005*(40-25)
+		found := false
+		for _, p := range doc.paths {
+			if p.stroke != black || len(p.pts) < 10 || p.pts[0][1] < y0-1 || p.pts[0][1] > y1+1 {
+				continue
+			}
+			found = true
+			for _, q := range p.pts {
+				if q[0] > x0+1 && q[0] < x1-1 && q[1] > y0+1 && q[1] < y1-1 { // the clipped ends lie on the frame
+					within("VCE·IC on the pd line", volts(q[0])*amps(q[1]), pd)
+				}
+			}
+		}
+		if !found {
+			t.Errorf("%s: no pd line", ref)
+		}
 	}
 }
