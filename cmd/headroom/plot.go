@@ -53,6 +53,11 @@ func drawings(c *circuit.Circuit, set *ruleset.Set, runner *check.Runner, ranges
 	var b bytes.Buffer
 	draw := func(d *drawing, f func() error) {
 		b.Reset()
+		defer func() { // a drawing the library refuses is a missing picture, never a crash
+			if p := recover(); p != nil {
+				d.err, d.svg = fmt.Errorf("the plotting library failed: %v", p), nil
+			}
+		}()
 		if d.err = f(); d.err == nil {
 			d.svg = bytes.Clone(b.Bytes())
 		}
