@@ -22,6 +22,7 @@ import (
 
 	"headroom/checker/analysis"
 	"headroom/checker/circuit"
+	"headroom/checker/corners"
 	"headroom/checker/engine"
 	"headroom/checker/picture"
 	"headroom/checker/ruleset"
@@ -383,7 +384,8 @@ func deref(p *float64) float64 {
 // chart exactly once, under its rule's heading, and the chart has no other
 // row.
 func TestMarginsListEveryItem(t *testing.T) {
-	for _, name := range []string{"two-stage-40m.toml", "pnp-160m.toml"} {
+	for _, run := range [][2]string{{"two-stage-40m.toml", "nominal"}, {"pnp-160m.toml", "nominal"}, {"two-stage-40m.toml", "worst"}} {
+		name, mode := run[0], run[1]
 		dir := t.TempDir()
 		text := readText(t, "../../testdata/circuits/"+name)
 		if name == "two-stage-40m.toml" { // a waiver of a failing item: its row is marked
@@ -391,7 +393,7 @@ func TestMarginsListEveryItem(t *testing.T) {
 		}
 		write(t, dir, name, text)
 		circ := filepath.Join(dir, name)
-		if out, errs, code := runHere(t, "plot", "--corners", "nominal", "-o", dir, circ); code != 0 {
+		if out, errs, code := runHere(t, "plot", "--corners", mode, "-o", dir, circ); code != 0 {
 			t.Fatalf("plot: exit %d\n%s%s", code, out, errs)
 		}
 		b, err := os.ReadFile(filepath.Join(dir, strings.TrimSuffix(name, ".toml")+".margins.svg"))
@@ -410,9 +412,26 @@ func TestMarginsListEveryItem(t *testing.T) {
 			t.Fatal(err)
 		}
 		cfg := set.Config(rules.All())
-		fs, err := engine.Evaluate(analysis.Run(c, topology.Analyze(c)), nil, cfg)
+		topo := topology.Analyze(c)
+		nominal := analysis.Run(c, topo)
+		fs, err := engine.Evaluate(nominal, nil, cfg)
 		if err != nil {
 			t.Fatal(err)
+		}
+		if mode == "worst" { // and the items only the worst-case search judges
+			wfs, err := corners.Worst(c, topo, nominal, cfg)
+			if err != nil {
+				t.Fatal(err)
+			}
+			seen := map[engine.Key]bool{}
+			for i := range fs {
+				seen[engine.KeyOf(&fs[i])] = true
+			}
+			for _, f := range wfs {
+				if !seen[engine.KeyOf(&f)] {
+					fs = append(fs, f)
+				}
+			}
 		}
 		want := map[string]int{}
 		ruleIDs := map[string]bool{}
@@ -442,7 +461,7 @@ func TestMarginsListEveryItem(t *testing.T) {
 		}
 		sort.Slice(rows, func(i, j int) bool { return rows[i].y > rows[j].y })
 		// Which failing items a waiver covers, from check.
-		cj, _, _ := runHere(t, "check", "--corners", "nominal", "--format", "json", circ)
+		cj, _, _ := runHere(t, "check", "--corners", mode, "--format", "json", circ)
 		var chk struct {
 			Findings []struct {
 				Rule, Part string
