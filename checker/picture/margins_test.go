@@ -1,6 +1,10 @@
 package picture
 
-import "testing"
+import (
+	"math"
+	"strings"
+	"testing"
+)
 
 // TestRatio: where an item sits on the margin axis and which side of 1
 // fails, from the definition "measured must be cmp limit" (FORMAT.md §4:
@@ -30,5 +34,20 @@ func TestRatio(t *testing.T) {
 		if x != c.x || side != c.side || off != c.off {
 			t.Errorf("%s: got x %g side %d off %v, want %g %d %v", c.name, x, side, off, c.x, c.side, c.off)
 		}
+	}
+}
+
+// TestRenderRefusesNonFinite: a NaN that reaches a coordinate makes the
+// drawing fail instead of writing an SVG no viewer can place.
+func TestRenderRefusesNonFinite(t *testing.T) {
+	var b strings.Builder
+	err := WriteBias(&b, "t", []Transistor{{Ref: "Q1", VCE: 5, IC: 0.01, ICMax: 0.2, VCEO: 40, PD: 0.5,
+		HasSpread: true, VCESpread: [2]float64{4, math.NaN()}, ICSpread: [2]float64{0.009, 0.011}}})
+	if err == nil && strings.Contains(b.String(), "NaN") {
+		t.Fatal("an SVG with a NaN coordinate was written")
+	}
+	b.Reset()
+	if err := WriteBias(&b, "t", []Transistor{{Ref: "Q1", VCE: 5, IC: 0.01, ICMax: 0.2, VCEO: 40, PD: 0.5}}); err != nil {
+		t.Fatalf("a finite drawing failed: %v", err)
 	}
 }

@@ -14,6 +14,7 @@ import (
 	"image/color"
 	"io"
 	"math"
+	"regexp"
 	"strings"
 
 	"gonum.org/v1/plot"
@@ -80,6 +81,9 @@ func render(out io.Writer, w, h vg.Length, paint func(dc draw.Canvas)) error {
 		return err
 	}
 	s := buf.String()
+	if nonFinite.MatchString(s) {
+		return errorString("a coordinate is not a finite number")
+	}
 	if i := strings.Index(s, "?>"); i >= 0 {
 		s = s[:i+2] + "\n" + Marker + s[i+2:]
 	} else {
@@ -88,6 +92,9 @@ func render(out io.Writer, w, h vg.Length, paint func(dc draw.Canvas)) error {
 	_, err := io.WriteString(out, s)
 	return err
 }
+
+// nonFinite finds a NaN or infinite coordinate in a path or a text's place.
+var nonFinite = regexp.MustCompile(`(d|x|y)="[^"]*(NaN|Inf)`)
 
 // finite reports whether x is an ordinary number.
 func finite(x float64) bool { return !math.IsNaN(x) && !math.IsInf(x, 0) }
