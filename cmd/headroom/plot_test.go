@@ -35,6 +35,38 @@ import (
 // the axes' transform is recovered from the grid lines and tick labels the
 // picture itself carries, and what is plotted is mapped back through it.
 
+// plotInto runs plot on circ with the corners given into a fresh folder.
+func plotInto(t *testing.T, circ, corners string) string {
+	t.Helper()
+	dir := t.TempDir()
+	if out, errs, code := runHere(t, "plot", "--corners", corners, "-o", dir, circ); code != 0 {
+		t.Fatalf("plot: exit %d\n%s%s", code, out, errs)
+	}
+	return dir
+}
+
+// readSVG reads and parses the picture at path.
+func readSVG(t *testing.T, path string) svgDoc {
+	t.Helper()
+	b, err := os.ReadFile(path)
+	if err != nil {
+		t.Fatal(err)
+	}
+	return parseSVG(t, b)
+}
+
+// reportJSON decodes report --format json on circ into v.
+func reportJSON(t *testing.T, circ, corners string, v any) {
+	t.Helper()
+	js, errs, code := runHere(t, "report", "--corners", corners, "--format", "json", circ)
+	if code != 0 {
+		t.Fatalf("report: exit %d: %s", code, errs)
+	}
+	if err := json.Unmarshal([]byte(js), v); err != nil {
+		t.Fatal(err)
+	}
+}
+
 // runHere runs the command line in-process.
 func runHere(t *testing.T, args ...string) (string, string, int) {
 	t.Helper()
@@ -191,10 +223,7 @@ type sweepJSON struct {
 // band's shading spans the band's edges.
 func TestResponseMapsBack(t *testing.T) {
 	circ, _ := filepath.Abs("../../testdata/circuits/two-stage-40m.toml")
-	dir := t.TempDir()
-	if out, errs, code := runHere(t, "plot", "--corners", "nominal", "-o", dir, circ); code != 0 {
-		t.Fatalf("plot: exit %d\n%s%s", code, out, errs)
-	}
+	dir := plotInto(t, circ, "nominal")
 	responseMatches(t, filepath.Join(dir, "two-stage-40m.response.svg"), circ, "nominal")
 }
 
@@ -214,19 +243,9 @@ func TestReadmePicture(t *testing.T) {
 // and compares it with report --format json on circ.
 func responseMatches(t *testing.T, svg, circ, corners string) {
 	t.Helper()
-	js, errs, code := runHere(t, "report", "--corners", corners, "--format", "json", circ)
-	if code != 0 {
-		t.Fatalf("report: exit %d: %s", code, errs)
-	}
 	var rep sweepJSON
-	if err := json.Unmarshal([]byte(js), &rep); err != nil {
-		t.Fatal(err)
-	}
-	b, err := os.ReadFile(svg)
-	if err != nil {
-		t.Fatal(err)
-	}
-	doc := parseSVG(t, b)
+	reportJSON(t, circ, corners, &rep)
+	doc := readSVG(t, svg)
 	ax := responseAxes(t, doc)
 	freqOf, dbOf, y0, y1 := ax.freqOf, ax.dbOf, ax.y0, ax.y1
 
@@ -679,28 +698,15 @@ func TestHTMLInBrowser(t *testing.T) {
 // the sweep: two routes to the same figures).
 func TestResponseSpread(t *testing.T) {
 	circ, _ := filepath.Abs("../../testdata/circuits/two-stage-40m.toml")
-	dir := t.TempDir()
-	if out, errs, code := runHere(t, "plot", "--corners", "worst", "-o", dir, circ); code != 0 {
-		t.Fatalf("plot: exit %d\n%s%s", code, out, errs)
-	}
-	js, errs, code := runHere(t, "report", "--corners", "worst", "--format", "json", circ)
-	if code != 0 {
-		t.Fatalf("report: exit %d: %s", code, errs)
-	}
+	dir := plotInto(t, circ, "worst")
 	var rep struct {
 		Band []struct {
 			Frequency float64               `json:"frequency"`
 			Ranges    map[string][2]float64 `json:"ranges"`
 		} `json:"band"`
 	}
-	if err := json.Unmarshal([]byte(js), &rep); err != nil {
-		t.Fatal(err)
-	}
-	b, err := os.ReadFile(filepath.Join(dir, "two-stage-40m.response.svg"))
-	if err != nil {
-		t.Fatal(err)
-	}
-	doc := parseSVG(t, b)
+	reportJSON(t, circ, "worst", &rep)
+	doc := readSVG(t, filepath.Join(dir, "two-stage-40m.response.svg"))
 	ax := responseAxes(t, doc)
 	near := func(hex string, c color.RGBA) bool {
 		v, err := strconv.ParseUint(strings.TrimPrefix(hex, "#"), 16, 32)
@@ -801,22 +807,12 @@ func TestPlotEscapes(t *testing.T) {
 // so 550 mW at the 40 °C top of the circuit's ambient range).
 func TestBiasPicture(t *testing.T) {
 	circ, _ := filepath.Abs("../../testdata/circuits/two-stage-40m.toml")
-	dir := t.TempDir()
-	if out, errs, code := runHere(t, "plot", "--corners", "nominal", "-o", dir, circ); code != 0 {
-		t.Fatalf("plot: exit %d\n%s%s", code, out, errs)
-	}
-	js, _, _ := runHere(t, "report", "--corners", "nominal", "--format", "json", circ)
+	dir := plotInto(t, circ, "nominal")
 	var rep struct {
 		Parts map[string]map[string]any `json:"parts"`
 	}
-	if err := json.Unmarshal([]byte(js), &rep); err != nil {
-		t.Fatal(err)
-	}
-	b, err := os.ReadFile(filepath.Join(dir, "two-stage-40m.bias.svg"))
-	if err != nil {
-		t.Fatal(err)
-	}
-	doc := parseSVG(t, b)
+	reportJSON(t, circ, "nominal", &rep)
+	doc := readSVG(t, filepath.Join(dir, "two-stage-40m.bias.svg"))
 	vert, horiz := doc.lines(picture.Hex(picture.GridColour))
 	panels := map[[2]float64][]float64{} // a panel's y extent → its vertical grid lines
 	for _, v := range vert {
