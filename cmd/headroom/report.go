@@ -20,7 +20,7 @@ func (e *env) report(args []string) int {
 	fset := flag.NewFlagSet("report", flag.ContinueOnError)
 	format := fset.String("format", "text", "text, markdown, html or json")
 	cornersFlag := fset.String("corners", "", "worst or nominal (default: the rule set's)")
-	rulesRef := fset.String("rules", "", "rule set for its library and corners (default: discovery)")
+	rulesRef := fset.String("rules", "", "rule set for its library, corners and the margins picture (default: discovery)")
 	pictures := fset.String("pictures", "inline", "markdown and html: inline (embedded), none, or a folder to write them in and link")
 	force := fset.Bool("force", false, "with --pictures FOLDER: overwrite files headroom did not write")
 	paths, status, ok := e.parse(fset, args)
