@@ -124,6 +124,7 @@ func WriteResponse(w io.Writer, r *Response) error {
 	bot.Add(one)
 	bot.Legend.Add("μ = 1", one)
 	addCurve(bot, "μ", r.Freq, r.Mu, MuColour, nil)
+	addLeast(bot, r.Freq, r.Mu)
 	bot.Y.Min, bot.Y.Max = math.Max(mlo, -2)-0.1, MuShown // μ past MuShown is clipped
 	bot.X.Min, bot.X.Max = r.Freq[0], r.Freq[len(r.Freq)-1]
 	lb := bot.Legend
@@ -292,4 +293,25 @@ func (stepTicks) Ticks(lo, hi float64) []plot.Tick {
 		ts = append(ts, plot.Tick{Value: v, Label: strconv.FormatFloat(v, 'g', -1, 64)})
 	}
 	return ts
+}
+
+// addLeast marks where μ is least with a diamond, its value and frequency
+// in the legend.
+func addLeast(p *plot.Plot, fs, mu []float64) {
+	k := -1
+	for i, m := range mu {
+		if finite(m) && (k < 0 || m < mu[k]) {
+			k = i
+		}
+	}
+	if k < 0 || mu[k] > MuShown {
+		return
+	}
+	sc, err := plotter.NewScatter(plotter.XYs{{X: fs[k], Y: mu[k]}})
+	if err != nil {
+		return
+	}
+	sc.GlyphStyle = draw.GlyphStyle{Color: MuColour, Radius: vg.Points(4), Shape: draw.PyramidGlyph{}}
+	p.Add(sc)
+	p.Legend.Add("least μ "+trim(mu[k])+" at "+hz(fs[k]), sc)
 }

@@ -77,6 +77,7 @@ func runHere(t *testing.T, args ...string) (string, string, int) {
 }
 
 type svgPath struct {
+	dashes       string // stroke-dasharray, "" for a solid line
 	pts          [][2]float64
 	arcs         [][2]float64 // the end points of A commands (a glyph's circle)
 	stroke, fill string
@@ -131,6 +132,9 @@ func parseSVG(t *testing.T, b []byte) svgDoc {
 				} else {
 					p.stroke = m[2]
 				}
+			}
+			if m := regexp.MustCompile(`stroke-dasharray:([0-9.,]+)`).FindStringSubmatch(attr["style"]); m != nil {
+				p.dashes = m[1]
 			}
 			for _, cmd := range regexp.MustCompile(`[ML][^MLZA]*`).FindAllString(attr["d"], -1) {
 				n := numRe.FindAllString(cmd, -1)
@@ -206,6 +210,10 @@ func fit(t *testing.T, u, v []float64) (a, b float64) {
 var unitScale = map[string]float64{"Hz": 1, "kHz": 1e3, "MHz": 1e6, "GHz": 1e9}
 
 type sweepJSON struct {
+	Stability struct {
+		MuMin   float64 `json:"mu_min"`
+		MuMinHz float64 `json:"mu_min_hz"`
+	} `json:"stability"`
 	Band []struct {
 		Frequency float64 `json:"frequency"`
 	} `json:"band"`
@@ -257,6 +265,39 @@ func responseMatches(t *testing.T, svg, circ, corners string) {
 			}
 		}
 		return best
+	}
+	// Greyscale: the three curves differ in dash pattern, not only colour.
+	dashes := map[string]string{}
+	for _, p := range doc.paths {
+		for _, c := range []color.RGBA{picture.GainColour, picture.VoltageColour, picture.ReturnColour} {
+			if p.stroke == picture.Hex(c) && len(p.pts) > 10 {
+				dashes[p.stroke] = p.dashes
+			}
+		}
+	}
+	patterns := map[string]bool{}
+	for _, d := range dashes {
+		patterns[d] = true
+	}
+	if len(dashes) != 3 || len(patterns) != 3 {
+		t.Errorf("the response curves' dash patterns are not all different: %v", dashes)
+	}
+	// The least μ named in the legend is report's.
+	least := regexp.MustCompile(`^least μ ([0-9.]+) at ([0-9.]+) (Hz|kHz|MHz|GHz)$`)
+	named := false
+	for _, tx := range doc.texts {
+		if m := least.FindStringSubmatch(tx.s); m != nil {
+			named = true
+			mu, _ := strconv.ParseFloat(m[1], 64)
+			f, _ := strconv.ParseFloat(m[2], 64)
+			f *= unitScale[m[3]]
+			if math.Abs(mu-rep.Stability.MuMin) > 0.005*math.Abs(rep.Stability.MuMin)+0.005 || math.Abs(f/rep.Stability.MuMinHz-1) > 0.005 {
+				t.Errorf("legend %q, report's least μ %g at %g Hz", tx.s, rep.Stability.MuMin, rep.Stability.MuMinHz)
+			}
+		}
+	}
+	if !named {
+		t.Error("the least μ is not marked")
 	}
 	n := len(rep.Sweep)
 	for _, s := range []struct {
