@@ -100,17 +100,7 @@ var nonFinite = regexp.MustCompile(`(d|x|y)="[^"]*(NaN|Inf)`)
 func finite(x float64) bool { return !math.IsNaN(x) && !math.IsInf(x, 0) }
 
 // hz writes a frequency for a tick label with an SI prefix: "10 MHz".
-func hz(f float64) string {
-	for _, p := range []struct {
-		s string
-		v float64
-	}{{"GHz", 1e9}, {"MHz", 1e6}, {"kHz", 1e3}} {
-		if f >= p.v {
-			return trim(f/p.v) + " " + p.s
-		}
-	}
-	return trim(f) + " Hz"
-}
+func hz(f float64) string { return si(f, "Hz") }
 
 func trim(x float64) string { return strings.TrimSuffix(fmt.Sprintf("%.3g", x), ".0") }
 

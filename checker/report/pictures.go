@@ -38,7 +38,7 @@ func (r *Report) markdownPictures(w io.Writer) {
 		if p.Link != "" {
 			src = "<" + p.Link + ">"
 		}
-		fmt.Fprintf(w, "\n![%s](%s)\n", alt, src)
+		fmt.Fprintf(w, "\n### %s\n\n![%s](%s)\n", printable.String(p.Title), alt, src)
 	}
 }
 
