@@ -21,7 +21,7 @@ const SpreadPerDecade = sweep.PerDecade / 4
 // spread set (worst-case corners) it also finds each curve's range over the
 // corner box at SpreadPerDecade points a decade and the band's three.
 func ResponseOf(c *circuit.Circuit, topo *topology.Topology, nominal *analysis.Case, sw *sweep.Result, spread bool) *Response {
-	r := &Response{Title: c.Name + ": response over the sweep", Band: c.Band}
+	r := &Response{Title: c.Name + ": response over the sweep", Band: c.Band, OutOnly: sw.OnePort == "out"}
 	for _, p := range sw.Points {
 		r.Freq = append(r.Freq, p.Frequency)
 		r.Gain = append(r.Gain, orNaN(p.GainDB))

@@ -29,6 +29,9 @@ type Response struct {
 	// "voltage", "return" and "mu"; nil in nominal mode.
 	SpreadFreq []float64
 	Spread     map[string][][2]float64
+	// OutOnly says the circuit's one port is its out port: Return is that
+	// port's return loss.
+	OutOnly bool
 }
 
 // MuShown is the highest μ the stability panel shows: above it the circuit
@@ -43,10 +46,14 @@ type series struct {
 }
 
 func (r *Response) series() []series {
+	rl := "input return loss"
+	if r.OutOnly {
+		rl = "output return loss"
+	}
 	return []series{
 		{"gain", "transducer gain", r.Gain, GainColour, nil},
 		{"voltage", "voltage gain", r.Voltage, VoltageColour, []vg.Length{vg.Points(6), vg.Points(3)}},
-		{"return", "input return loss", r.Return, ReturnColour, []vg.Length{vg.Points(1.5), vg.Points(2.5)}},
+		{"return", rl, r.Return, ReturnColour, []vg.Length{vg.Points(1.5), vg.Points(2.5)}},
 	}
 }
 
