@@ -51,3 +51,33 @@ func TestRenderRefusesNonFinite(t *testing.T) {
 		t.Fatalf("a finite drawing failed: %v", err)
 	}
 }
+
+// luma is ITU-R BT.601's Y' = 0.299 R' + 0.587 G' + 0.114 B', the grey a
+// colour prints as.
+func luma(r, g, b uint8) float64 { return 0.299*float64(r) + 0.587*float64(g) + 0.114*float64(b) }
+
+// TestSeveritiesInGreyscale: the three severities' fills, a passing bar's
+// outline and white stay apart in greyscale (at least 40 of 255 between any
+// two), so a black-and-white print still tells error from warning from
+// info.
+func TestSeveritiesInGreyscale(t *testing.T) {
+	names := []string{"error", "warning", "info", "pass", "white"}
+	var ys []float64
+	for _, n := range names[:3] {
+		c := SeverityColour(n)
+		ys = append(ys, luma(c.R, c.G, c.B))
+	}
+	ys = append(ys, luma(passColour.R, passColour.G, passColour.B), 255)
+	for i := range ys {
+		for j := i + 1; j < len(ys); j++ {
+			if i == 3 || j == 3 { // the passing bar is an outline, not a fill: only white must differ from it
+				if j != 4 {
+					continue
+				}
+			}
+			if math.Abs(ys[i]-ys[j]) < 40 {
+				t.Errorf("%s (%.0f) and %s (%.0f) print as nearly the same grey", names[i], ys[i], names[j], ys[j])
+			}
+		}
+	}
+}
