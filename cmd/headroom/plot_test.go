@@ -700,8 +700,15 @@ func TestHTMLInBrowser(t *testing.T) {
 	page := filepath.Join(dir, "report.html")
 	shot := filepath.Join(dir, "shot.png")
 	write(t, dir, "report.html", out)
+	// The browser's profile lives outside the test's folder: a helper
+	// process still closing must not make the folder's clean-up fail.
+	profile, err := os.MkdirTemp("", "headroom-chromium")
+	if err != nil {
+		t.Fatal(err)
+	}
+	defer os.RemoveAll(profile)
 	cmd := exec.Command(browser, "--headless", "--no-sandbox", "--disable-gpu", "--hide-scrollbars",
-		"--user-data-dir="+filepath.Join(dir, "profile"), "--window-size=900,3000", "--screenshot="+shot, "file://"+page)
+		"--user-data-dir="+profile, "--window-size=900,3000", "--screenshot="+shot, "file://"+page)
 	done := make(chan error, 1)
 	var so bytes.Buffer
 	cmd.Stdout, cmd.Stderr = &so, &so
