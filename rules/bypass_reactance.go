@@ -11,8 +11,9 @@ import (
 // BypassReactance judges an emitter bypass against what the emitter really
 // sees, which is far less than the emitter resistor.
 var BypassReactance = &engine.Rule{
-	ID:       "bypass.reactance",
-	FixMoves: []string{engine.MoveGain}, // its fix restores the gain the part costs
+	ID:              "bypass.reactance",
+	NeedsTransistor: true,
+	FixMoves:        []string{engine.MoveGain}, // its fix restores the gain the part costs
 	Doc: engine.Doc{
 		Title: "an emitter bypass must short the emitter at the lowest band frequency",
 		Why: "Looking into the emitter the circuit shows only re + (source resistance)/β, a few ohms. The bypass reactance " +

@@ -14,8 +14,9 @@ import (
 // ChokeReactance checks that a collector feed choke does not shunt the
 // signal it feeds.
 var ChokeReactance = &engine.Rule{
-	ID:       "choke.reactance",
-	FixMoves: []string{engine.MoveGain}, // its fix restores the gain the part costs
+	ID:              "choke.reactance",
+	NeedsTransistor: true,
+	FixMoves:        []string{engine.MoveGain}, // its fix restores the gain the part costs
 	Doc: engine.Doc{
 		Title: "a collector feed choke must not shunt the signal",
 		Why: "The choke sits across the collector load for the signal. At ten times the impedance it shunts it lowers " +

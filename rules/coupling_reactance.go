@@ -12,8 +12,9 @@ import (
 // CouplingReactance keeps series capacitors from eating signal at the bottom
 // of the band.
 var CouplingReactance = &engine.Rule{
-	ID:       "coupling.reactance",
-	FixMoves: []string{engine.MoveGain}, // its fix restores the gain the part costs
+	ID:              "coupling.reactance",
+	NeedsTransistor: true,
+	FixMoves:        []string{engine.MoveGain}, // its fix restores the gain the part costs
 	Doc: engine.Doc{
 		Title: "a coupling capacitor must pass the lowest band frequency",
 		Why: "A series capacitor forms a high-pass with the impedance it works into. At a tenth of that impedance it costs " +

@@ -10,8 +10,9 @@ import (
 
 // DecouplingReactance checks that a decoupled net is held at AC ground.
 var DecouplingReactance = &engine.Rule{
-	ID:       "decoupling.reactance",
-	FixMoves: []string{engine.MoveGain}, // its fix restores the gain the part costs
+	ID:              "decoupling.reactance",
+	NeedsTransistor: true,
+	FixMoves:        []string{engine.MoveGain}, // its fix restores the gain the part costs
 	Doc: engine.Doc{
 		Title: "a decoupling capacitor must hold its net at AC ground",
 		Why: "A supply or bias net that is not really at AC ground couples stages together and feeds signal back, " +

@@ -15,7 +15,8 @@ import (
 // StabilityOscillation checks that the circuit, as terminated, has no
 // natural frequency that grows: that it does not oscillate by itself.
 var StabilityOscillation = &engine.Rule{
-	ID: "stability.oscillation",
+	ID:              "stability.oscillation",
+	NeedsTransistor: true,
 	Doc: engine.Doc{
 		Title: "the circuit as terminated must not oscillate",
 		Why: "A small RF stage that oscillates — usually well outside its band, at VHF through the transistor's " +

@@ -13,7 +13,8 @@ import (
 // StabilityUnconditional checks that no passive source or load can make the
 // stage oscillate, from a decade below the band to twice the fastest fT.
 var StabilityUnconditional = &engine.Rule{
-	ID: "stability.unconditional",
+	ID:              "stability.unconditional",
+	NeedsTransistor: true,
 	Doc: engine.Doc{
 		Title: "no passive source or load may make the stage oscillate",
 		Why: "The in and out ports' impedances are nominal: an antenna, a filter or a cable presents other " +

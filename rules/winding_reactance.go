@@ -2,6 +2,7 @@ package rules
 
 import (
 	"fmt"
+	"headroom/checker/filter"
 	"math"
 	"strconv"
 	"strings"
@@ -14,14 +15,16 @@ import (
 // WindingReactance checks that a broadband transformer's magnetising
 // reactance stays large against what it works into at the bottom of the band.
 var WindingReactance = &engine.Rule{
-	ID:       "winding.reactance",
-	FixMoves: []string{engine.MoveGain}, // its fix restores the gain the part costs
+	ID:              "winding.reactance",
+	NeedsTransistor: true,
+	FixMoves:        []string{engine.MoveGain}, // its fix restores the gain the part costs
 	Doc: engine.Doc{
 		Title: "a transformer's loaded winding must have ample reactance at the lowest band frequency",
 		Why: "The magnetising inductance shunts the signal path. With the winding's reactance four times the impedance it " +
 			"works into, a matched transformer is within 3 % of an ideal one (return loss 18 dB, 0.07 dB lost); at twice, it " +
 			"is 11 % off and the return loss falls to 12 dB.",
-		Formula: "per transformer, the loaded winding is the one with the smallest termination ÷ turns² (chosen afresh in each case); " +
+		Formula: "per transformer without a capacitor across any winding (a tuned transformer's winding is resonated, " +
+			"and tank.tuning judges it), the loaded winding is the one with the smallest termination ÷ turns² (chosen afresh in each case); " +
 			"ω·AL·N² ÷ termination >= min_ratio at f_low, leakage and resistance ignored, AL at its minimum in the worst case; " +
 			"termination = |Z| between the winding's nets at f_low with the whole transformer removed. A winding in a FET's drain is judged the same way (docs/fet.md).",
 		Source: "D. G. Fern, \"The Four Times the Impedance Rule for Broadband RF Transformer Windings: Where Does it Originate?\" " +
@@ -39,8 +42,12 @@ var WindingReactance = &engine.Rule{
 		}
 		minRatio := p.Param("min_ratio")
 		w := omegaLow(p.Circuit)
+		tuned := map[string]bool{} // a winding with a capacitor across it resonates: tank.tuning judges it
+		for _, t := range filter.Tanks(p.Circuit, p.A.Topo) {
+			tuned[t.Ref] = true
+		}
 		for _, part := range p.Circuit.Parts {
-			if part.Kind != circuit.Transformer || !(part.AL > 0) {
+			if part.Kind != circuit.Transformer || !(part.AL > 0) || tuned[part.Ref] {
 				continue
 			}
 			i, term := loadedWinding(p, part)

@@ -57,11 +57,12 @@ type network struct {
 	rl     float64 // the out port's impedance RL, Ω
 	load   int     // index in elems of RL to gnd (-1 when the out net is AC ground)
 	gains  bool    // exactly one in and one out port
+	centre float64 // the band's geometric centre, Hz: where a part's Q applies without q_freq
 }
 
 // build turns a circuit and its operating point into a network.
 func build(c *circuit.Circuit, op *dc.Result) (*network, error) {
-	nw := &network{parts: make(map[string]int, len(c.Parts)), source: -1, load: -1,
+	nw := &network{parts: make(map[string]int, len(c.Parts)), source: -1, load: -1, centre: c.BandCentre(),
 		elems: make([]element, 0, len(c.Supplies)+len(c.Ports)+len(c.Parts))}
 	acGround := map[string]bool{}
 	for _, s := range c.Supplies {
@@ -150,8 +151,10 @@ func (nw *network) addPart(p *circuit.Part, op *dc.Result, node func(string) int
 		if !positive(c) {
 			return fmt.Errorf("capacitance %g is not a positive finite value", c)
 		}
+		rq := p.QLoss(0, c, nw.centre) // the unloaded Q as a series resistance
 		nw.add(p.Ref, []branch{{node(p.Nets[0]), node(p.Nets[1])}}, func(w float64) ([]complex128, error) {
-			return []complex128{complex(0, w*c)}, nil
+			y := complex(0, w*c)
+			return []complex128{y / (1 + y*complex(rq, 0))}, nil
 		})
 	case circuit.Inductor:
 		l, r := p.Inductance(), p.Resistance
@@ -161,6 +164,7 @@ func (nw *network) addPart(p *circuit.Part, op *dc.Result, node func(string) int
 		if !(r >= 0) || math.IsInf(r, 0) {
 			return fmt.Errorf("resistance %g is not a finite value ≥ 0", r)
 		}
+		r += p.QLoss(l, 0, nw.centre)
 		nw.add(p.Ref, []branch{{node(p.Nets[0]), node(p.Nets[1])}}, func(w float64) ([]complex128, error) {
 			return []complex128{1 / complex(r, w*l)}, nil
 		})
@@ -210,6 +214,7 @@ func (nw *network) addTransformer(p *circuit.Part, node func(string) int) error 
 		if !(r[i] >= 0) || math.IsInf(r[i], 0) {
 			return fmt.Errorf("winding %s: resistance %g is not a finite value ≥ 0", w.Name, r[i])
 		}
+		r[i] += p.QLoss(l[i], 0, nw.centre)
 		br[i] = branch{node(w.Nets[0]), node(w.Nets[1])}
 	}
 	k := p.Coupling

@@ -214,6 +214,9 @@ func (r *Runner) judge(c *circuit.Circuit, cfg *engine.Config) (judged, error) {
 func (r *Runner) prepare(c *circuit.Circuit, cfg *engine.Config) (*topology.Topology, judged, *engine.Config) {
 	topo := topology.Analyze(c)
 	var j judged
+	// Rules with nothing to judge in this kind of circuit are left out
+	// silently, before anything else counts them.
+	cfg = withoutRules(cfg, inapplicable(c, cfg))
 	if len(topo.Problems) > 0 && cfg.Severity["net.connectivity"] == engine.Error {
 		j.notJudged, j.why = analysedRules(cfg), brokenWiring
 	}
@@ -246,6 +249,20 @@ func analysedRules(cfg *engine.Config) []string {
 	for _, rule := range cfg.Rules {
 		if rule.Run != nil && !rule.Static && !rule.FromFile && rule.ID != "net.connectivity" &&
 			rule.ID != "bias.region" && cfg.Enabled(rule) && !(rule.NeedsCorners && cfg.Corners != "worst") {
+			out = append(out, rule.ID)
+		}
+	}
+	return out
+}
+
+// inapplicable lists the rules that judge nothing in c: those that need a
+// transistor when it has none (engine.Rule.NeedsTransistor), the passive
+// circuits' rules when it has one (engine.Rule.PassiveOnly).
+func inapplicable(c *circuit.Circuit, cfg *engine.Config) []string {
+	has := c.HasTransistor()
+	var out []string
+	for _, rule := range cfg.Rules {
+		if rule.NeedsTransistor && !has || rule.PassiveOnly && has {
 			out = append(out, rule.ID)
 		}
 	}

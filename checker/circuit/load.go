@@ -133,7 +133,7 @@ func (ld *loader) circuitTable(root *tomlfile.Table) {
 	}
 	c := ld.c
 	c.Pos = ld.pos(t.Pos)
-	t.Allow("name", "band", "ambient", "library")
+	t.Allow("name", "band", "ambient", "library", "reject")
 	if name, ok := t.String("name", true); ok {
 		if strings.TrimSpace(name) == "" {
 			t.Errorf(t.ValPos("name"), "[circuit] name: must not be empty")
@@ -167,11 +167,43 @@ func (ld *loader) circuitTable(root *tomlfile.Table) {
 			c.Ambient = Ambient{Nominal: v, Lo: v, Hi: v}
 		}
 	}
+	ld.rejects(t)
 	if libs, ok := t.Strings("library"); ok {
 		c.Libraries = libs
 		for i := range libs {
 			ld.libPos = append(ld.libPos, t.ElemPos("library", i))
 		}
+	}
+}
+
+// Name is what findings about the rejection call it: "reject-14.2MHz".
+func (r Reject) Name() string { return "reject-" + quantity.Code(r.Freq, quantity.Hertz) }
+
+// rejects reads reject = [{ freq = "7MHz", min_db = 40 }, ...]: each
+// frequency must lie outside the band, where a filter is meant to pass.
+func (ld *loader) rejects(t *tomlfile.Table) {
+	if !t.Has("reject") {
+		return
+	}
+	band := ld.c.Band
+	for _, e := range t.TableArray("reject", func(i int) string { return fmt.Sprintf("[circuit] reject[%d]", i) }) {
+		e.Allow("freq", "min_db")
+		r := Reject{Pos: ld.pos(e.Pos)}
+		if !e.Has("freq") {
+			e.Missing("freq", `(the frequency to stop, as in { freq = "7MHz", min_db = 40 })`)
+		} else if f, ok := e.Quantity("freq", quantity.Hertz, tomlfile.Positive); ok {
+			r.Freq, r.Pos = f, ld.pos(e.ValPos("freq"))
+			if band[1] > 0 && f >= band[0] && f <= band[1] {
+				e.Errorf(e.ValPos("freq"), "%s freq: %s lies inside the band %s to %s, which a filter passes; a rejection frequency must lie outside it",
+					e.What, quantity.Format(f, quantity.Hertz), quantity.Format(band[0], quantity.Hertz), quantity.Format(band[1], quantity.Hertz))
+			}
+		}
+		if !e.Has("min_db") {
+			e.Missing("min_db", `(the least loss wanted there, as in min_db = 40)`)
+		} else if v, ok := e.Quantity("min_db", quantity.Decibel, tomlfile.Positive); ok {
+			r.MinDB = v
+		}
+		ld.c.Rejects = append(ld.c.Rejects, r)
 	}
 }
 
@@ -318,9 +350,9 @@ func (ld *loader) checkNet(t *tomlfile.Table, what, n string, p tomlfile.Pos) bo
 // Part kinds and the keys each accepts (FORMAT.md §2).
 var partKeys = map[Kind][]string{
 	Resistor:       {"kind", "value", "nets", "tolerance", "rating"},
-	Capacitor:      {"kind", "value", "nets", "tolerance", "rating", "role"},
-	Inductor:       {"kind", "value", "turns", "core", "al", "al_tolerance", "nets", "tolerance", "resistance", "role"},
-	Transformer:    {"kind", "core", "al", "al_tolerance", "coupling", "windings"},
+	Capacitor:      {"kind", "value", "nets", "tolerance", "rating", "role", "q", "q_freq"},
+	Inductor:       {"kind", "value", "turns", "core", "al", "al_tolerance", "nets", "tolerance", "resistance", "role", "q", "q_freq"},
+	Transformer:    {"kind", "core", "al", "al_tolerance", "coupling", "windings", "q", "q_freq"},
 	Potentiometer:  {"kind", "value", "nets", "setting", "rating", "tolerance"},
 	NPN:            append([]string{"kind", "device", "nets"}, library.TransistorKeys...),
 	PNP:            append([]string{"kind", "device", "nets"}, library.TransistorKeys...),
@@ -393,13 +425,16 @@ func (ld *loader) part(t *tomlfile.Table) *Part {
 		p.Tolerance = tolerance(t, "tolerance", 0.10)
 		p.Rating, _ = t.Quantity("rating", quantity.Volt, tomlfile.Positive)
 		p.Role = role(t, "coupling", "bypass", "decoupling", "tuning")
+		ld.quality(t, p)
 	case Inductor:
 		ld.twoNets(t, p)
 		ld.inductor(t, p)
 		p.Resistance, _ = t.Quantity("resistance", quantity.Ohm, tomlfile.NonNegative)
 		p.Role = role(t, "choke", "tuning")
+		ld.quality(t, p)
 	case Transformer:
 		ld.magnetics(t, p)
+		ld.quality(t, p)
 		p.Coupling = 0.98
 		if k, ok := t.Quantity("coupling", quantity.Ratio, tomlfile.Positive); ok {
 			if k >= 1 {
@@ -581,6 +616,27 @@ func (ld *loader) magnetics(t *tomlfile.Table, p *Part) {
 	p.ALTolerance = tolerance(t, "al_tolerance", p.ALTolerance)
 }
 
+// quality reads q and q_freq (the unloaded Q and the frequency it is given
+// at); without q, a library core's typical Q range gives the nominal Q (the
+// geometric mean of its ends) and the range the corner box sweeps.
+func (ld *loader) quality(t *tomlfile.Table, p *Part) {
+	if q, ok := t.Quantity("q", quantity.Ratio, tomlfile.Positive); ok {
+		p.Q = q
+	} else if !t.Has("q") && p.Core != "" {
+		if core := ld.lib.Cores[p.Core]; core != nil && core.Q[0] > 0 {
+			p.Q = math.Sqrt(core.Q[0] * core.Q[1])
+			p.QRange = core.Q
+			p.QFreq = core.QFreq
+		}
+	}
+	if f, ok := t.Quantity("q_freq", quantity.Hertz, tomlfile.Positive); ok {
+		if !t.Has("q") {
+			t.Errorf(t.KeyPos("q_freq"), "%s q_freq: the frequency a Q is given at needs q beside it, as in q = 150", t.What)
+		}
+		p.QFreq = f
+	}
+}
+
 func sortedKeys[V any](m map[string]V) []string {
 	keys := make([]string, 0, len(m))
 	for k := range m {
@@ -757,6 +813,12 @@ func (ld *loader) waivers(root *tomlfile.Table) {
 	names := map[string]bool{}
 	for _, p := range ld.c.Parts {
 		names[p.Ref] = true
+		for _, w := range p.Windings {
+			names[p.Ref+"."+w.Name] = true // a tuned winding's findings (tank.tuning)
+		}
+	}
+	for _, r := range ld.c.Rejects {
+		names[r.Name()] = true // filter.rejection's items
 	}
 	for _, p := range ld.c.Ports {
 		names[p.Name] = true

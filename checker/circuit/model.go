@@ -52,12 +52,23 @@ type Circuit struct {
 	Parts     []*Part   // file order
 	Waivers   []*Waiver // file order
 	Pos       Pos       // the [circuit] table header
+	// Rejects are the frequencies a filter must stop ([circuit] reject,
+	// docs/filters.md), file order; read-only, shared by clones.
+	Rejects []Reject
 
 	// Library is the merged library the parts were resolved against (shipped,
 	// then the rule set's, then the circuit's own): fixes that change a
 	// transistor look here, and core.frequency finds a core's f_range here.
 	// Shared, read-only.
 	Library *library.Library
+}
+
+// Reject is one frequency, outside the band, where the insertion loss must
+// be at least MinDB.
+type Reject struct {
+	Freq  float64 // Hz
+	MinDB float64 // dB, > 0
+	Pos   Pos     // the entry's freq value
 }
 
 // Ambient is the ambient temperature in °C: a nominal value and the range the
@@ -108,6 +119,15 @@ type Part struct {
 	AL          float64 // H per turn², from al or the core
 	ALTolerance float64 // fraction, default 0.25 (or the core's); 0 for an inductor given by value
 	Core        string  // library core name, "" when not given
+
+	// Losses of a capacitor, inductor or transformer (docs/filters.md): the
+	// unloaded Q at QFreq, modelled in the AC analysis as a fixed series
+	// resistance (QLoss). Q = 0: lossless. QFreq = 0: the band centre.
+	// QRange is the core's typical range when Q came from a library core
+	// (the corner box moves Q across it), zero otherwise.
+	Q      float64
+	QFreq  float64 // Hz
+	QRange [2]float64
 
 	// Transformer.
 	Coupling float64 // k in (0,1), default 0.98
@@ -175,6 +195,49 @@ func (p *Part) Inductance() float64 {
 		return p.AL * p.Turns * p.Turns
 	}
 	return p.Value
+}
+
+// QLoss is the series resistance that gives a reactance of inductance l (H,
+// capacitance 0) or capacitance c (F, inductance 0) the part's unloaded Q:
+// R = ω·L/Q or 1/(ω·C·Q), ω = 2π·QFreq, or 2π times centre (the band's
+// geometric centre, Hz) when QFreq is 0. It is 0 without a Q, and at most
+// maxQLoss.
+func (p *Part) QLoss(l, c, centre float64) float64 {
+	if !(p.Q > 0) || math.IsInf(p.Q, 0) {
+		return 0
+	}
+	f := p.QFreq
+	if !(f > 0) {
+		f = centre
+	}
+	w := 2 * math.Pi * f
+	r := 0.0
+	if l > 0 {
+		r = w * l / p.Q
+	} else if c > 0 {
+		r = 1 / (w * c * p.Q)
+	}
+	if math.IsNaN(r) {
+		return 0
+	}
+	return math.Min(r, maxQLoss)
+}
+
+// maxQLoss caps QLoss where a Q near zero (or a value near the float limits)
+// would make it overflow: 1e15 Ω is an open circuit to every analysis.
+const maxQLoss = 1e15
+
+// BandCentre is the geometric centre √(lo·hi) of the band, Hz.
+func (c *Circuit) BandCentre() float64 { return math.Sqrt(c.Band[0] * c.Band[1]) }
+
+// HasTransistor reports whether any part is a transistor (bipolar or FET).
+func (c *Circuit) HasTransistor() bool {
+	for _, p := range c.Parts {
+		if p.BJT != nil || p.FET != nil || p.Kind.IsBJT() || p.Kind.IsFET() {
+			return true
+		}
+	}
+	return false
 }
 
 // Part returns the part with the given reference, or nil.

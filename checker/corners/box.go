@@ -56,7 +56,7 @@ func ownSupply(c *circuit.Circuit, i int) *circuit.Supply {
 
 // Param is one dimension of the box.
 type Param struct {
-	Key         string  // the corner key of FORMAT.md §5: REF, REF.hfe, REF.al, a supply net, "ambient"
+	Key         string  // the corner key of FORMAT.md §5: REF, REF.hfe, REF.al, REF.q, a supply net, "ambient"
 	Nom, Lo, Hi float64 // the nominal value and the range
 	Unit        quantity.Unit
 	Tolerance   bool                       // the range is nominal ± a tolerance (shown as a percentage)
@@ -66,7 +66,7 @@ type Param struct {
 }
 
 // Box lists the parameters of c that can move, in a fixed order: parts in
-// file order (value or AL, then hFE), supplies, ambient.
+// file order (value or AL, a core's Q range, then hFE), supplies, ambient.
 func Box(c *circuit.Circuit) []Param {
 	var ps []Param
 	for i, p := range c.Parts {
@@ -86,6 +86,13 @@ func Box(c *circuit.Circuit) []Param {
 			}
 		case circuit.Transformer:
 			ps = appendTol(ps, p.Ref+".al", p.AL, p.ALTolerance, quantity.Henry, func(c *circuit.Circuit, v float64) { own(c, i).AL = v })
+		}
+		if q := p.QRange; q[1] > q[0] && q[0] > 0 {
+			// A Q from a library core's typical range (docs/filters.md).
+			ps = append(ps, Param{Key: p.Ref + ".q", Nom: p.Q, Lo: q[0], Hi: q[1], Unit: quantity.Ratio,
+				set: func(c *circuit.Circuit, v float64) { own(c, i).Q = v }})
+		}
+		switch p.Kind {
 		case circuit.NPN, circuit.PNP:
 			b := p.BJT
 			if b != nil && b.HFEMax > b.HFEMin {

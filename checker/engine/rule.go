@@ -43,6 +43,14 @@ type Rule struct {
 	// gain). The whole-circuit check of a fix (checker/check) lets those
 	// move past the rule set's [fixes] limits, and the fix says by how much.
 	FixMoves []string
+	// NeedsTransistor marks a rule whose items exist only around a
+	// transistor (bias, device limits, the reactance rules that judge an
+	// amplifier's coupling, bypass, decoupling and chokes, stability): a
+	// circuit without one (a passive filter) is not judged by it.
+	NeedsTransistor bool
+	// PassiveOnly marks a rule whose items exist only in a circuit without
+	// a transistor (the filter rules): an amplifier is not judged by it.
+	PassiveOnly bool
 }
 
 // The measures a fix may be meant to move (Rule.FixMoves).

@@ -61,8 +61,13 @@ type Core struct {
 	ALGiven     float64    // H per turn², the explicit al; 0 = computed from geometry
 	ALTolerance float64    // fraction
 	FRange      [2]float64 // Hz, where the material is meant to be used; zero = not given
-	File        string
-	Pos         tomlfile.Pos
+	// Q is the typical unloaded Q range of a winding on the core, lowest
+	// first, at QFreq (Hz; 0 = the circuit's band centre); zero = not given,
+	// and the winding stays lossless.
+	Q     [2]float64
+	QFreq float64
+	File  string
+	Pos   tomlfile.Pos
 }
 
 // AL is the inductance per turn squared in henries: the explicit al when
@@ -230,7 +235,7 @@ func (tr *Transistor) HFETypOutside() bool {
 	return tr.HFETyp > 0 && tr.HFEMax > 0 && (tr.HFETyp < tr.HFEMin || tr.HFETyp > tr.HFEMax)
 }
 
-var coreKeys = []string{"mu", "od", "id", "height", "al", "al_tolerance", "f_range"}
+var coreKeys = []string{"mu", "od", "id", "height", "al", "al_tolerance", "f_range", "q", "q_freq"}
 
 func readCore(t *tomlfile.Table) *Core {
 	t.Allow(coreKeys...)
@@ -276,6 +281,19 @@ func readCore(t *tomlfile.Table) *Core {
 		} else {
 			c.FRange = r
 		}
+	}
+	if r, ok := t.Pair("q", quantity.Ratio, tomlfile.Positive); ok {
+		if r[0] > r[1] {
+			t.Errorf(t.ValPos("q"), "%s q: the low end %g is above the high end %g", t.What, r[0], r[1])
+		} else {
+			c.Q = r
+		}
+	}
+	if v, ok := t.Quantity("q_freq", quantity.Hertz, tomlfile.Positive); ok {
+		if !t.Has("q") {
+			t.Errorf(t.KeyPos("q_freq"), "%s q_freq: the frequency a Q is given at needs the q range beside it", t.What)
+		}
+		c.QFreq = v
 	}
 	return c
 }

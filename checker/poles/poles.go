@@ -193,6 +193,7 @@ type pencil struct {
 	entries []entry
 	names   []string // each unknown, for messages and tests
 	node    map[string]int
+	centre  float64 // the band's geometric centre, Hz, where a Q without q_freq applies
 }
 
 const ground = -1
@@ -221,7 +222,7 @@ func (p *pencil) unknown(name string) int {
 
 // build writes the pencil of c.
 func build(c *circuit.Circuit, res *ac.Result) (*pencil, error) {
-	p := &pencil{node: map[string]int{circuit.Gnd: ground}}
+	p := &pencil{node: map[string]int{circuit.Gnd: ground}, centre: c.BandCentre()}
 	for _, s := range c.Supplies {
 		if !(s.Impedance >= 0) || math.IsInf(s.Impedance, 0) {
 			return nil, fmt.Errorf("supply %s: impedance %g is not a finite value ≥ 0", s.Net, s.Impedance)
@@ -279,7 +280,20 @@ func (p *pencil) part(part *circuit.Part, res *ac.Result, nd func(string) int) e
 		if !positive(part.Value) {
 			return fmt.Errorf("capacitance %g is not a positive finite value", part.Value)
 		}
-		p.admit(nd(part.Nets[0]), nd(part.Nets[1]), 0, part.Value, ref)
+		a, b, cv := nd(part.Nets[0]), nd(part.Nets[1]), part.Value
+		rq := part.QLoss(0, cv, p.centre)
+		if rq == 0 {
+			p.admit(a, b, 0, cv, ref)
+			break
+		}
+		// With its Q as a series resistance rq, a branch current i:
+		// s·C·(V(a) − V(b) − rq·i) − i = 0.
+		k := p.unknown(ref + ".i")
+		p.add(a, k, 1, 0, "")
+		p.add(b, k, -1, 0, "")
+		p.add(k, a, 0, cv, ref)
+		p.add(k, b, 0, -cv, ref)
+		p.add(k, k, -1, -cv*rq, ref)
 	case circuit.Potentiometer:
 		if !positive(part.Value) || !(part.Setting >= 0 && part.Setting <= 1) {
 			return fmt.Errorf("value %g or setting %g out of range", part.Value, part.Setting)
@@ -294,6 +308,7 @@ func (p *pencil) part(part *circuit.Part, res *ac.Result, nd func(string) int) e
 		if !positive(l) || !(r >= 0) || math.IsInf(r, 0) {
 			return fmt.Errorf("inductance %g or resistance %g out of range", l, r)
 		}
+		r += part.QLoss(l, 0, p.centre)
 		k := p.unknown(ref + ".i")
 		p.branch(k, nd(part.Nets[0]), nd(part.Nets[1]))
 		p.add(k, k, -r, -l, ref)
@@ -317,7 +332,7 @@ func (p *pencil) part(part *circuit.Part, res *ac.Result, nd func(string) int) e
 				lij := part.Coupling * math.Sqrt(ls[i]*ls[j])
 				r := 0.0
 				if i == j {
-					lij, r = ls[i], part.Windings[i].Resistance
+					lij, r = ls[i], part.Windings[i].Resistance+part.QLoss(ls[i], 0, p.centre)
 				}
 				p.add(ks[i], ks[j], -r, -lij, ref)
 			}

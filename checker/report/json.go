@@ -49,6 +49,7 @@ type jsonDoc struct {
 	Band        []jsonBand                `json:"band"`
 	Stability   *jsonStability            `json:"stability,omitempty"`
 	Sweep       []jsonSweep               `json:"sweep,omitempty"`
+	Filter      *jsonFilter               `json:"filter,omitempty"`
 }
 
 // JSON writes the report as FORMAT.md §5's document.
@@ -157,6 +158,7 @@ func (r *Report) JSON(w io.Writer) error {
 			doc.Band = append(doc.Band, jb)
 		}
 	}
+	doc.Filter = r.filterJSON(doc.Parts)
 	doc.Stability, doc.Sweep = r.stabilityJSON()
 	enc := json.NewEncoder(w)
 	enc.SetIndent("", "  ")

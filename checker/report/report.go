@@ -25,6 +25,7 @@ type Report struct {
 	stabDone bool
 	poles    *poles.Result
 	sweep    *sweep.Result
+	filt     *filterFigures // filter.go, once
 }
 
 // Quantities are the figures whose range over the box the report shows:

@@ -119,6 +119,7 @@ func (r *Report) tables() []table {
 		band.rows = append(band.rows, row)
 	}
 	ts = append(ts, band)
+	ts = append(ts, r.filterTables()...)
 	return append(ts, r.stabilityTables()...)
 }
 

@@ -59,8 +59,41 @@ func (t *Topology) capacitorRole(p *circuit.Part, memo map[string]bool) string {
 		return Bypass
 	case f.collector || f.base || f.port:
 		return Tuning
+	case t.resonates(x):
+		return Tuning
 	}
 	return Decoupling
+}
+
+// resonates reports whether, in a circuit without a transistor (a passive
+// filter, docs/filters.md), net carries an inductor or a transformer winding
+// to AC ground: a capacitor from it to AC ground is then a resonator's, not a
+// decoupling one. In an amplifier the same wiring is a supply filter's, and
+// the Roles table stands.
+func (t *Topology) resonates(net string) bool {
+	if t.c.HasTransistor() {
+		return false
+	}
+	for _, p := range t.c.Parts {
+		if p == nil {
+			continue
+		}
+		var ends [][2]string
+		switch {
+		case p.Kind == circuit.Inductor && len(p.Nets) == 2:
+			ends = append(ends, [2]string{p.Nets[0], p.Nets[1]})
+		case p.Kind == circuit.Transformer:
+			for _, w := range p.Windings {
+				ends = append(ends, w.Nets)
+			}
+		}
+		for _, e := range ends {
+			if e[0] == net && t.ACGround(e[1]) || e[1] == net && t.ACGround(e[0]) {
+				return true
+			}
+		}
+	}
+	return false
 }
 
 // reachesEmitter reports whether net touches a transistor emitter, or reaches

@@ -86,6 +86,14 @@ func (e *env) parts(args []string) int {
 			en.Figures = append(en.Figures, figure{Name: "f_range", Value: c.FRange[0], Max: c.FRange[1], Unit: "Hz",
 				Text: quantity.Format(c.FRange[0], quantity.Hertz) + " to " + quantity.Format(c.FRange[1], quantity.Hertz), Source: s["f_range"]})
 		}
+		if c.Q[1] > 0 {
+			at := "at the band centre"
+			if c.QFreq > 0 {
+				at = "at " + quantity.Format(c.QFreq, quantity.Hertz)
+			}
+			en.Figures = append(en.Figures, figure{Name: "q", Value: c.Q[0], Max: c.Q[1], Unit: "",
+				Text: fmt.Sprintf("%g to %g (%s)", c.Q[0], c.Q[1], at), Source: s["q"]})
+		}
 		cs = append(cs, en)
 	}
 	if *format == "json" {
