@@ -203,6 +203,15 @@ func (r *Runner) File(path string, data []byte) Result {
 // severities, the nominal case, and the rules left unjudged in a broken
 // circuit. fixes asks for the findings' fixes to be worked out too.
 func (r *Runner) judge(c *circuit.Circuit, cfg *engine.Config, fixes bool) (judged, error) {
+	topo, j, cfg := r.prepare(c, cfg)
+	fs, err := r.judgeCase(c, topo, j.nominal, cfg, fixes)
+	j.findings = fs
+	return j, err
+}
+
+// prepare analyses the circuit at nominal and narrows cfg to the rules a
+// broken circuit still lets judge (j.notJudged says which are left out).
+func (r *Runner) prepare(c *circuit.Circuit, cfg *engine.Config) (*topology.Topology, judged, *engine.Config) {
 	topo := topology.Analyze(c)
 	var j judged
 	// Rules with nothing to judge in this kind of circuit are left out
@@ -228,9 +237,8 @@ func (r *Runner) judge(c *circuit.Circuit, cfg *engine.Config, fixes bool) (judg
 	if len(j.notJudged) > 0 {
 		cfg = withoutRules(cfg, j.notJudged)
 	}
-	fs, err := r.judgeCase(c, topo, nominal, cfg, fixes)
-	j.findings, j.nominal = fs, nominal
-	return j, err
+	j.nominal = nominal
+	return topo, j, cfg
 }
 
 // analysedRules lists the enabled rules whose figures come from the
@@ -278,16 +286,7 @@ func withoutRules(cfg *engine.Config, ids []string) *engine.Config {
 // failing findings' fixes (a rule's fix can cost as much as the check: the
 // stability fixes analyse the case again for every candidate value).
 func (r *Runner) judgeCase(c *circuit.Circuit, topo *topology.Topology, nominal *analysis.Case, cfg *engine.Config, fixes bool) ([]engine.Finding, error) {
-	var fs []engine.Finding
-	var err error
-	if cfg.Corners == "worst" {
-		if r.opt.Worst == nil {
-			return nil, errors.New("worst-case corners are not available in this build")
-		}
-		fs, err = r.opt.Worst(c, topo, nominal, cfg)
-	} else {
-		fs, err = engine.Measure(nominal, nil, cfg) // messages are written below, for failing items only
-	}
+	fs, err := r.measureCase(c, topo, nominal, cfg)
 	if err != nil {
 		return nil, err
 	}
@@ -321,6 +320,18 @@ func (r *Runner) judgeCase(c *circuit.Circuit, topo *topology.Topology, nominal 
 		out = append(out, f)
 	}
 	return out, nil
+}
+
+// measureCase judges every item, passing or failing: at its worst case with
+// worst-case corners, else at nominal. Messages are left for later.
+func (r *Runner) measureCase(c *circuit.Circuit, topo *topology.Topology, nominal *analysis.Case, cfg *engine.Config) ([]engine.Finding, error) {
+	if cfg.Corners == "worst" {
+		if r.opt.Worst == nil {
+			return nil, errors.New("worst-case corners are not available in this build")
+		}
+		return r.opt.Worst(c, topo, nominal, cfg)
+	}
+	return engine.Measure(nominal, nil, cfg)
 }
 
 // checkWaiverRules rejects a waiver that names a rule nobody knows.

@@ -18,15 +18,17 @@ import (
 // two-port's admittance matrix is Zt⁻¹ − diag(1/RS, 1/RL). S follows from Y
 // normalised to each port's reference by REFERENCES-2 §1.1's Y → S formulas
 // (Bowick), generalised to unequal real references by y_ij·√(Ri·Rj), and
-// μ, K and |Δ| from their definitions there.
-func refStability(m *acModel, in, out *circuit.Port, f float64) (mu, k, delta, gainDB float64, err error) {
+// μ, K and |Δ| from their definitions there. The voltage gain is the out
+// net's voltage over the in net's when the in net alone is driven with both
+// ports terminated: the ratio does not depend on how the in net is driven.
+func refStability(m *acModel, in, out *circuit.Port, f float64) (mu, k, delta, gainDB, vgainDB float64, err error) {
 	var zt [2][2]complex128
 	for j, p := range []*circuit.Port{in, out} {
 		a := m.stamp(f, nil, true)
 		a.source(p.Net, 1)
 		v, err := a.solve()
 		if err != nil {
-			return 0, 0, 0, 0, err
+			return 0, 0, 0, 0, 0, err
 		}
 		zt[0][j], zt[1][j] = v[in.Net], v[out.Net]
 	}
@@ -52,7 +54,7 @@ func refStability(m *acModel, in, out *circuit.Port, f float64) (mu, k, delta, g
 	dl := s11*s22 - s12*s21
 	mu = (1 - sqAbs(s11)) / (cmplx.Abs(s22-dl*cmplx.Conj(s11)) + cmplx.Abs(s12*s21))
 	k = (1 - sqAbs(s11) - sqAbs(s22) + sqAbs(dl)) / (2 * cmplx.Abs(s12*s21))
-	return mu, k, cmplx.Abs(dl), 20 * math.Log10(cmplx.Abs(s21)), nil
+	return mu, k, cmplx.Abs(dl), 20 * math.Log10(cmplx.Abs(s21)), 20 * math.Log10(cmplx.Abs(zt[1][0]/zt[0][0])), nil
 }
 
 func sqAbs(z complex128) float64 { return real(z)*real(z) + imag(z)*imag(z) }
@@ -61,7 +63,7 @@ func sqAbs(z complex128) float64 { return real(z)*real(z) + imag(z)*imag(z) }
 // refStability on generated circuits with an in and an out port, at a few
 // frequencies from below the band to above it.
 func TestSweepAgainstReference(t *testing.T) {
-	compared := 0
+	compared, vcompared := 0, 0
 	for seed := uint64(1); seed <= uint64(circuitCount(400, 80)); seed++ {
 		c := genCircuit(seed, false)
 		in, out := c.InPort(), c.OutPort()
@@ -90,7 +92,7 @@ func TestSweepAgainstReference(t *testing.T) {
 			t.Fatalf("seed %d: sweep %v", seed, err)
 		}
 		for i, f := range freqs {
-			mu, k, d, g, err := refStability(m, in, out, f)
+			mu, k, d, g, vg, err := refStability(m, in, out, f)
 			if err != nil || math.IsNaN(mu+k+d+g) || math.IsInf(mu+k+d+g, 0) {
 				continue
 			}
@@ -104,11 +106,17 @@ func TestSweepAgainstReference(t *testing.T) {
 				t.Errorf("seed %d at %g Hz: sweep μ %g K %g |Δ| %g gain %v; reference μ %g K %g |Δ| %g gain %g",
 					seed, f, p.Mu, p.K, p.Delta, p.GainDB, mu, k, d, g)
 			}
+			if p.VoltageGainDB != nil && g > -200 && !math.IsNaN(vg) && math.Abs(*p.VoltageGainDB-vg) > 1e-5 {
+				t.Errorf("seed %d at %g Hz: sweep voltage gain %g dB, reference %g dB", seed, f, *p.VoltageGainDB, vg)
+			}
+			if p.VoltageGainDB != nil {
+				vcompared++
+			}
 			compared++
 		}
 	}
-	if compared < 100 {
-		t.Errorf("only %d points compared: the generator gives too few two-ports", compared)
+	if compared < 100 || vcompared < 100 {
+		t.Errorf("only %d points compared (%d voltage gains): the generator gives too few two-ports", compared, vcompared)
 	}
-	t.Logf("%d points compared", compared)
+	t.Logf("%d points compared, %d voltage gains", compared, vcompared)
 }

@@ -20,6 +20,9 @@ type Report struct {
 	// Ranges holds, with worst-case corners, the [lo, hi] of each main figure
 	// over the box, keyed like "Q1.ic" or "band.0.gain_db"; nil for nominal.
 	Ranges map[string][2]float64
+	// Pictures are the drawings the Markdown and HTML forms embed (or link);
+	// none for text and JSON.
+	Pictures []Picture
 
 	stabDone bool
 	poles    *poles.Result

@@ -127,6 +127,7 @@ type jsonStability struct {
 type jsonSweep struct {
 	Frequency    float64  `json:"frequency"`
 	GainDB       *float64 `json:"gain_db"`
+	VoltageDB    *float64 `json:"voltage_gain_db,omitempty"`
 	ReturnLossDB float64  `json:"return_loss_db"`
 	Mu           *float64 `json:"mu"`
 	NFDB         *float64 `json:"nf_db,omitempty"` // where the source reaches the out port
@@ -151,7 +152,7 @@ func (r *Report) stabilityJSON() (*jsonStability, []jsonSweep) {
 			st.MuMin, st.MuMinHz = &m, &hz
 		}
 		for _, p := range sw.Points {
-			j := jsonSweep{Frequency: quantity.Finite(p.Frequency), GainDB: finp(p.GainDB), ReturnLossDB: quantity.Finite(p.ReturnLossDB)}
+			j := jsonSweep{Frequency: quantity.Finite(p.Frequency), GainDB: finp(p.GainDB), VoltageDB: finp(p.VoltageGainDB), ReturnLossDB: quantity.Finite(p.ReturnLossDB)}
 			if sw.TwoPort {
 				m := quantity.Finite(p.Mu)
 				j.Mu = &m

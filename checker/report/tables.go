@@ -356,6 +356,7 @@ func (r *Report) Markdown(w io.Writer) {
 			fmt.Fprintln(w, "| "+strings.Join(escape(row), " | ")+" |")
 		}
 	}
+	r.markdownPictures(w)
 }
 
 func escape(cells []string) []string {

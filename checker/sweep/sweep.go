@@ -45,6 +45,10 @@ type Point struct {
 	// GainDB is the transducer gain 20·log10|S21| between RS and RL, nil
 	// in the one-port form or where no signal gets through.
 	GainDB *float64
+	// VoltageGainDB is 20·log10|Vout/Vin| with the out port loaded by RL,
+	// Vin the in port's voltage: Z21·RL/((Z22 + RL)·Zin), Zin = PortZ; nil
+	// where GainDB is, and where Zin is zero.
+	VoltageGainDB *float64
 	// ReturnLossDB is −20·log10|S11| (the in port, the out port loaded by
 	// RL), within ±ac.MaxReturnLossDB; in the one-port form, of the port
 	// there is against its own impedance.
@@ -167,6 +171,12 @@ func point(pp ac.PortPoint, two bool, one string, gain *float64) Point {
 	// The in port's impedance with the out port loaded by RL.
 	z := pp.Z
 	pt.PortZ = z[0][0] - z[0][1]*z[1][0]/(z[1][1]+complex(pp.RL, 0))
+	if pt.GainDB != nil && pt.PortZ != 0 {
+		av := cmplx.Abs(z[1][0] * complex(pp.RL, 0) / ((z[1][1] + complex(pp.RL, 0)) * pt.PortZ))
+		if g := 20 * math.Log10(av); !math.IsInf(g, 0) && !math.IsNaN(g) {
+			pt.VoltageGainDB = &g
+		}
+	}
 	return pt
 }
 

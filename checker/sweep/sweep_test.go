@@ -150,6 +150,9 @@ func TestSweepAgreesWithBand(t *testing.T) {
 			if b.GainDB != nil && r.TwoPort {
 				near(t, f+" gain", *p.GainDB, *b.GainDB, 1e-6)
 			}
+			if b.VoltageGainDB != nil && r.TwoPort {
+				near(t, f+" voltage gain", *p.VoltageGainDB, *b.VoltageGainDB, 1e-6)
+			}
 			if cmplx.Abs(p.PortZ-b.InputImpedance) > 1e-6*cmplx.Abs(b.InputImpedance) {
 				t.Errorf("%s Zin %v, band analysis %v", f, p.PortZ, b.InputImpedance)
 			}

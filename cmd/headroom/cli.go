@@ -64,7 +64,9 @@ const usage = `usage:
                    [--corners worst|nominal] [--color auto|always|never] [--staged]
                    [--fix] [--diff] [--baseline FILE] [--write-baseline FILE]
                    [--stdin-filename NAME] [PATH ...]
-  headroom report  [--format text|markdown|json] [--corners worst|nominal] [--rules FILE|NAME] FILE
+  headroom report  [--format text|markdown|html|json] [--corners worst|nominal] [--rules FILE|NAME]
+                   [--pictures inline|none|FOLDER] [--force] FILE
+  headroom plot    [-o FOLDER] [--force] [--corners worst|nominal] [--rules FILE|NAME] FILE
   headroom rules   [--rules FILE|NAME] [--format text|json]
   headroom explain RULE
   headroom parts   [--format text|json]
@@ -78,6 +80,7 @@ headroom COMMAND --help describes one command.
 var commands = map[string][2]string{
 	"check":          {"[flags] [PATH ...]", "Checks circuit files (folders are searched for *.toml; - reads standard input) against their rule set."},
 	"report":         {"[flags] FILE", "Prints a circuit's computed operating point, impedances and dissipations."},
+	"plot":           {"[flags] FILE", "Draws a circuit's response and stability margin, every judged item against its limit, and its transistors' operating points, as SVG files."},
 	"rules":          {"[flags]", "Lists the rules of the rule set in force, with severities and parameters."},
 	"explain":        {"RULE", "Explains one rule: why it matters, what it measures, its parameters, its source and the fix."},
 	"hook":           {"install [--force] | uninstall", "Installs or removes the git pre-commit hook that runs check --staged."},
@@ -120,6 +123,8 @@ func (e *env) run(args []string) int {
 		return e.check(rest)
 	case "report":
 		return e.report(rest)
+	case "plot":
+		return e.plot(rest)
 	case "rules":
 		return e.rules(rest)
 	case "explain":

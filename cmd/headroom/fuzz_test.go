@@ -66,7 +66,7 @@ func FuzzCommandLine(f *testing.F) {
 		case code == exitInput && stderr.Len() == 0:
 			t.Fatalf("exit 2 with nothing on standard error; stdout %q", stdout.String())
 		}
-		if nonFinite.MatchString(out) && !spelled.Match(data) {
+		if nonFinite.MatchString(dataURI.ReplaceAllString(out, "")) && !spelled.Match(data) { // base64 may spell NaN by chance
 			t.Fatalf("a non-finite number in the output:\n%s", out)
 		}
 		people := out // what a person reads; a JSON document escapes by its own rules (DEL may stay raw)
@@ -82,6 +82,7 @@ func FuzzCommandLine(f *testing.F) {
 var (
 	nonFinite = regexp.MustCompile(`\bNaN\b|\bInf\b|\bnan\b|\binf\b`)
 	spelled   = regexp.MustCompile(`(?i)nan|inf`) // the input may name them itself
+	dataURI   = regexp.MustCompile(`data:image/svg\+xml;base64,[A-Za-z0-9+/=]*`)
 )
 
 // fuzzArgs reads the command line from an archive's comment; a command that
