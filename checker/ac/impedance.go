@@ -49,18 +49,16 @@ func (r *Result) at(f float64) (*freq, error) {
 	nw := r.net
 	fr := &freq{w: 2 * math.Pi * f, sol: map[branch][]complex128{}, fresh: map[string]*lu{}}
 	n := nw.n
-	fr.d = make([][]complex128, len(nw.elems))
+	fr.d = nw.admBlock()
 	lo, hi := make([]int, n), make([]int, n)
 	for i := range n {
 		lo[i], hi[i] = i, i
 	}
 	for i, e := range nw.elems {
-		d, err := e.adm(fr.w)
-		if err != nil {
+		if err := e.adm(fr.w, fr.d[i]); err != nil {
 			return nil, fmt.Errorf("%s at %g Hz: %w", name(e), f, err)
 		}
-		fr.d[i] = d
-		span(lo, hi, e.branches, d) // the source too: a removal query stamps it
+		span(lo, hi, e.branches, fr.d[i]) // the source too: a removal query stamps it
 	}
 	fr.lo, fr.hi = lo, hi
 	// Y0 is factorised in place; a removal query that needs it whole

@@ -303,6 +303,16 @@ func abs1(z complex128) float64 { return math.Abs(real(z)) + math.Abs(imag(z)) }
 // allocations: every transformer inverts its winding matrix at every
 // frequency of every sweep.
 func invert(a []complex128, m int) ([]complex128, error) {
+	out := make([]complex128, m*m)
+	if err := invertInto(out, a, m); err != nil {
+		return nil, err
+	}
+	return out, nil
+}
+
+// invertInto is invert writing the inverse into out (len m²), allocating
+// nothing for m ≤ 8.
+func invertInto(out, a []complex128, m int) error {
 	var pivBuf [8]int
 	var xBuf [8]complex128
 	piv, x := pivBuf[:0], xBuf[:0]
@@ -321,7 +331,7 @@ func invert(a []complex128, m int) ([]complex128, error) {
 			}
 		}
 		if best == 0 || math.IsNaN(best) || math.IsInf(best, 0) {
-			return nil, errSingular
+			return errSingular
 		}
 		if p != k {
 			for j := range m {
@@ -346,7 +356,6 @@ func invert(a []complex128, m int) ([]complex128, error) {
 			}
 		}
 	}
-	out := make([]complex128, m*m)
 	for col := range m {
 		for i, p := range piv {
 			x[i] = 0
@@ -376,7 +385,7 @@ func invert(a []complex128, m int) ([]complex128, error) {
 			out[i*m+col] = v
 		}
 	}
-	return out, nil
+	return nil
 }
 
 // finite reports whether z has no NaN or infinite part.

@@ -36,7 +36,10 @@ type branch struct{ from, to int }
 type element struct {
 	ref      string // part reference, "" for ports and supplies (never removed)
 	branches []branch
-	adm      func(w float64) ([]complex128, error) // D at angular frequency w, row-major
+	// adm writes D at angular frequency w, row-major, into d (len r², every
+	// entry written): the sweeps call it at every frequency, into storage
+	// they reuse, so it must not allocate.
+	adm func(w float64, d []complex128) error
 }
 
 // network is a circuit reduced to nodes and admittance stamps, holding copies
@@ -123,11 +126,27 @@ func build(c *circuit.Circuit, op *dc.Result) (*network, error) {
 }
 
 // add appends an element and remembers it under its reference.
-func (nw *network) add(ref string, br []branch, adm func(float64) ([]complex128, error)) {
+func (nw *network) add(ref string, br []branch, adm func(float64, []complex128) error) {
 	if ref != "" {
 		nw.parts[ref] = len(nw.elems)
 	}
 	nw.elems = append(nw.elems, element{ref: ref, branches: br, adm: adm})
+}
+
+// admBlock returns one r×r slice per element, all cut from one block, for
+// admittances to write into.
+func (nw *network) admBlock() [][]complex128 {
+	total := 0
+	for _, e := range nw.elems {
+		total += len(e.branches) * len(e.branches)
+	}
+	buf := make([]complex128, total)
+	d := make([][]complex128, len(nw.elems))
+	for i, e := range nw.elems {
+		r2 := len(e.branches) * len(e.branches)
+		d[i], buf = buf[:r2:r2], buf[r2:]
+	}
+	return d
 }
 
 // netCount is how many nets each kind with a Nets list must have.
@@ -152,9 +171,10 @@ func (nw *network) addPart(p *circuit.Part, op *dc.Result, node func(string) int
 			return fmt.Errorf("capacitance %g is not a positive finite value", c)
 		}
 		rq := p.QLoss(0, c, nw.centre) // the unloaded Q as a series resistance
-		nw.add(p.Ref, []branch{{node(p.Nets[0]), node(p.Nets[1])}}, func(w float64) ([]complex128, error) {
+		nw.add(p.Ref, []branch{{node(p.Nets[0]), node(p.Nets[1])}}, func(w float64, d []complex128) error {
 			y := complex(0, w*c)
-			return []complex128{y / (1 + y*complex(rq, 0))}, nil
+			d[0] = y / (1 + y*complex(rq, 0))
+			return nil
 		})
 	case circuit.Inductor:
 		l, r := p.Inductance(), p.Resistance
@@ -165,8 +185,9 @@ func (nw *network) addPart(p *circuit.Part, op *dc.Result, node func(string) int
 			return fmt.Errorf("resistance %g is not a finite value ≥ 0", r)
 		}
 		r += p.QLoss(l, 0, nw.centre)
-		nw.add(p.Ref, []branch{{node(p.Nets[0]), node(p.Nets[1])}}, func(w float64) ([]complex128, error) {
-			return []complex128{1 / complex(r, w*l)}, nil
+		nw.add(p.Ref, []branch{{node(p.Nets[0]), node(p.Nets[1])}}, func(w float64, d []complex128) error {
+			d[0] = 1 / complex(r, w*l)
+			return nil
 		})
 	case circuit.Potentiometer:
 		if !positive(p.Value) || !(p.Setting >= 0 && p.Setting <= 1) {
@@ -175,8 +196,9 @@ func (nw *network) addPart(p *circuit.Part, op *dc.Result, node func(string) int
 		ra := math.Max(p.Value*(1-p.Setting), minSection)
 		rb := math.Max(p.Value*p.Setting, minSection)
 		a, wiper, b := node(p.Nets[0]), node(p.Nets[1]), node(p.Nets[2])
-		nw.add(p.Ref, []branch{{a, wiper}, {wiper, b}}, func(float64) ([]complex128, error) {
-			return []complex128{complex(1/ra, 0), 0, 0, complex(1/rb, 0)}, nil
+		nw.add(p.Ref, []branch{{a, wiper}, {wiper, b}}, func(_ float64, d []complex128) error {
+			d[0], d[1], d[2], d[3] = complex(1/ra, 0), 0, 0, complex(1/rb, 0)
+			return nil
 		})
 	case circuit.Transformer:
 		return nw.addTransformer(p, node)
@@ -218,8 +240,13 @@ func (nw *network) addTransformer(p *circuit.Part, node func(string) int) error 
 		br[i] = branch{node(w.Nets[0]), node(w.Nets[1])}
 	}
 	k := p.Coupling
-	nw.add(p.Ref, br, func(w float64) ([]complex128, error) {
-		z := make([]complex128, m*m)
+	nw.add(p.Ref, br, func(w float64, d []complex128) error {
+		var zBuf [16]complex128 // up to four windings without allocating
+		z := zBuf[:0]
+		if m*m > len(zBuf) {
+			z = make([]complex128, 0, m*m)
+		}
+		z = z[:m*m]
 		for i := range m {
 			for j := range m {
 				lij := k * math.Sqrt(l[i]*l[j])
@@ -230,7 +257,7 @@ func (nw *network) addTransformer(p *circuit.Part, node func(string) int) error 
 			}
 			z[i*m+i] += complex(r[i], 0)
 		}
-		return invert(z, m)
+		return invertInto(d, z, m)
 	})
 	return nil
 }
@@ -248,12 +275,13 @@ func (nw *network) addBJT(p *circuit.Part, op *dc.Result, node func(string) int,
 	c, b, e := node(p.Nets[0]), node(p.Nets[1]), node(p.Nets[2])
 	rb := p.BJT.RB
 	if rb == 0 {
-		nw.add(p.Ref, []branch{{b, e}, {b, c}, {c, e}}, func(w float64) ([]complex128, error) {
-			return []complex128{
+		nw.add(p.Ref, []branch{{b, e}, {b, c}, {c, e}}, func(w float64, d []complex128) error {
+			copy(d, []complex128{
 				complex(h.gpi, w*h.Cpi), 0, 0,
 				0, complex(0, w*h.Cmu), 0,
 				complex(h.GM, 0), 0, 0,
-			}, nil
+			})
+			return nil
 		})
 		return nil
 	}
@@ -262,13 +290,14 @@ func (nw *network) addBJT(p *circuit.Part, op *dc.Result, node func(string) int,
 		return fmt.Errorf("base resistance rb %g is not a finite value ≥ 0", rb)
 	}
 	// Branches b'–e, b'–c, c–e as above, and b–b' for rb.
-	nw.add(p.Ref, []branch{{bi, e}, {bi, c}, {c, e}, {b, bi}}, func(w float64) ([]complex128, error) {
-		return []complex128{
+	nw.add(p.Ref, []branch{{bi, e}, {bi, c}, {c, e}, {b, bi}}, func(w float64, d []complex128) error {
+		copy(d, []complex128{
 			complex(h.gpi, w*h.Cpi), 0, 0, 0,
 			0, complex(0, w*h.Cmu), 0, 0,
 			complex(h.GM, 0), 0, 0, 0,
 			0, 0, 0, complex(1/rb, 0),
-		}, nil
+		})
+		return nil
 	})
 	return nil
 }
@@ -310,9 +339,11 @@ func hybridPi(p *circuit.Part, op *dc.Result) (pi, error) {
 }
 
 // conductance is a constant real admittance.
-func conductance(g float64) func(float64) ([]complex128, error) {
-	d := []complex128{complex(g, 0)}
-	return func(float64) ([]complex128, error) { return d, nil }
+func conductance(g float64) func(float64, []complex128) error {
+	return func(_ float64, d []complex128) error {
+		d[0] = complex(g, 0)
+		return nil
+	}
 }
 
 // positive reports a finite value above zero.

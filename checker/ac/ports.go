@@ -45,7 +45,7 @@ func (r *Result) PortsEach(freqs []float64, fn func(PortPoint) error) error {
 		tmpl.RL = nw.rl
 	}
 	n := nw.n
-	d := make([][]complex128, len(nw.elems))
+	d := nw.admBlock() // rewritten at every frequency
 	var blank, y *sparse
 	rhs, x := make([]complex128, n), make([]complex128, n)
 	nodes := [2]int{nw.inNode, nw.outNd}
@@ -64,11 +64,9 @@ func (r *Result) PortsEach(freqs []float64, fn func(PortPoint) error) error {
 		}
 		w := 2 * math.Pi * f
 		for i, e := range nw.elems {
-			di, err := e.adm(w)
-			if err != nil {
+			if err := e.adm(w, d[i]); err != nil {
 				return fmt.Errorf("%s at %g Hz: %w", name(e), f, err)
 			}
-			d[i] = di
 		}
 		if blank == nil {
 			lo, hi := make([]int, n), make([]int, n)
