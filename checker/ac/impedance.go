@@ -54,9 +54,10 @@ func (r *Result) at(f float64) (*freq, error) {
 	for i := range n {
 		lo[i], hi[i] = i, i
 	}
-	for i, e := range nw.elems {
-		if err := e.adm(fr.w, fr.d[i]); err != nil {
-			return nil, fmt.Errorf("%s at %g Hz: %w", name(e), f, err)
+	for i := range nw.elems {
+		e := &nw.elems[i]
+		if err := e.fill(fr.w, fr.d[i]); err != nil {
+			return nil, fmt.Errorf("%s at %g Hz: %w", name(*e), f, err)
 		}
 		span(lo, hi, e.branches, fr.d[i]) // the source too: a removal query stamps it
 	}
@@ -183,8 +184,9 @@ func (r *Result) impedance(fr *freq, u branch, mods []mod, key string) (complex1
 	if u.from == u.to {
 		return 0, nil
 	}
-	var br []branch
-	var owner []int // position in mods of each branch
+	var brBuf [8]branch
+	var ownerBuf [8]int
+	br, owner := brBuf[:0], ownerBuf[:0] // owner: position in mods of each branch
 	for k, m := range mods {
 		for _, b := range r.net.elems[m.elem].branches {
 			br = append(br, b)
@@ -208,8 +210,16 @@ func (r *Result) impedance(fr *freq, u branch, mods []mod, key string) (complex1
 	if nr == 0 {
 		return z, nil
 	}
-	// D: block diagonal over the mods, signed.
-	d := make([]complex128, nr*nr)
+	// D: block diagonal over the mods, signed. The small matrices live on
+	// the stack for up to four branches (a removal and the source).
+	var bufs [5][16]complex128
+	scratch := func(k int) []complex128 {
+		if nr*nr <= 16 {
+			return bufs[k][:nr*nr]
+		}
+		return make([]complex128, nr*nr)
+	}
+	d := scratch(0)
 	for i := 0; i < nr; {
 		k := owner[i]
 		dm := fr.d[mods[k].elem]
@@ -221,7 +231,12 @@ func (r *Result) impedance(fr *freq, u branch, mods []mod, key string) (complex1
 		}
 		i += rm
 	}
-	xs := make([][]complex128, nr)
+	var xsBuf [8][]complex128
+	xs := xsBuf[:0]
+	if nr > len(xsBuf) {
+		xs = make([][]complex128, 0, nr)
+	}
+	xs = xs[:nr]
 	for j, b := range br {
 		if b == u {
 			xs[j] = x // the same solution as solveBranch's, at the nets read
@@ -230,22 +245,28 @@ func (r *Result) impedance(fr *freq, u branch, mods []mod, key string) (complex1
 		}
 	}
 	// MD = (Pᵀ·X)·D and S = I + MD.
-	m := make([]complex128, nr*nr)
+	m := scratch(1)
 	for i, bi := range br {
 		for j := range br {
 			m[i*nr+j] = across(xs[j], bi)
 		}
 	}
-	md := matmul(m, d, nr)
-	s := make([]complex128, nr*nr)
+	md := matmulInto(scratch(2), m, d, nr)
+	s := scratch(3)
 	copy(s, md)
 	for i := 0; i < nr; i++ {
 		s[i*nr+i]++
 	}
-	sinv, err := invert(s, nr)
+	sinv := scratch(4)
+	err := invertInto(sinv, s, nr)
 	if err == nil && norm(sinv, nr)*(1+norm(md, nr)) <= maxAmplification {
 		// w = (uᵀX)·D, v = Pᵀx.
-		w := make([]complex128, nr)
+		var wBuf [8]complex128
+		w := wBuf[:0]
+		if nr > len(wBuf) {
+			w = make([]complex128, 0, nr)
+		}
+		w = w[:nr]
 		for j := range nr {
 			var t complex128
 			for k := range nr {
@@ -305,9 +326,10 @@ func (r *Result) freshImpedance(fr *freq, u branch, mods []mod, key string) (com
 	return z, nil
 }
 
-// matmul returns a·b for row-major m×m matrices.
-func matmul(a, b []complex128, m int) []complex128 {
-	c := make([]complex128, m*m)
+// matmulInto writes a·b for row-major m×m matrices into c (len m²) and
+// returns it.
+func matmulInto(c, a, b []complex128, m int) []complex128 {
+	clear(c)
 	for i := 0; i < m; i++ {
 		for k := 0; k < m; k++ {
 			if v := a[i*m+k]; v != 0 {

@@ -39,7 +39,19 @@ type element struct {
 	// adm writes D at angular frequency w, row-major, into d (len r², every
 	// entry written): the sweeps call it at every frequency, into storage
 	// they reuse, so it must not allocate.
+	// nil for a constant conductance, which is g: most elements are
+	// resistors, and a closure apiece would be an allocation per case.
 	adm func(w float64, d []complex128) error
+	g   complex128
+}
+
+// fill writes D at angular frequency w into d.
+func (e *element) fill(w float64, d []complex128) error {
+	if e.adm == nil {
+		d[0] = e.g
+		return nil
+	}
+	return e.adm(w, d)
 }
 
 // network is a circuit reduced to nodes and admittance stamps, holding copies
@@ -81,7 +93,7 @@ func build(c *circuit.Circuit, op *dc.Result) (*network, error) {
 
 	for _, s := range c.Supplies {
 		if s.Impedance > 0 {
-			nw.add("", []branch{{node(s.Net), ground}}, conductance(1/s.Impedance))
+			nw.addConductance("", []branch{{node(s.Net), ground}}, 1/s.Impedance)
 		}
 	}
 
@@ -98,21 +110,21 @@ func build(c *circuit.Circuit, op *dc.Result) (*network, error) {
 			if nw.inNode != ground {
 				nw.source = len(nw.elems)
 			}
-			nw.add("", br, conductance(1/p.Impedance)) // left out of the base matrix, see freq
+			nw.addConductance("", br, 1/p.Impedance) // left out of the base matrix, see freq
 		case p.Direction == "out" && outs == 0:
 			outs++
 			nw.hasOut, nw.outNd, nw.rl = true, node(p.Net), p.Impedance
 			if nw.outNd != ground {
 				nw.load = len(nw.elems)
 			}
-			nw.add("", br, conductance(1/p.Impedance))
+			nw.addConductance("", br, 1/p.Impedance)
 		default:
 			if p.Direction == "in" {
 				ins++
 			} else if p.Direction == "out" {
 				outs++
 			}
-			nw.add("", br, conductance(1/p.Impedance))
+			nw.addConductance("", br, 1/p.Impedance)
 		}
 	}
 	nw.gains = ins == 1 && outs == 1
@@ -131,6 +143,12 @@ func (nw *network) add(ref string, br []branch, adm func(float64, []complex128) 
 		nw.parts[ref] = len(nw.elems)
 	}
 	nw.elems = append(nw.elems, element{ref: ref, branches: br, adm: adm})
+}
+
+// addConductance appends a constant real admittance g over one branch.
+func (nw *network) addConductance(ref string, br []branch, g float64) {
+	nw.add(ref, br, nil)
+	nw.elems[len(nw.elems)-1].g = complex(g, 0)
 }
 
 // admBlock returns one r×r slice per element, all cut from one block, for
@@ -164,7 +182,7 @@ func (nw *network) addPart(p *circuit.Part, op *dc.Result, node func(string) int
 		if !positive(p.Value) {
 			return fmt.Errorf("resistance %g is not a positive finite value", p.Value)
 		}
-		nw.add(p.Ref, []branch{{node(p.Nets[0]), node(p.Nets[1])}}, conductance(1/p.Value))
+		nw.addConductance(p.Ref, []branch{{node(p.Nets[0]), node(p.Nets[1])}}, 1/p.Value)
 	case circuit.Capacitor:
 		c := p.Value
 		if !positive(c) {
@@ -336,14 +354,6 @@ func hybridPi(p *circuit.Part, op *dc.Result) (pi, error) {
 		h.Cpi = math.Max(h.GM/(2*math.Pi*p.BJT.FT)-h.Cmu, 0)
 	}
 	return h, nil
-}
-
-// conductance is a constant real admittance.
-func conductance(g float64) func(float64, []complex128) error {
-	return func(_ float64, d []complex128) error {
-		d[0] = complex(g, 0)
-		return nil
-	}
 }
 
 // positive reports a finite value above zero.

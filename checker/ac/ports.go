@@ -63,9 +63,10 @@ func (r *Result) PortsEach(freqs []float64, fn func(PortPoint) error) error {
 			continue
 		}
 		w := 2 * math.Pi * f
-		for i, e := range nw.elems {
-			if err := e.adm(w, d[i]); err != nil {
-				return fmt.Errorf("%s at %g Hz: %w", name(e), f, err)
+		for i := range nw.elems {
+			e := &nw.elems[i]
+			if err := e.fill(w, d[i]); err != nil {
+				return fmt.Errorf("%s at %g Hz: %w", name(*e), f, err)
 			}
 		}
 		if blank == nil {
