@@ -31,10 +31,12 @@ package poles
 import (
 	"errors"
 	"fmt"
+	"hash/maphash"
 	"math"
 	"math/cmplx"
 	"slices"
 	"sort"
+	"sync"
 
 	"gonum.org/v1/gonum/mat"
 
@@ -110,6 +112,19 @@ func Find(c *circuit.Circuit, res *ac.Result) (*Result, error) {
 		return nil, err
 	}
 	fLo, fHi := span(c)
+	h := pen.hash(fLo, fHi)
+	if r := solved.get(h, pen, fLo, fHi); r != nil {
+		return r, nil
+	}
+	out, err := findPoles(pen, fLo, fHi)
+	if err == nil {
+		solved.put(h, out, fLo, fHi)
+	}
+	return out, err
+}
+
+// findPoles solves the pencil for its poles.
+func findPoles(pen *pencil, fLo, fHi float64) (*Result, error) {
 	out := &Result{MaxHz: 10 * fHi, pen: pen}
 	if pen.n == 0 {
 		return out, nil
@@ -632,4 +647,83 @@ func solve(a0, b0 []complex128, n int) ([]complex128, error) {
 		x[i] = v / a[i*n+i]
 	}
 	return x, nil
+}
+
+// solved memoises Find by its pencil: the worst-case search judges the
+// stability items at many cases, and different items' walks (and the
+// sensitivity phase, for a parameter already at the end the walk takes)
+// meet at the same case, whose dense eigen-solve, O(n³), is the largest
+// cost of a large circuit's search. A hit is checked entry by entry, so it
+// returns what solving again would, exactly. Results are read-only.
+var solved = memo{m: map[uint64][]memoised{}}
+
+type memo struct {
+	sync.Mutex
+	m    map[uint64][]memoised
+	size int
+}
+
+type memoised struct {
+	r        *Result
+	fLo, fHi float64
+}
+
+// memoCap bounds the memo; when it is full it starts afresh (a check goes
+// through its circuits one by one, and a search's cases cluster).
+const memoCap = 64
+
+var seed = maphash.MakeSeed()
+
+// hash digests everything Find's result depends on.
+func (p *pencil) hash(fLo, fHi float64) uint64 {
+	var h maphash.Hash
+	h.SetSeed(seed)
+	var b [8]byte
+	word := func(v uint64) {
+		for i := range b {
+			b[i] = byte(v >> (8 * i))
+		}
+		h.Write(b[:])
+	}
+	word(uint64(p.n))
+	word(math.Float64bits(fLo))
+	word(math.Float64bits(fHi))
+	for _, e := range p.entries {
+		word(uint64(e.i)<<32 | uint64(uint32(e.j)))
+		word(math.Float64bits(e.g))
+		word(math.Float64bits(e.c))
+		h.WriteString(e.owner)
+	}
+	for _, n := range p.names {
+		h.WriteString(n)
+		h.WriteByte(0)
+	}
+	return h.Sum64()
+}
+
+// same reports whether two pencils are identical.
+func (p *pencil) same(q *pencil) bool {
+	return p.n == q.n && p.centre == q.centre && slices.Equal(p.entries, q.entries) && slices.Equal(p.names, q.names)
+}
+
+func (m *memo) get(h uint64, pen *pencil, fLo, fHi float64) *Result {
+	m.Lock()
+	defer m.Unlock()
+	for _, x := range m.m[h] {
+		if x.fLo == fLo && x.fHi == fHi && x.r.pen.same(pen) {
+			return x.r
+		}
+	}
+	return nil
+}
+
+func (m *memo) put(h uint64, r *Result, fLo, fHi float64) {
+	m.Lock()
+	defer m.Unlock()
+	if m.size >= memoCap {
+		clear(m.m)
+		m.size = 0
+	}
+	m.m[h] = append(m.m[h], memoised{r, fLo, fHi})
+	m.size++
 }
