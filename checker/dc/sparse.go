@@ -89,7 +89,18 @@ func (s *slotter) build() *sparseLU {
 	m.arenaC, m.arenaV = make([]int, 0, 4*len(m.cols)), make([]float64, 0, 4*len(m.cols))
 	m.rc, m.rv = make([][]int, n), make([][]float64, n)
 	m.pos, m.at, m.next = make([]int, n), make([]int, n), make([]int, n)
+	// Each column's row list, cut from one block with room for twice the
+	// column's entries (fill adds some): appending to n lists one by one
+	// was most of a case's allocations.
+	count := make([]int, n)
+	for _, j := range m.cols {
+		count[j]++
+	}
+	block := make([]int, 2*len(m.cols))
 	m.colOf = make([][]int, n)
+	for j, c := range count {
+		m.colOf[j], block = block[:0:2*c], block[2*c:]
+	}
 	m.ipiv = make([]int, n)
 	return m
 }
