@@ -1,8 +1,10 @@
 package main
 
 import (
+	"encoding/base64"
 	"math"
 	"path/filepath"
+	"regexp"
 	"strconv"
 	"strings"
 	"testing"
@@ -154,3 +156,32 @@ func TestFilterResponsePicture(t *testing.T) {
 }
 
 func hz(f float64) string { return strconv.FormatFloat(f/1e6, 'g', 6, 64) + " MHz" }
+
+// TestFilterReportHTML: the HTML report of a passive filter embeds the
+// filter's response picture under its own caption, and shows no empty
+// table (a filter has no supplies).
+func TestFilterReportHTML(t *testing.T) {
+	circ, _ := filepath.Abs("../../testdata/circuits/bpf-40m.toml")
+	page, errs, code := runHere(t, "report", "--corners", "nominal", "--format", "html", circ)
+	if code != 0 {
+		t.Fatalf("exit %d: %s", code, errs)
+	}
+	fig := regexp.MustCompile(`<img alt="Filter response: insertion and return loss" src="data:image/svg\+xml;base64,([A-Za-z0-9+/=]+)">`)
+	m := fig.FindStringSubmatch(page)
+	if m == nil {
+		t.Fatal("no filter response picture in the page")
+	}
+	b, err := base64.StdEncoding.DecodeString(m[1])
+	if err != nil {
+		t.Fatal(err)
+	}
+	doc := parseSVG(t, b)
+	if len(doc.paths) == 0 || !strings.Contains(string(b), "no μ panel") {
+		t.Error("the embedded picture is not the filter's response")
+	}
+	for _, tb := range regexp.MustCompile(`(?s)<table>.*?</table>`).FindAllString(page, -1) {
+		if !strings.Contains(tb, "<td>") {
+			t.Errorf("an empty table: %s", tb)
+		}
+	}
+}
