@@ -17,7 +17,7 @@ import (
 // frequencies, widened to a fifth below and a quarter above them with
 // them; the band's three points and each rejection frequency are drawn
 // points, and no point is NaN or above 0 dB (a network of passive parts
-// gives no power gain: a fact of the trade, no published source needed).
+// gives no power gain: fact of the trade, no published source).
 func TestFilterRange(t *testing.T) {
 	b, err := os.ReadFile("../../testdata/circuits/bpf-40m.toml")
 	if err != nil {
