@@ -769,10 +769,7 @@ func TestResponseSpread(t *testing.T) {
 	circ, _ := filepath.Abs("../../testdata/circuits/two-stage-40m.toml")
 	dir := plotInto(t, circ, "worst")
 	var rep struct {
-		Band []struct {
-			Frequency float64               `json:"frequency"`
-			Ranges    map[string][2]float64 `json:"ranges"`
-		} `json:"band"`
+		Band bandRanges `json:"band"`
 	}
 	reportJSON(t, circ, "worst", &rep)
 	doc := readSVG(t, filepath.Join(dir, "two-stage-40m.response.svg"))
@@ -789,6 +786,13 @@ func TestResponseSpread(t *testing.T) {
 			spreadIs(t, doc, ax, s.key, s.colour, bp.Frequency, want)
 		}
 	}
+}
+
+// bandRanges is report --format json's band points with their worst-case
+// ranges.
+type bandRanges []struct {
+	Frequency float64               `json:"frequency"`
+	Ranges    map[string][2]float64 `json:"ranges"`
 }
 
 // spreadIs checks that the translucent range of the curve in colour c

@@ -25,10 +25,7 @@ func TestFilterResponsePicture(t *testing.T) {
 	circ, _ := filepath.Abs("../../testdata/circuits/bpf-40m.toml")
 	dir := plotInto(t, circ, "worst")
 	var rep struct {
-		Band []struct {
-			Frequency float64               `json:"frequency"`
-			Ranges    map[string][2]float64 `json:"ranges"`
-		} `json:"band"`
+		Band   bandRanges `json:"band"`
 		Filter struct {
 			Sweep []struct {
 				Frequency float64 `json:"frequency"`
