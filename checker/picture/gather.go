@@ -2,12 +2,14 @@ package picture
 
 import (
 	"math"
+	"slices"
 	"strconv"
 
 	"headroom/checker/analysis"
 	"headroom/checker/check"
 	"headroom/checker/circuit"
 	"headroom/checker/corners"
+	"headroom/checker/filter"
 	"headroom/checker/sweep"
 	"headroom/checker/topology"
 )
@@ -84,12 +86,18 @@ func spreadOf(c *circuit.Circuit, topo *topology.Topology, nominal *analysis.Cas
 		}
 		return out
 	}
-	rg := corners.Ranges(c, topo, nominal, q)
+	return rangesByKey(corners.Ranges(c, topo, nominal, q), len(fs))
+}
+
+// rangesByKey gathers corners.Ranges' "KEY.i" entries into one range per
+// point for each of spreadKeys; a point without a range is NaN, a key
+// without any is left out.
+func rangesByKey(rg map[string][2]float64, n int) map[string][][2]float64 {
 	out := map[string][][2]float64{}
 	for _, key := range spreadKeys {
 		var s [][2]float64
 		any := false
-		for i := range fs {
+		for i := range n {
 			v, ok := rg[key+"."+strconv.Itoa(i)]
 			if !ok {
 				v = [2]float64{math.NaN(), math.NaN()}
@@ -187,4 +195,89 @@ func TransistorsOf(c *circuit.Circuit, cs *analysis.Case, ranges map[string][2]f
 func magnitudes(r [2]float64) [2]float64 {
 	a, b := math.Abs(r[0]), math.Abs(r[1])
 	return [2]float64{math.Min(a, b), math.Max(a, b)}
+}
+
+// FilterDensity is how many picture points lie between two neighbours of
+// the filter's shape sweep (filter.Measure's grid, which report lists):
+// the picture draws that grid's points and FilterDensity − 1 between each
+// pair, so a narrow passband is drawn smoothly and the report's points
+// lie on the curve.
+const FilterDensity = 4
+
+// FilterResponseOf draws a passive filter (filter.Is) over a range suited
+// to it: from half the band's low edge, or a fifth below the lowest
+// rejection frequency, to twice its high edge, or a quarter above the
+// highest rejection frequency. With spread it also finds the curves'
+// ranges over the corner box at the shape sweep's points in that range,
+// the band's three and the rejection frequencies.
+func FilterResponseOf(c *circuit.Circuit, topo *topology.Topology, nominal *analysis.Case, spread bool) (*Response, error) {
+	r := &Response{Title: c.Name + ": filter response", Band: c.Band, Filter: true}
+	if nominal == nil || nominal.AC == nil {
+		return nil, errorString("no band analysis")
+	}
+	lo, hi := c.Band[0]/2, c.Band[1]*2
+	mid := math.Sqrt(c.Band[0] * c.Band[1])
+	extra := []float64{c.Band[0], mid, c.Band[1]}
+	for _, rj := range c.Rejects {
+		lo, hi = math.Min(lo, rj.Freq/1.25), math.Max(hi, rj.Freq*1.25)
+		extra = append(extra, rj.Freq)
+		r.Rejects = append(r.Rejects, Reject{Freq: rj.Freq, MinDB: rj.MinDB})
+	}
+	// The shape sweep's grid, continued past its ends when the range is
+	// wider, FilterDensity times as dense.
+	g0, g1 := c.Band[0]/10, c.Band[1]*10
+	steps := float64((filter.SweepPoints - 1) * FilterDensity)
+	at := func(k int) float64 { return g0 * math.Pow(g1/g0, float64(k)/steps) }
+	k0 := int(math.Floor(steps * math.Log(lo/g0) / math.Log(g1/g0)))
+	k1 := int(math.Ceil(steps * math.Log(hi/g0) / math.Log(g1/g0)))
+	var fs, coarse []float64
+	for k := k0; k <= k1; k++ {
+		fs = append(fs, at(k))
+		if k%FilterDensity == 0 {
+			coarse = append(coarse, at(k))
+		}
+	}
+	fs = sortedUnion(fs, extra)
+	pts, err := filter.Response(nominal.AC, fs)
+	if err != nil {
+		return nil, err
+	}
+	for _, p := range pts {
+		r.Freq = append(r.Freq, p.Frequency)
+		r.Gain = append(r.Gain, -p.InsertionLossDB)
+		r.Return = append(r.Return, p.ReturnLossDB)
+	}
+	if spread {
+		r.SpreadFreq = sortedUnion(coarse, extra)
+		r.Spread = filterSpread(c, topo, nominal, r.SpreadFreq)
+	}
+	return r, nil
+}
+
+func sortedUnion(a, b []float64) []float64 {
+	out := append(slices.Clone(a), b...)
+	slices.Sort(out)
+	return slices.Compact(out)
+}
+
+// filterSpread is the range of the transducer gain and the return loss at
+// fs over the corner box, found by corners.Ranges.
+func filterSpread(c *circuit.Circuit, topo *topology.Topology, nominal *analysis.Case, fs []float64) map[string][][2]float64 {
+	q := func(cs *analysis.Case) map[string]float64 {
+		out := map[string]float64{}
+		if cs.AC == nil {
+			return out
+		}
+		pts, err := filter.Response(cs.AC, fs)
+		if err != nil {
+			return out
+		}
+		for i, p := range pts {
+			k := strconv.Itoa(i)
+			out["gain."+k] = -p.InsertionLossDB
+			out["return."+k] = p.ReturnLossDB
+		}
+		return out
+	}
+	return rangesByKey(corners.Ranges(c, topo, nominal, q), len(fs))
 }

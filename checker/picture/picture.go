@@ -105,7 +105,9 @@ func hz(f float64) string { return si(f, "Hz") }
 func trim(x float64) string { return strings.TrimSuffix(fmt.Sprintf("%.3g", x), ".0") }
 
 // logTicks marks every decade (labelled by label) and its 2…9 multiples
-// between lo and hi.
+// between lo and hi; over less than a decade and a half the 2, 3 and 5
+// multiples are labelled too, so a narrow range still has two labels to
+// read it by.
 type logTicks struct {
 	label func(float64) string
 }
@@ -119,7 +121,7 @@ func (t logTicks) Ticks(lo, hi float64) []plot.Tick {
 				continue
 			}
 			tk := plot.Tick{Value: v}
-			if k == 1 {
+			if k == 1 || hi/lo < 30 && (k == 2 || k == 3 || k == 5) {
 				tk.Label = t.label(v)
 			}
 			ts = append(ts, tk)

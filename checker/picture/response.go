@@ -32,7 +32,21 @@ type Response struct {
 	// OutOnly says the circuit's one port is its out port: Return is that
 	// port's return loss.
 	OutOnly bool
+	// Filter draws a passive filter as the trade draws one: the
+	// transducer gain (−insertion loss) and the input return loss turned
+	// downward (−RL), both with 0 dB at the top, Rejects marked at −MinDB,
+	// no voltage gain and no μ panel (Mu is nil: a passive two-port cannot
+	// oscillate).
+	Filter  bool
+	Rejects []Reject
 }
+
+// Reject is one rejection limit of a filter: at Freq the insertion loss
+// must be at least MinDB.
+type Reject struct{ Freq, MinDB float64 }
+
+// RejectColour strokes the rejection limits' bars and fills their marks.
+var RejectColour = color.RGBA{0xb0, 0x20, 0x20, 0xff}
 
 // MuShown is the highest μ the stability panel shows: above it the circuit
 // is comfortably stable and the detail does not matter.
@@ -43,6 +57,7 @@ type series struct {
 	ys        []float64
 	colour    color.RGBA
 	dashes    []vg.Length
+	spread    [][2]float64 // the worst-case range, in the drawn sign
 }
 
 func (r *Response) series() []series {
@@ -50,11 +65,37 @@ func (r *Response) series() []series {
 	if r.OutOnly {
 		rl = "output return loss"
 	}
-	return []series{
-		{"gain", "transducer gain", r.Gain, GainColour, nil},
-		{"voltage", "voltage gain", r.Voltage, VoltageColour, []vg.Length{vg.Points(6), vg.Points(3)}},
-		{"return", rl, r.Return, ReturnColour, []vg.Length{vg.Points(1.5), vg.Points(2.5)}},
+	dotted := []vg.Length{vg.Points(1.5), vg.Points(2.5)}
+	if r.Filter {
+		return []series{
+			{"gain", "−insertion loss", r.Gain, GainColour, nil, r.Spread["gain"]},
+			{"return", "−input return loss", negate(r.Return), ReturnColour, dotted, negateRanges(r.Spread["return"])},
+		}
 	}
+	return []series{
+		{"gain", "transducer gain", r.Gain, GainColour, nil, r.Spread["gain"]},
+		{"voltage", "voltage gain", r.Voltage, VoltageColour, []vg.Length{vg.Points(6), vg.Points(3)}, r.Spread["voltage"]},
+		{"return", rl, r.Return, ReturnColour, dotted, r.Spread["return"]},
+	}
+}
+
+func negate(ys []float64) []float64 {
+	out := make([]float64, len(ys))
+	for i, y := range ys {
+		out[i] = -y
+	}
+	return out
+}
+
+func negateRanges(rg [][2]float64) [][2]float64 {
+	if rg == nil {
+		return nil
+	}
+	out := make([][2]float64, len(rg))
+	for i, r := range rg {
+		out[i] = [2]float64{-r[1], -r[0]}
+	}
+	return out
 }
 
 // WriteResponse draws the response panel (dB against log frequency) and,
@@ -66,6 +107,9 @@ func WriteResponse(w io.Writer, r *Response) error {
 	top := plot.New()
 	top.Title.Text = printable.String(r.Title)
 	top.Y.Label.Text = "dB"
+	if r.Filter {
+		top.Y.Label.Text = "dB (transducer gain)"
+	}
 	logX(top, r.Freq)
 	lo, hi := math.Inf(1), math.Inf(-1)
 	widen := func(y float64) {
@@ -77,32 +121,43 @@ func WriteResponse(w io.Writer, r *Response) error {
 		for _, y := range s.ys {
 			widen(y)
 		}
-		for _, rg := range r.Spread[s.key] {
+		for _, rg := range s.spread {
 			widen(rg[0])
 			widen(rg[1])
 		}
+	}
+	for _, rj := range r.Rejects {
+		widen(-rj.MinDB)
 	}
 	if !finite(lo) {
 		lo, hi = -1, 1
 	}
 	pad := math.Max(1, 0.06*(hi-lo))
-	top.Y.Min, top.Y.Max = lo-pad, hi+pad
+	ymin, ymax := lo-pad, hi+pad
+	if r.Filter { // 0 dB at the top: the losses hang down from it
+		ymax = math.Max(hi, 0) + 0.02*(hi-lo)
+	}
+	top.Y.Min, top.Y.Max = ymin, ymax
 	top.X.Label.Text = ""
 	addBand(top, r.Band, top.Y.Min, top.Y.Max)
 	top.Add(grid())
 	for _, s := range r.series() {
-		addSpread(top, r.SpreadFreq, r.Spread[s.key], s.colour, top.Y.Min, top.Y.Max)
+		addSpread(top, r.SpreadFreq, s.spread, s.colour, top.Y.Min, top.Y.Max)
 	}
 	for _, s := range r.series() {
 		addCurve(top, s.name, r.Freq, s.ys, s.colour, s.dashes)
 	}
-	top.Y.Min, top.Y.Max = lo-pad, hi+pad // Add widened them to the band's polygon
+	addRejects(top, r.Rejects)
+	top.Y.Min, top.Y.Max = ymin, ymax // Add widened them to the band's polygon
 	top.Y.Tick.Marker = stepTicks{}
 	top.X.Min, top.X.Max = r.Freq[0], r.Freq[len(r.Freq)-1]
 	lt := top.Legend
 	top.Legend = plot.NewLegend()
 	if r.Mu == nil {
 		top.X.Label.Text = "frequency"
+		if r.Filter {
+			top.X.Label.Text = "frequency (passive: no μ panel, it cannot oscillate)"
+		}
 		return render(w, 8.5*vg.Inch, 4.2*vg.Inch, func(dc draw.Canvas) { besideLegend(dc, top, lt) })
 	}
 	bot := plot.New()
@@ -146,6 +201,47 @@ func WriteResponse(w io.Writer, r *Response) error {
 		legendAt(ct, lt)
 		legendAt(cb, lb)
 	})
+}
+
+// addRejects marks each rejection limit with a short bar at −MinDB, an
+// eighth of an octave either side of its frequency, and a downward
+// triangle at its centre: the curve must pass below it.
+func addRejects(p *plot.Plot, rs []Reject) {
+	for i, rj := range rs {
+		bar, err := plotter.NewLine(plotter.XYs{{X: rj.Freq / rejectBar, Y: -rj.MinDB}, {X: rj.Freq * rejectBar, Y: -rj.MinDB}})
+		if err != nil {
+			continue
+		}
+		bar.Color, bar.Width = RejectColour, vg.Points(2.5)
+		p.Add(bar)
+		sc, err := plotter.NewScatter(plotter.XYs{{X: rj.Freq, Y: -rj.MinDB}})
+		if err != nil {
+			continue
+		}
+		sc.GlyphStyle = draw.GlyphStyle{Color: RejectColour, Radius: vg.Points(3.5), Shape: downTriangle{}}
+		p.Add(sc)
+		if i == 0 {
+			p.Legend.Add("rejection limit", bar, sc)
+		}
+	}
+}
+
+// rejectBar is the half-width of a rejection mark, as a frequency ratio.
+var rejectBar = math.Pow(2, 1.0/8)
+
+// downTriangle is a filled triangle pointing down: the direction the
+// loss curve must keep to.
+type downTriangle struct{}
+
+func (downTriangle) DrawGlyph(c *draw.Canvas, sty draw.GlyphStyle, pt vg.Point) {
+	c.SetColor(sty.Color)
+	r := sty.Radius
+	var p vg.Path
+	p.Move(vg.Point{X: pt.X - r, Y: pt.Y + r})
+	p.Line(vg.Point{X: pt.X + r, Y: pt.Y + r})
+	p.Line(vg.Point{X: pt.X, Y: pt.Y - r})
+	p.Close()
+	c.Fill(p)
 }
 
 // logX sets a logarithmic frequency axis over freq with decade labels.

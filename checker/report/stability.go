@@ -38,9 +38,16 @@ func (r *Report) stability() (*poles.Result, *sweep.Result) {
 // stabilityTables are the people-facing stability sections.
 func (r *Report) stabilityTables() []table {
 	pr, sw := r.stability()
+	// A circuit without a transistor cannot oscillate: its poles are the
+	// filter's resonances, and μ says nothing its loss tables do not.
+	passive := !r.Circuit.HasTransistor()
 	var ts []table
 	if pr != nil {
-		pt := table{title: "Stability: poles nearest the imaginary axis", header: []string{"frequency", "real part", "damping ζ", "verdict"}}
+		title := "Stability: poles nearest the imaginary axis"
+		if passive {
+			title = "Natural frequencies: poles nearest the imaginary axis (passive, cannot oscillate)"
+		}
+		pt := table{title: title, header: []string{"frequency", "real part", "damping ζ", "verdict"}}
 		for i, p := range pr.Poles {
 			if i == maxPoles {
 				break
@@ -61,7 +68,7 @@ func (r *Report) stabilityTables() []table {
 			ts = append(ts, pt)
 		}
 	}
-	if sw == nil || len(sw.Points) == 0 {
+	if sw == nil || len(sw.Points) == 0 || passive {
 		return ts
 	}
 	lo, hi := sw.Points[0].Frequency, sw.Points[len(sw.Points)-1].Frequency

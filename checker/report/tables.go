@@ -37,7 +37,9 @@ func (r *Report) tables() []table {
 		sup.rows = append(sup.rows, []string{s.Net, v(s.Volts, quantity.Volt),
 			v(s.Range[0], quantity.Volt) + " to " + v(s.Range[1], quantity.Volt), v(s.Impedance, quantity.Ohm)})
 	}
-	ts = append(ts, sup)
+	if len(sup.rows) > 0 { // a passive filter has none: no empty table
+		ts = append(ts, sup)
+	}
 	if len(c.Ports) > 0 {
 		pt := table{title: "Ports", header: []string{"port", "net", "direction", "impedance"}}
 		for _, p := range c.Ports {

@@ -13,6 +13,7 @@ import (
 	"headroom/checker/check"
 	"headroom/checker/circuit"
 	"headroom/checker/corners"
+	"headroom/checker/filter"
 	"headroom/checker/picture"
 	"headroom/checker/printable"
 	"headroom/checker/report"
@@ -40,6 +41,10 @@ func drawings(c *circuit.Circuit, set *ruleset.Set, runner *check.Runner, ranges
 		{kind: "margins", title: "Every judged item against its limit"},
 		{kind: "bias", title: "Transistor operating points against their ratings"},
 	}
+	passive := filter.Is(c)
+	if passive {
+		ds[0].title = "Filter response: insertion and return loss"
+	}
 	items, topo, nominal, err := runner.Items(c, set)
 	if err != nil {
 		for i := range ds {
@@ -65,6 +70,13 @@ func drawings(c *circuit.Circuit, set *ruleset.Set, runner *check.Runner, ranges
 	draw(&ds[0], func() error {
 		if nominal.AC == nil {
 			return errors.New("no band analysis")
+		}
+		if passive {
+			r, err := picture.FilterResponseOf(c, topo, nominal, worst)
+			if err != nil {
+				return err
+			}
+			return picture.WriteResponse(&b, r)
 		}
 		sw, err := sweep.Run(c, nominal.AC)
 		if err != nil {

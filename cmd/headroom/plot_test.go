@@ -269,7 +269,7 @@ func responseMatches(t *testing.T, svg, circ, corners string) {
 	reportJSON(t, circ, corners, &rep)
 	doc := readSVG(t, svg)
 	ax := responseAxes(t, doc)
-	freqOf, dbOf, y0, y1 := ax.freqOf, ax.dbOf, ax.y0, ax.y1
+	freqOf, dbOf := ax.freqOf, ax.dbOf
 
 	curve := func(c string) [][2]float64 {
 		var best [][2]float64
@@ -362,31 +362,31 @@ func responseMatches(t *testing.T, svg, circ, corners string) {
 			}
 		}
 	}
-	// The band's shading: its filled polygon in the upper panel spans the
-	// band's first to last frequency.
-	found := false
+	bandShaded(t, doc, ax, rep.Band[0].Frequency, rep.Band[len(rep.Band)-1].Frequency, rep.Sweep[n-1].Frequency)
+}
+
+// bandShaded checks that the band's filled polygon in the upper panel
+// spans b0 to b1 (polygons reaching past fmax are the legend's swatch).
+func bandShaded(t *testing.T, doc svgDoc, ax axes, b0, b1, fmax float64) {
+	t.Helper()
 	for _, p := range doc.paths {
-		if p.fill != picture.Hex(picture.BandColour) || len(p.pts) < 4 || p.pts[0][1] < y0-1 {
+		if p.fill != picture.Hex(picture.BandColour) || len(p.pts) < 4 || p.pts[0][1] < ax.y0-1 {
 			continue
 		}
 		xs := []float64{}
 		for _, q := range p.pts {
 			xs = append(xs, q[0])
 		}
-		lo, hi := freqOf(slices.Min(xs)), freqOf(slices.Max(xs))
-		if p.pts[0][1] > y1+1 || hi > rep.Sweep[n-1].Frequency*1.001 {
+		lo, hi := ax.freqOf(slices.Min(xs)), ax.freqOf(slices.Max(xs))
+		if p.pts[0][1] > ax.y1+1 || hi > fmax*1.001 {
 			continue // the legend's swatch
 		}
-		found = true
-		b0, b1 := rep.Band[0].Frequency, rep.Band[len(rep.Band)-1].Frequency
 		if math.Abs(lo/b0-1) > 0.005 || math.Abs(hi/b1-1) > 0.005 {
 			t.Errorf("band shading spans %g to %g Hz, the band is %g to %g Hz", lo, hi, b0, b1)
 		}
-		break
+		return
 	}
-	if !found {
-		t.Error("no band shading in the upper panel")
-	}
+	t.Error("no band shading in the upper panel")
 }
 
 // axes is the upper response panel's transform, recovered from the
@@ -769,15 +769,37 @@ func TestResponseSpread(t *testing.T) {
 	circ, _ := filepath.Abs("../../testdata/circuits/two-stage-40m.toml")
 	dir := plotInto(t, circ, "worst")
 	var rep struct {
-		Band []struct {
-			Frequency float64               `json:"frequency"`
-			Ranges    map[string][2]float64 `json:"ranges"`
-		} `json:"band"`
+		Band bandRanges `json:"band"`
 	}
 	reportJSON(t, circ, "worst", &rep)
 	doc := readSVG(t, filepath.Join(dir, "two-stage-40m.response.svg"))
 	ax := responseAxes(t, doc)
-	near := func(hex string, c color.RGBA) bool {
+	for _, s := range []struct {
+		key    string
+		colour color.RGBA
+	}{{"gain_db", picture.GainColour}, {"return_loss_db", picture.ReturnColour}} {
+		for _, bp := range rep.Band {
+			want, ok := bp.Ranges[s.key]
+			if !ok {
+				t.Fatalf("report gives no %s range at %g Hz", s.key, bp.Frequency)
+			}
+			spreadIs(t, doc, ax, s.key, s.colour, bp.Frequency, want)
+		}
+	}
+}
+
+// bandRanges is report --format json's band points with their worst-case
+// ranges.
+type bandRanges []struct {
+	Frequency float64               `json:"frequency"`
+	Ranges    map[string][2]float64 `json:"ranges"`
+}
+
+// spreadIs checks that the translucent range of the curve in colour c
+// spans want (dB, as drawn) at frequency f.
+func spreadIs(t *testing.T, doc svgDoc, ax axes, key string, c color.RGBA, f float64, want [2]float64) {
+	t.Helper()
+	near := func(hex string) bool {
 		v, err := strconv.ParseUint(strings.TrimPrefix(hex, "#"), 16, 32)
 		if err != nil {
 			return false
@@ -785,40 +807,29 @@ func TestResponseSpread(t *testing.T) {
 		d := func(a uint64, b uint8) bool { return math.Abs(float64(a)-float64(b)) <= 3 }
 		return d(v>>16&0xff, c.R) && d(v>>8&0xff, c.G) && d(v&0xff, c.B)
 	}
-	for _, s := range []struct {
-		key    string
-		colour color.RGBA
-	}{{"gain_db", picture.GainColour}, {"return_loss_db", picture.ReturnColour}} {
-		var poly [][2]float64
-		for _, p := range doc.paths {
-			if p.stroke == "" && near(p.fill, s.colour) && len(p.pts) > len(poly) {
-				poly = p.pts
-			}
+	var poly [][2]float64
+	for _, p := range doc.paths {
+		if p.stroke == "" && near(p.fill) && len(p.pts) > len(poly) {
+			poly = p.pts
 		}
-		if len(poly) == 0 {
-			t.Fatalf("%s: no spread drawn", s.key)
+	}
+	if len(poly) == 0 {
+		t.Fatalf("%s: no spread drawn", key)
+	}
+	x := ax.xOf(f)
+	var ys []float64
+	for _, q := range poly {
+		if math.Abs(q[0]-x) < 0.02 {
+			ys = append(ys, ax.dbOf(q[1]))
 		}
-		for _, bp := range rep.Band {
-			want, ok := bp.Ranges[s.key]
-			if !ok {
-				t.Fatalf("report gives no %s range at %g Hz", s.key, bp.Frequency)
-			}
-			x := ax.xOf(bp.Frequency)
-			var ys []float64
-			for _, q := range poly {
-				if math.Abs(q[0]-x) < 0.02 {
-					ys = append(ys, ax.dbOf(q[1]))
-				}
-			}
-			if len(ys) < 2 {
-				t.Fatalf("%s: spread has %d vertices at %g Hz", s.key, len(ys), bp.Frequency)
-			}
-			lo, hi := slices.Min(ys), slices.Max(ys)
-			tol := func(v float64) float64 { return 0.005*math.Max(math.Abs(v), 1) + 0.02 }
-			if math.Abs(lo-want[0]) > tol(want[0]) || math.Abs(hi-want[1]) > tol(want[1]) {
-				t.Errorf("%s at %g Hz: spread drawn %.4g to %.4g dB, report's range %.4g to %.4g dB", s.key, bp.Frequency, lo, hi, want[0], want[1])
-			}
-		}
+	}
+	if len(ys) < 2 {
+		t.Fatalf("%s: spread has %d vertices at %g Hz", key, len(ys), f)
+	}
+	lo, hi := slices.Min(ys), slices.Max(ys)
+	tol := func(v float64) float64 { return 0.005*math.Max(math.Abs(v), 1) + 0.02 }
+	if math.Abs(lo-want[0]) > tol(want[0]) || math.Abs(hi-want[1]) > tol(want[1]) {
+		t.Errorf("%s at %g Hz: spread drawn %.4g to %.4g dB, report's range %.4g to %.4g dB", key, f, lo, hi, want[0], want[1])
 	}
 }
 
