@@ -41,8 +41,8 @@ const escapes = 1
 
 // maxPairs bounds the parameters escape pairs: the live parameters whose
 // single flip moved the figure most at the case escaped from, at most this
-// many (28 pairs of flips from a vertex).
-const maxPairs = 8
+// many (15 pairs of flips from a vertex).
+const maxPairs = 6
 
 // maxProbes bounds escape's probes of the parameters that did not move the
 // item at nominal: they are probed only when there are at most this many
@@ -51,6 +51,13 @@ const maxPairs = 8
 // probes are left out and a figure that switches what it measures can still
 // be reported short of its worst vertex.
 const maxProbes = 12
+
+// probeTol is how much a probe must move the figure for the parameters it
+// sets to join the walk: a tenth of the 0.1 % the search promises, so that
+// a parameter that moves a figure by a few parts in 10⁶ (a capacitor far
+// from the net a decoupling capacitor's limit is measured on) does not enter
+// the reported corner.
+const probeTol = 1e-4
 
 // refine is the local search that closes the sensitivity method's blind spot.
 // The one-sided sensitivity at nominal can point the wrong way for a figure
@@ -71,7 +78,7 @@ const maxProbes = 12
 // item whose case changed is then judged once more at exactly its case
 // (items at one case share it). At most maxRounds rounds. Per round a walk
 // of k live parameters asks for at most 2·k·beam flips, or, once, for
-// escape's 4·C(maxPairs, 2) = 112 pairs (28 from a vertex) and, with at
+// escape's 4·C(maxPairs, 2) = 60 pairs (15 from a vertex) and, with at
 // most maxProbes parameters outside the live ones, 3 probes; the walk from
 // the opposite case asks for its start and 2·k flips.
 func refine(c *circuit.Circuit, topo *topology.Topology, nominal *analysis.Case, cfg *engine.Config,
@@ -84,8 +91,10 @@ func refine(c *circuit.Circuit, topo *topology.Topology, nominal *analysis.Case,
 			continue
 		}
 		w := &walk{key: k, it: it, frontier: [][]int8{it.state}, figure: []engine.Finding{it.best},
-			seen: map[string]engine.Finding{signature(it.state): it.best}, escapes: escapes,
-			base: it.state, baseFig: it.best}
+			seen: map[string]engine.Finding{signature(it.state): it.best}, base: it.state, baseFig: it.best}
+		if !it.wide {
+			w.escapes = escapes
+		}
 		for i := range box {
 			if (it.dirs[i] != 0 || it.state[i] != 0) && !(it.hold && box[i].holdsSupply) {
 				w.live = append(w.live, i)
@@ -201,6 +210,9 @@ const maxWideLive = 32
 func opposite(walks []*walk) []*walk {
 	var out []*walk
 	for _, w := range walks {
+		if w.it.wide {
+			continue // its extra walks are wideStarts'
+		}
 		st := make([]int8, len(w.it.state))
 		for _, i := range w.live {
 			switch {
@@ -416,7 +428,7 @@ func (w *walk) step() bool {
 		for j, nb := range w.moves {
 			if !w.probed[j] {
 				consider(nb, &from)
-			} else if f, ok := w.seen[signature(nb)]; ok && f.HasMetric && moved(&f, &from) {
+			} else if f, ok := w.seen[signature(nb)]; ok && f.HasMetric && movedBy(&f, &from, probeTol) {
 				again = true // a dead parameter moves the item here
 			}
 		}

@@ -250,9 +250,12 @@ var analysed atomic.Int64
 // moved reports whether a metric moved by more than one part in 10⁶. The
 // scale is the larger of the figure and its limit, so that a metric that is
 // zero at nominal (bias.drift) is not moved by solver noise.
-func moved(a, b *engine.Finding) bool {
+func moved(a, b *engine.Finding) bool { return movedBy(a, b, moveTol) }
+
+// movedBy is moved with a tolerance of its own.
+func movedBy(a, b *engine.Finding, tol float64) bool {
 	scale := math.Max(math.Max(math.Abs(a.Measured), math.Abs(b.Measured)), math.Max(math.Abs(a.Limit), math.Abs(b.Limit)))
-	return math.Abs(a.Measured-b.Measured) > moveTol*scale || rel(a.Limit, b.Limit) > moveTol
+	return math.Abs(a.Measured-b.Measured) > tol*scale || rel(a.Limit, b.Limit) > tol
 }
 
 func rel(a, b float64) float64 {
