@@ -88,6 +88,9 @@ type Runner struct {
 	loader *ruleset.Loader
 	sets   map[string]*ruleset.Set
 	found  map[string]string // folder -> discovered rule-set reference
+	// reloadFixes loads every fixed file from its edited text, as before
+	// edit.Model (benchmarks compare the two in one run).
+	reloadFixes bool
 }
 
 // NewRunner prepares a run.
@@ -182,10 +185,13 @@ func (r *Runner) File(path string, data []byte) Result {
 	fs, nominal := j.findings, j.nominal
 	res.NotJudged, res.NotJudgedWhy = j.notJudged, j.why
 	if !r.opt.NoFixCheck {
-		verifyFixes(r.opt.Rules, fs, data, nominal, cfg.Fixes, func(b []byte) ([]engine.Finding, *analysis.Case, error) {
-			c2, err := circuit.LoadBytes(path, b, circuit.Options{ReadFile: r.opt.ReadFile, Libraries: set.Libraries})
-			if err != nil {
-				return nil, nil, err
+		src := &source{data: data, c: c, reload: r.reloadFixes}
+		verifyFixes(r.opt.Rules, fs, src, nominal, cfg.Fixes, func(b []byte, c2 *circuit.Circuit) ([]engine.Finding, *analysis.Case, error) {
+			if c2 == nil {
+				var err error
+				if c2, err = circuit.LoadBytes(path, b, circuit.Options{ReadFile: r.opt.ReadFile, Libraries: set.Libraries}); err != nil {
+					return nil, nil, err
+				}
 			}
 			j2, err := r.judge(c2, cfg, false) // a fix's check reads no fix of the fixed file
 			if err != nil {
