@@ -3,6 +3,7 @@ package check
 import (
 	"fmt"
 	"math"
+	"slices"
 	"sort"
 	"strings"
 
@@ -89,8 +90,32 @@ type verdict struct {
 
 // recheck checks a fixed file again: its findings and its nominal case. c is
 // the fixed circuit when it was made without loading (edit.Model), else nil
-// and data is the edited text to load.
-type recheck func(data []byte, c *circuit.Circuit) ([]engine.Finding, *analysis.Case, error)
+// and data is the edited text to load. only, when not nil, names the only
+// rules to judge (the others are switched off).
+type recheck func(data []byte, c *circuit.Circuit, only []string) ([]engine.Finding, *analysis.Case, error)
+
+// ratingRules are the only rules that read a part's rating: no analysis
+// does (ratings are not among the corner box's parameters either), so a
+// change set that only sets ratings leaves every other rule's findings, and
+// the nominal case, exactly as they were before it. Its check judges these
+// rules alone: a finding of another rule can neither be left (the fix is for
+// one of these rules) nor be new. TestRatingsOnlyInRatingRules and
+// TestRatingFixVerdicts hold this to the full check over the corpus.
+var ratingRules = []string{"resistor.power", "capacitor.voltage"}
+
+// onlyRatings reports whether a form of f's fix is checked by the rating
+// rules alone: f is theirs and every change sets a rating.
+func onlyRatings(f *engine.Finding, changes []engine.Change) bool {
+	if !slices.Contains(ratingRules, f.Rule) {
+		return false
+	}
+	for _, ch := range changes {
+		if ch.Key != "rating" {
+			return false
+		}
+	}
+	return true
+}
 
 // source is the file whose fixes are checked: its text, and the circuit
 // loaded from it.
@@ -99,8 +124,9 @@ type source struct {
 	c      *circuit.Circuit
 	text   *edit.Text // parsed on first use
 	parsed bool
-	// reload loads every fixed file from its edited text (for measuring
-	// and testing what edit.Model saves).
+	// reload loads every fixed file from its edited text and judges it
+	// with every rule (for measuring and testing what edit.Model and
+	// ratingRules save).
 	reload bool
 }
 
@@ -128,7 +154,11 @@ func judgeForm(rule *engine.Rule, f *engine.Finding, form engine.FixForm, src *s
 	if err != nil {
 		return verdict{why: fmt.Sprintf("cannot be made to the file (%v)", err)}
 	}
-	after, nominal, err := again(text, fixed)
+	var only []string
+	if !src.reload && onlyRatings(f, form.Changes) {
+		only = ratingRules
+	}
+	after, nominal, err := again(text, fixed, only)
 	if err != nil {
 		return verdict{why: fmt.Sprintf("leaves a file that does not load (%v)", err)}
 	}
