@@ -35,6 +35,12 @@ func Solve(c *circuit.Circuit) (*Result, error) {
 		return nl.result(c, nil, 0, "newton")
 	}
 	s := newSolver(nl)
+	o, method := s.cold()
+	return s.finish(c, o, method)
+}
+
+// cold runs Newton from the solver's zero state, then the fall-backs.
+func (s *solver) cold() (outcome, string) {
 	o := s.newton(1, 0, maxNewton, true)
 	method := "newton"
 	if o == diverged {
@@ -46,6 +52,12 @@ func Solve(c *circuit.Circuit) (*Result, error) {
 		method = "source-stepping"
 		o = s.sourceStepping()
 	}
+	return o, method
+}
+
+// finish turns the outcome of the solve into Solve's answer.
+func (s *solver) finish(c *circuit.Circuit, o outcome, method string) (*Result, error) {
+	nl := s.nl
 	switch o {
 	case singular:
 		if f := nl.overdriven(s.x); f != nil {
