@@ -103,11 +103,17 @@ type BJT struct {
 // cannot be modelled (the loader should have refused it) or the network is
 // singular at a band frequency.
 func Analyze(c *circuit.Circuit, op *dc.Result) (*Result, error) {
+	return analyze(c, op, nil)
+}
+
+// analyze is Analyze, with the network built as a copy of like when like is
+// not nil (see build; errShape when c does not fit it).
+func analyze(c *circuit.Circuit, op *dc.Result, like *network) (*Result, error) {
 	lo, hi := c.Band[0], c.Band[1]
 	if !positive(lo) || !positive(hi) || hi < lo {
 		return nil, fmt.Errorf("band %g–%g Hz is not two positive frequencies, lowest first", lo, hi)
 	}
-	nw, err := build(c, op)
+	nw, err := build(c, op, like)
 	if err != nil {
 		return nil, err
 	}
@@ -197,6 +203,13 @@ func sq(x float64) float64 { return x * x }
 // partFigures fills Parts, Windings and BJTs.
 func (r *Result) partFigures(c *circuit.Circuit, op *dc.Result, lo, hi float64) error {
 	w := 2 * math.Pi * lo
+	// The figures are cut from one block per kind: an allocation per part
+	// was a good share of a case's.
+	reactive := make([]Reactive, 0, len(c.Parts))
+	var bjts []BJT
+	if op != nil {
+		bjts = make([]BJT, 0, len(op.BJTs))
+	}
 	for _, p := range c.Parts {
 		switch p.Kind {
 		case circuit.Capacitor, circuit.Inductor:
@@ -204,7 +217,8 @@ func (r *Result) partFigures(c *circuit.Circuit, op *dc.Result, lo, hi float64) 
 			if err != nil {
 				return fmt.Errorf("part %s: %w", p.Ref, err)
 			}
-			x := &Reactive{CircuitImpedance: cmplx.Abs(z)}
+			reactive = append(reactive, Reactive{CircuitImpedance: cmplx.Abs(z)})
+			x := &reactive[len(reactive)-1]
 			if p.Kind == circuit.Capacitor {
 				x.Reactance = 1 / (w * p.Value)
 			} else {
@@ -228,7 +242,11 @@ func (r *Result) partFigures(c *circuit.Circuit, op *dc.Result, lo, hi float64) 
 			if err != nil {
 				return fmt.Errorf("part %s: %w", p.Ref, err)
 			}
-			r.BJTs[p.Ref] = &BJT{GM: h.GM, Rpi: h.Rpi, Cpi: h.Cpi, Cmu: h.Cmu, BetaHigh: h.FT / hi}
+			if len(bjts) == cap(bjts) {
+				bjts = make([]BJT, 0, 4) // more transistors than the operating point lists
+			}
+			bjts = append(bjts, BJT{GM: h.GM, Rpi: h.Rpi, Cpi: h.Cpi, Cmu: h.Cmu, BetaHigh: h.FT / hi})
+			r.BJTs[p.Ref] = &bjts[len(bjts)-1]
 		case circuit.NJFET, circuit.PJFET, circuit.DualGateMOSFET:
 			f, err := fetModel(p, op)
 			if err != nil {
