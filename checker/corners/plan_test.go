@@ -98,3 +98,44 @@ func closeZ(a, b complex128) bool {
 	d := a - b
 	return math.Hypot(real(d), imag(d)) <= 1e-7*math.Hypot(real(b), imag(b))+1e-9
 }
+
+// BenchmarkPlanCase times one analysed case (every parameter at its high
+// end) of the amplifiers of BenchmarkWorst, analysis alone, no rules: from
+// scratch (analysis.Run), with the nominal case's plan (analysis.Case.Vary),
+// and with the plan and Newton's warm start (analysis.WarmStart). Compare
+// the three within one run; the allocations are steady.
+func BenchmarkPlanCase(b *testing.B) {
+	for _, stages := range []int{2, 5, 16, 50} {
+		c := testCircuit(stages)
+		topo := topology.Analyze(c)
+		box := Box(c)
+		high := make([]int8, len(box))
+		for i := range high {
+			high[i] = +1
+		}
+		cc := at(c, box, high)
+		for _, mode := range []string{"scratch", "plan", "warm"} {
+			b.Run(fmt.Sprintf("parts=%d/%s", len(c.Parts), mode), func(b *testing.B) {
+				defer func(was bool) { analysis.WarmStart = was }(analysis.WarmStart)
+				analysis.WarmStart = mode == "warm"
+				nominal := analysis.Run(c, topo)
+				nominal.Vary(cc) // builds the plan
+				b.ReportAllocs()
+				iters := 0
+				for b.Loop() {
+					var cs *analysis.Case
+					if mode == "scratch" {
+						cs = analysis.Run(cc, topo)
+					} else {
+						cs = nominal.Vary(cc)
+					}
+					if cs.AC == nil {
+						b.Fatal(cs.OPErr, cs.ACErr)
+					}
+					iters += cs.OP.Iterations
+				}
+				b.ReportMetric(float64(iters)/float64(b.N), "newton-iters/op")
+			})
+		}
+	}
+}
