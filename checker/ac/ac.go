@@ -2,7 +2,8 @@
 // analysis of the circuit linearised at its DC operating point, at the band's
 // lowest frequency, its geometric centre and its highest frequency. It gives
 // the band figures the report prints and the impedances the reactance rules
-// judge against.
+// judge against. Plan analyses the worst-case search's cases of one circuit
+// on the numbering and branches built once from the nominal circuit.
 package ac
 
 import (
