@@ -118,13 +118,26 @@ func analyze(c *circuit.Circuit, op *dc.Result, like *network) (*Result, error) 
 	if err != nil {
 		return nil, err
 	}
+	var reactive, windings, bjts, fets int // the maps' sizes, so that they do not grow entry by entry
+	for _, p := range c.Parts {
+		switch p.Kind {
+		case circuit.Capacitor, circuit.Inductor:
+			reactive++
+		case circuit.Transformer:
+			windings++
+		case circuit.NPN, circuit.PNP:
+			bjts++
+		case circuit.NJFET, circuit.PJFET, circuit.DualGateMOSFET:
+			fets++
+		}
+	}
 	r := &Result{
 		HasInput: nw.hasIn,
 		HasGain:  nw.gains,
-		Parts:    map[string]*Reactive{},
-		Windings: map[string]map[string]*Winding{},
-		BJTs:     map[string]*BJT{},
-		FETs:     map[string]*FET{},
+		Parts:    make(map[string]*Reactive, reactive),
+		Windings: make(map[string]map[string]*Winding, windings),
+		BJTs:     make(map[string]*BJT, bjts),
+		FETs:     make(map[string]*FET, fets),
 		net:      nw,
 		freqs:    map[float64]*freq{},
 		cache:    map[cacheKey]complex128{},

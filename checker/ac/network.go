@@ -541,15 +541,13 @@ func span(lo, hi []int, br []branch, d []complex128) {
 
 // refs returns the sorted, de-duplicated element indices of the named parts.
 func (nw *network) refs(removed []string) ([]int, error) {
-	seen := map[int]bool{}
-	var idx []int
+	idx := make([]int, 0, len(removed)) // a query removes a part or two: a linear search beats a set
 	for _, ref := range removed {
 		i, ok := nw.parts[ref]
 		if !ok {
 			return nil, fmt.Errorf("no part %q in the circuit", ref)
 		}
-		if !seen[i] {
-			seen[i] = true
+		if !slices.Contains(idx, i) {
 			idx = append(idx, i)
 		}
 	}
