@@ -140,13 +140,13 @@ var errShape = errors.New("the circuit is not wired as the plan's")
 // like's numbering and branches, or fails with errShape when c's network
 // would not have like's shape.
 func build(c *circuit.Circuit, op *dc.Result, like *network) (*network, error) {
+	for _, s := range c.Supplies {
+		if !(s.Impedance >= 0) || math.IsInf(s.Impedance, 0) {
+			return nil, fmt.Errorf("supply %s: impedance %g is not a finite value ≥ 0", s.Net, s.Impedance)
+		}
+	}
 	var nw *network
 	if like != nil {
-		for _, s := range c.Supplies {
-			if !(s.Impedance >= 0) || math.IsInf(s.Impedance, 0) {
-				return nil, fmt.Errorf("supply %s: impedance %g is not a finite value ≥ 0", s.Net, s.Impedance)
-			}
-		}
 		cp := *like
 		nw = &cp
 		nw.elems = slices.Clone(like.elems)
@@ -157,9 +157,6 @@ func build(c *circuit.Circuit, op *dc.Result, like *network) (*network, error) {
 			elems: make([]element, 0, len(c.Supplies)+len(c.Ports)+len(c.Parts))}
 		acGround := map[string]bool{}
 		for _, s := range c.Supplies {
-			if !(s.Impedance >= 0) || math.IsInf(s.Impedance, 0) {
-				return nil, fmt.Errorf("supply %s: impedance %g is not a finite value ≥ 0", s.Net, s.Impedance)
-			}
 			if s.Impedance == 0 {
 				acGround[s.Net] = true
 			}

@@ -51,6 +51,6 @@ func (cs *Case) Vary(c *circuit.Circuit) *Case {
 	if cs.plan == nil {
 		return Run(c, cs.Topo)
 	}
-	cs.plan.once.Do(func() { cs.plan.plan = NewPlan(cs.Circuit, cs.Topo) })
+	cs.plan.once.Do(func() { cs.plan.plan = newPlan(cs.Circuit, cs.Topo, cs.OP) })
 	return cs.plan.plan.Run(c)
 }

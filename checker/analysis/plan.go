@@ -33,8 +33,17 @@ func NewPlan(c *circuit.Circuit, topo *topology.Topology) *Plan {
 	if topo == nil {
 		topo = topology.Analyze(c)
 	}
+	return newPlan(c, topo, nil)
+}
+
+// newPlan is NewPlan with c's operating point op when it is known (nil
+// solves it).
+func newPlan(c *circuit.Circuit, topo *topology.Topology, op *dc.Result) *Plan {
 	p := &Plan{topo: topo, dc: dc.NewPlan(c, WarmStart)}
-	if op, err := p.dc.Solve(c); err == nil {
+	if op == nil {
+		op, _ = p.dc.Solve(c)
+	}
+	if op != nil {
 		p.ac = ac.NewPlan(c, op)
 	}
 	return p

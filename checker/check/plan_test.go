@@ -5,6 +5,7 @@ import (
 	"fmt"
 	"math"
 	"testing"
+	"time"
 
 	"headroom/checker/analysis"
 	"headroom/checker/circuit"
@@ -74,3 +75,36 @@ func rel(a, b float64) float64 {
 }
 
 func near(a, b float64) bool { return a == b }
+
+// BenchmarkPlanWarm measures what Newton's warm start (analysis.WarmStart)
+// would save: the worst-case check of the corpus of BenchmarkCorpus, every
+// fix checked, with the plan's cold start and with its warm start, the two
+// taking turns file by file so that a shared machine's load falls on both;
+// warm-x-cold is the ratio of their times. (The warm start is off because it
+// moves figures in their last bits; see analysis.WarmStart.)
+func BenchmarkPlanWarm(b *testing.B) {
+	files := corpus.Mixed(225)
+	all := rules.All()
+	set, err := (&ruleset.Loader{Rules: all}).Load("default")
+	if err != nil {
+		b.Fatal(err)
+	}
+	set.Corners = "worst"
+	defer func(was bool) { analysis.WarmStart = was }(analysis.WarmStart)
+	var spent [2]time.Duration
+	for b.Loop() {
+		r := NewRunner(Options{Rules: all, Set: set, Worst: corners.Worst, Today: "2026-12-02"})
+		for i, f := range files {
+			for k, warm := range []bool{false, true} {
+				analysis.WarmStart = warm
+				t0 := time.Now()
+				if res := r.File(fmt.Sprintf("gen%03d.toml", i), f); res.Err != nil {
+					b.Fatal(res.Err)
+				}
+				spent[k] += time.Since(t0)
+			}
+		}
+	}
+	b.ReportMetric(spent[1].Seconds()/spent[0].Seconds(), "warm-x-cold")
+	b.ReportMetric(spent[0].Seconds()/float64(b.N)/float64(len(files))*1e3, "cold-ms/file")
+}
