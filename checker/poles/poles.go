@@ -280,12 +280,14 @@ func build(c *circuit.Circuit, res *ac.Result) (*pencil, error) {
 
 func positive(x float64) bool { return x > 0 && !math.IsInf(x, 0) }
 
+// netsOf is how many nets each two- and three-terminal kind must have.
+var netsOf = map[circuit.Kind]int{circuit.Resistor: 2, circuit.Capacitor: 2, circuit.Inductor: 2,
+	circuit.Potentiometer: 3, circuit.NPN: 3, circuit.PNP: 3}
+
 // part stamps one part.
 func (p *pencil) part(part *circuit.Part, res *ac.Result, nd func(string) int) error {
 	ref := part.Ref
-	need := map[circuit.Kind]int{circuit.Resistor: 2, circuit.Capacitor: 2, circuit.Inductor: 2,
-		circuit.Potentiometer: 3, circuit.NPN: 3, circuit.PNP: 3}
-	if k, ok := need[part.Kind]; ok && len(part.Nets) != k {
+	if k, ok := netsOf[part.Kind]; ok && len(part.Nets) != k {
 		return fmt.Errorf("%s needs %d nets, has %d", part.Kind, k, len(part.Nets))
 	}
 	switch part.Kind {

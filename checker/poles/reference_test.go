@@ -135,3 +135,47 @@ func TestSolveMatchesReference(t *testing.T) {
 		}
 	}
 }
+
+// TestSolveConcurrently: the search solves from several goroutines at once,
+// each taking a workspace from the pool; pencils of different sizes solved
+// side by side still give the reference's poles bit for bit.
+func TestSolveConcurrently(t *testing.T) {
+	var pens []*pencil
+	var spans [][2]float64
+	var want [][]Pole
+	for _, text := range []string{chain(10), chain(30), colpitts(t, "emit", "4k7"), follower(t)} {
+		cs := analyse(t, text, nil)
+		pen, err := build(cs.Circuit, cs.AC)
+		if err != nil {
+			t.Fatal(err)
+		}
+		fLo, fHi := span(cs.Circuit)
+		r, err := referencePoles(pen, fLo, fHi)
+		if err != nil {
+			t.Fatal(err)
+		}
+		pens, spans, want = append(pens, pen), append(spans, [2]float64{fLo, fHi}), append(want, r.Poles)
+	}
+	errs := make(chan error, 8)
+	for w := range 8 {
+		go func() {
+			for i := range 40 {
+				k := (w + i) % len(pens)
+				r, err := findPoles(pens[k], spans[k][0], spans[k][1])
+				if err == nil && !slices.Equal(r.Poles, want[k]) {
+					err = fmt.Errorf("pencil %d: poles differ from the reference", k)
+				}
+				if err != nil {
+					errs <- err
+					return
+				}
+			}
+			errs <- nil
+		}()
+	}
+	for range 8 {
+		if err := <-errs; err != nil {
+			t.Error(err)
+		}
+	}
+}
