@@ -22,9 +22,10 @@
 // placed at the geometric middle of the frequencies of interest, so that the
 // poles from a coupling capacitor's hertz to a transistor's gigahertz are all
 // resolved; s is scaled by the same angular frequency so that the matrix is
-// of order one. mat.Eigen (LAPACK's dgeev, with balancing) then gives all the
-// eigenvalues of the dense real A in O(n³): tens of microseconds for the tens
-// of unknowns of a hand-designed stage. Eigenvectors are computed only for the
+// of order one. LAPACK's dgeev (with balancing, as mat.Eigen calls it) then
+// gives all the eigenvalues of the dense real A in O(n³): tens of microseconds
+// for the tens of unknowns of a hand-designed stage; its storage is reused
+// from solve to solve. Eigenvectors are computed only for the
 // poles whose participation is asked for.
 package poles
 
