@@ -89,8 +89,9 @@ type Runner struct {
 	loader *ruleset.Loader
 	sets   map[string]*ruleset.Set
 	found  map[string]string // folder -> discovered rule-set reference
-	// reloadFixes loads every fixed file from its edited text, as before
-	// edit.Model (benchmarks compare the two in one run).
+	// reloadFixes checks every fix by loading the edited text and judging
+	// every rule, without the shortcuts of fixes.go (edit.Model, the rating
+	// rules alone); benchmarks and tests compare the two in one run.
 	reloadFixes bool
 }
 
