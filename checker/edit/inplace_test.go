@@ -3,6 +3,7 @@ package edit
 import (
 	"os"
 	"path/filepath"
+	"strings"
 	"testing"
 
 	"headroom/checker/circuit/tomlfile"
@@ -13,10 +14,11 @@ import (
 // TestInPlaceTextIsSequentialText proves that the one-pass edit (InPlace,
 // Edited) writes the text that making the changes one at a time, parsing
 // again after each, writes: for every value, rating and turns key of the
-// generated corpus, the test circuits and this package's board, one change
-// at a time and all of them at once, with written values of other lengths.
+// generated corpus, the test circuits and this package's board (also with
+// CRLF line ends), one change at a time and all of them at once, with
+// written values of other lengths.
 func TestInPlaceTextIsSequentialText(t *testing.T) {
-	files := [][]byte{[]byte(board)}
+	files := [][]byte{[]byte(board), []byte(strings.ReplaceAll(board, "\n", "\r\n"))}
 	paths, _ := filepath.Glob("../../testdata/circuits/*.toml")
 	if len(paths) == 0 {
 		t.Fatal("no test circuits")
