@@ -70,6 +70,7 @@ const probeTol = 1e-4
 // the few neighbours that make the figure worse. Where none does, it tries
 // the moves of escape once and walks on from those that make it worse. Each
 // item is also walked from the case opposite its reported one (opposite).
+// A stability item (Wide) does neither: its extra walks are wideStarts'.
 //
 // Cost: the requests of different items are packed into shared analyses
 // wherever their live parameters agree (an item's figure does not depend on
@@ -79,7 +80,8 @@ const probeTol = 1e-4
 // (items at one case share it). At most maxRounds rounds. Per round a walk
 // of k live parameters asks for at most 2·k·beam flips, or, once, for
 // escape's 4·C(maxPairs, 2) = 60 pairs (15 from a vertex) and, with at
-// most maxProbes parameters outside the live ones, 3 probes; the walk from
+// most maxProbes parameters outside the live ones, 2 probes and the walk's
+// worst case judged exactly (3 analyses shared with no other); the walk from
 // the opposite case asks for its start and 2·k flips.
 func refine(c *circuit.Circuit, topo *topology.Topology, nominal *analysis.Case, cfg *engine.Config,
 	box []Param, items map[engine.Key]*item, order []engine.Key) error {
