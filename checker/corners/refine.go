@@ -82,11 +82,11 @@ const probeTol = 1e-4
 // analyses as the busiest stage asks for, not the sum over stages; every
 // item whose case changed is then judged once more at exactly its case
 // (items at one case share it). At most maxRounds rounds. Per round a walk
-// of k live parameters asks for at most 2·k·beam flips, or, once, for
-// escape's 4·C(maxPairs, 2) = 24 pairs (6 from a vertex) and, with at
-// most maxProbes parameters outside the live ones, 2 probes and the walk's
-// worst case judged exactly (3 analyses shared with no other); the walk from
-// the opposite case asks for its start and 2·k flips.
+// of k live parameters asks for at most 2·k·beam flips, or, once and only
+// when its worst case reached NearLimit, for escape's 4·C(maxPairs, 2) = 24
+// pairs (6 from a vertex) and, when probing, 2 probes and the walk's worst
+// case judged exactly (3 analyses shared with no other); the walk from the
+// opposite case asks for its start and 2·k flips.
 func refine(c *circuit.Circuit, topo *topology.Topology, nominal *analysis.Case, cfg *engine.Config,
 	box []Param, items map[engine.Key]*item, order []engine.Key) error {
 	var walks []*walk
@@ -329,9 +329,9 @@ func flips(out [][]int8, st []int8, i int) [][]int8 {
 // parameters that did not move the item at nominal, all of them at their
 // low ends and all at their high ends (a figure that switches what it
 // measures, as the loaded winding does, can depend on them after the
-// switch), when there are at most maxProbes of them. A probe is not a
-// case the walk goes to (it would set parameters that do not move the
-// figure, and the corner reported lists only those that do): one that moves
+// switch), when probing says so. A probe is not a case the walk goes to
+// (it would set parameters that do not move the figure, and the corner
+// reported lists only those that do): one that moves
 // the figure makes them live, and the walk goes on from its worst case
 // over them too. With the probes the walk's worst case is judged once more
 // at exactly that case, for them to be compared with.
@@ -376,8 +376,25 @@ func (w *walk) escape() {
 	}
 }
 
-// probing reports whether escape probes the walk's dead parameters.
-func (w *walk) probing() bool { return len(w.dead) > 0 && len(w.dead) <= maxProbes }
+// probing reports whether escape probes the walk's dead parameters: only
+// when there are at most maxProbes of them and the walk's worst case is
+// bent. A figure that switches what it measures shows it on the way there:
+// the switch makes the figure worse at an end its sensitivity at nominal
+// called the harmless one.
+func (w *walk) probing() bool {
+	return len(w.dead) > 0 && len(w.dead) <= maxProbes && w.bent()
+}
+
+// bent reports whether the walk's worst case sets a live parameter other
+// than at the end where the item's sensitivity at nominal says it hurts.
+func (w *walk) bent() bool {
+	for _, i := range w.live {
+		if w.it.dirs[i] != 0 && w.base[i] != w.it.dirs[i] {
+			return true
+		}
+	}
+	return false
+}
 
 // step moves the frontier on to the few neighbours (or moves of escape) that
 // are worse than the case they come from, keeping the item's worst case; it
