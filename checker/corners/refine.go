@@ -196,7 +196,10 @@ type walk struct {
 const wideRounds = 3
 
 // oppositeRounds is the budget of the walk from the opposite case: the round
-// that judges the start and one step on, to its worst flip.
+// that judges the start and one step on, to its worst flip. Like every walk
+// from a start of its own (wideRounds too), it steps on only from a start
+// that fails or reaches NearLimit: the margin the search promises is not in
+// question at a start farther from the limit.
 const oppositeRounds = 2
 
 // maxWideLive bounds the extra walks to items of at most this many live
@@ -409,8 +412,10 @@ func (w *walk) step() bool {
 		if !ok || !f.HasMetric {
 			return false // no frontier: the walk ends
 		}
-		w.frontier, w.figure = [][]int8{st}, []engine.Finding{f}
 		w.base, w.baseFig = st, f
+		if nearLimit(&f, NearLimit) { // else the start is not worth a step
+			w.frontier, w.figure = [][]int8{st}, []engine.Finding{f}
+		}
 		if engine.Worse(&f, &w.it.best) && moved(&f, &w.it.best) {
 			w.it.best, w.it.state = f, st
 			return true
