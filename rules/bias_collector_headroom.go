@@ -42,7 +42,7 @@ func runCollectorHeadroom(p *engine.Pass) error {
 		return nil
 	}
 	minV := p.Param("min_volts")
-	for _, part := range bjts(p) {
+	for part := range bjts(p) {
 		q := op.BJTs[part.Ref]
 		tb := p.A.Topo.BJTs[part.Ref]
 		if q == nil || tb == nil {

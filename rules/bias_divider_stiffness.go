@@ -60,7 +60,7 @@ func runDividerStiffness(p *engine.Pass) error {
 		return nil
 	}
 	minRatio := p.Param("min_ratio")
-	for _, part := range bjts(p) {
+	for part := range bjts(p) {
 		tb := p.A.Topo.BJTs[part.Ref]
 		q := op.BJTs[part.Ref]
 		if tb == nil || q == nil || len(tb.LowerLeg) == 0 || !(q.IB > 0) {

@@ -56,7 +56,7 @@ func runBiasDrift(p *engine.Pass) error {
 		return nil
 	}
 	limit := p.Param("max_fraction")
-	for _, part := range bjts(p) {
+	for part := range bjts(p) {
 		q, qn := op.BJTs[part.Ref], nomOP.BJTs[part.Ref]
 		if q == nil || qn == nil || !(qn.IC > 0) {
 			continue
@@ -74,7 +74,7 @@ func runBiasDrift(p *engine.Pass) error {
 		}
 		ic, icNom := q.IC, qn.IC
 		who := part.Ref + "'s collector current"
-		for _, other := range bjts(p) {
+		for other := range bjts(p) {
 			if tb := p.A.Topo.BJTs[other.Ref]; tb != nil && tb.Stacked == part.Ref {
 				who = fmt.Sprintf("the collector current of %s (and of %s above it, which carries it)", part.Ref, other.Ref)
 			}

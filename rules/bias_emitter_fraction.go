@@ -65,7 +65,7 @@ func runEmitterFraction(p *engine.Pass) error {
 		return nil
 	}
 	lo, hi := p.Param("min_fraction"), p.Param("max_fraction")
-	for _, part := range bjts(p) {
+	for part := range bjts(p) {
 		tb := p.A.Topo.BJTs[part.Ref]
 		if tb == nil || !tb.CommonEmitter || tb.ReturnRail == "" || tb.FeedRail == "" {
 			continue

@@ -53,7 +53,7 @@ func runBiasRegion(p *engine.Pass) error {
 			Fix:     "look for a part value far outside its usual range or a network that has no solution at the frequency named"})
 	}
 	minIC, minVCE := p.Param("min_ic"), p.Param("min_vce")
-	for _, part := range bjts(p) {
+	for part := range bjts(p) {
 		q := cs.OP.BJTs[part.Ref]
 		if q == nil {
 			continue

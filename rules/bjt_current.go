@@ -35,7 +35,7 @@ func runBJTCurrent(p *engine.Pass) error {
 		return nil
 	}
 	maxLoad := p.Param("max_load")
-	for _, part := range bjts(p) {
+	for part := range bjts(p) {
 		q, b := op.BJTs[part.Ref], part.BJT
 		if q == nil || b == nil || !(b.ICMax > 0) {
 			continue

@@ -40,7 +40,7 @@ func runBJTDissipation(p *engine.Pass) error {
 	}
 	maxLoad := p.Param("max_load")
 	ambient := p.Circuit.Ambient.Nominal
-	for _, part := range bjts(p) {
+	for part := range bjts(p) {
 		q, b := op.BJTs[part.Ref], part.BJT
 		if q == nil || b == nil || !(b.PD > 0) {
 			continue

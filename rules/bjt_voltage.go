@@ -39,7 +39,7 @@ func runBJTVoltage(p *engine.Pass) error {
 		return nil
 	}
 	maxLoad, swing := p.Param("max_load"), p.Param("inductive_swing")
-	for _, part := range bjts(p) {
+	for part := range bjts(p) {
 		tb, b := p.A.Topo.BJTs[part.Ref], part.BJT
 		span, ok := dcSpan(p, tb)
 		if !ok || b == nil || !(b.VCEO > 0) {

@@ -43,7 +43,7 @@ var StabilityUnconditional = &engine.Rule{
 }
 
 func runStabilityUnconditional(p *engine.Pass) error {
-	if p.A.AC == nil || len(bjts(p)) == 0 {
+	if p.A.AC == nil || !hasBJT(p) {
 		return nil // a passive circuit cannot oscillate
 	}
 	sw, ok := sweepOf(p.A)

@@ -251,7 +251,8 @@ func BenchmarkWorst(b *testing.B) {
 			})
 		}
 		// One analysed case alone (every parameter at its high end, every
-		// rule): its allocations are the per-case figure of docs/speed.md.
+		// rule), analysed as the search does (the nominal case's plan,
+		// Vary): its allocations are the per-case figure of DEVELOPERS.md.
 		c := testCircuit(stages)
 		b.Run(fmt.Sprintf("parts=%d/case", len(c.Parts)), func(b *testing.B) {
 			topo := topology.Analyze(c)
@@ -264,7 +265,7 @@ func BenchmarkWorst(b *testing.B) {
 			b.ReportAllocs()
 			var buf []engine.Finding
 			for b.Loop() {
-				fs, err := engine.MeasureAppend(buf[:0], analysis.Run(at(c, box, high), topo), nominal, cfg)
+				fs, err := engine.MeasureAppend(buf[:0], nominal.Vary(at(c, box, high)), nominal, cfg)
 				if err != nil {
 					b.Fatal(err)
 				}

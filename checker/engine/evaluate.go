@@ -59,14 +59,27 @@ func MeasureAppend(dst []Finding, cs *analysis.Case, nominal *analysis.Case, cfg
 	if nominal == nil {
 		nominal = cs
 	}
+	runs := func(r *Rule) bool {
+		return r.Run != nil && cfg.Enabled(r) && !(r.NeedsCorners && !worst) && !(r.Static && cs != nominal)
+	}
+	n := 0
+	for _, r := range cfg.Rules {
+		if runs(r) {
+			n++
+		}
+	}
+	// One block for the passes: a rule's later message or fix may keep its
+	// pass, so each rule has its own, but not an allocation of its own.
+	passes := make([]Pass, 0, n)
 	pos := positions(cs.Circuit)
 	all := dst // every pass appends to the one slice
 	for _, r := range cfg.Rules {
-		if r.Run == nil || !cfg.Enabled(r) || r.NeedsCorners && !worst || r.Static && cs != nominal {
+		if !runs(r) {
 			continue
 		}
-		p := &Pass{Circuit: cs.Circuit, A: cs, Params: cfg.Params[r.ID], Corners: worst,
-			Nominal: nominal, NominalCircuit: nominal.Circuit, rule: r, pos: pos, findings: all}
+		passes = append(passes, Pass{Circuit: cs.Circuit, A: cs, Params: cfg.Params[r.ID], Corners: worst,
+			Nominal: nominal, NominalCircuit: nominal.Circuit, rule: r, pos: pos, findings: all})
+		p := &passes[len(passes)-1]
 		if err := r.Run(p); err != nil {
 			return nil, fmt.Errorf("rule %s: %w", r.ID, err)
 		}
