@@ -53,7 +53,6 @@ func runStabilityUnconditional(p *engine.Pass) error {
 	minMu := p.Param("min_mu")
 	c := p.Circuit
 	var f engine.Finding
-	var judge stableJudge
 	if sw.TwoPort {
 		f = engine.Finding{HasMetric: true, Measured: sw.MuMin, Limit: minMu, Comparison: ">=", Unit: "ratio", AtHz: sw.MuMinHz}
 		lo, hi := failRange(sw, func(pt sweep.Point) bool { return pt.Mu < minMu })
@@ -75,10 +74,6 @@ func runStabilityUnconditional(p *engine.Pass) error {
 			}
 			return msg
 		}
-		judge = func(cs *analysis.Case) bool {
-			s, ok := sweepOf(cs)
-			return ok && s.TwoPort && s.MuMin >= minMu
-		}
 	} else {
 		port := c.InPort()
 		if sw.OnePort == "out" {
@@ -96,12 +91,19 @@ func runStabilityUnconditional(p *engine.Pass) error {
 			}
 			return msg
 		}
-		judge = func(cs *analysis.Case) bool {
-			s, ok := sweepOf(cs)
-			return ok && s.OnePort != "" && s.ReMin >= 0
-		}
 	}
 	if engine.Fails(f.Measured, f.Limit, f.Comparison) {
+		// What a fix must make of the sweep, made only for a failing item.
+		judge := stableJudge(func(cs *analysis.Case) bool {
+			s, ok := sweepOf(cs)
+			return ok && s.OnePort != "" && s.ReMin >= 0
+		})
+		if sw.TwoPort {
+			judge = func(cs *analysis.Case) bool {
+				s, ok := sweepOf(cs)
+				return ok && s.TwoPort && s.MuMin >= minMu
+			}
+		}
 		f.FixLater = func() (string, []engine.Change) {
 			same := func(r float64, _ bool) float64 { return r }
 			return stabilityFix(p, transistorsBy(c, nil), judge, same), nil
