@@ -46,6 +46,9 @@ type capGroup struct {
 	Parts []*circuit.Part // the case's parts, in file order; Parts[0] names the finding
 	A, B  string          // the nets, as the first part writes them
 	names []string        // the parts' references, for Impedance's removed list
+
+	one     [1]*circuit.Part // storage for a group of one part
+	oneName [1]string
 }
 
 // first is the part the finding names and the fix changes.
@@ -77,7 +80,7 @@ func (g *capGroup) name() string {
 // found by the topology) into groups by their unordered pair of nets, in the
 // file order of each group's first part. A capacitor with both ends on one
 // net is left out: nothing is across it.
-func capacitorGroups(p *engine.Pass, role string) []*capGroup {
+func capacitorGroups(p *engine.Pass, role string) []capGroup {
 	n := 0
 	for _, part := range p.Circuit.Parts {
 		if isGrouped(p, part, role) {
@@ -87,31 +90,25 @@ func capacitorGroups(p *engine.Pass, role string) []*capGroup {
 	if n == 0 {
 		return nil
 	}
-	// One block each for the groups, their parts and their names: the
-	// reactance rules gather the groups at every case of a worst-case
-	// search. A group's lists are cut from the blocks with no room to grow,
-	// so the rare second part of a group copies them instead of writing
-	// over the next group's.
+	// One block for the groups (the reactance rules gather them at every
+	// case of a worst-case search); a group's first part and name are kept
+	// in the group itself, and the rare second part of a group copies them.
 	groups := make([]capGroup, 0, n)
-	parts := make([]*circuit.Part, n)
-	names := make([]string, n)
-	out := make([]*capGroup, 0, n)
 	for _, part := range p.Circuit.Parts {
 		if !isGrouped(p, part, role) {
 			continue
 		}
 		a, b := part.Nets[0], part.Nets[1]
-		if g := groupOn(out, a, b); g != nil {
+		if g := groupOn(groups, a, b); g != nil {
 			g.Parts = append(g.Parts, part)
 			g.names = append(g.names, part.Ref)
 			continue
 		}
-		i := len(groups)
-		parts[i], names[i] = part, part.Ref
-		groups = append(groups, capGroup{Parts: parts[i : i+1 : i+1], A: a, B: b, names: names[i : i+1 : i+1]})
-		out = append(out, &groups[i])
+		groups = append(groups, capGroup{A: a, B: b, one: [1]*circuit.Part{part}, oneName: [1]string{part.Ref}})
+		g := &groups[len(groups)-1]
+		g.Parts, g.names = g.one[:], g.oneName[:]
 	}
-	return out
+	return groups
 }
 
 // isGrouped reports whether part is a capacitor of role with something
@@ -121,9 +118,9 @@ func isGrouped(p *engine.Pass, part *circuit.Part, role string) bool {
 }
 
 // groupOn is the group across nets a and b in either order, or nil.
-func groupOn(gs []*capGroup, a, b string) *capGroup {
-	for _, g := range gs {
-		if g.A == a && g.B == b || g.A == b && g.B == a {
+func groupOn(gs []capGroup, a, b string) *capGroup {
+	for i := range gs {
+		if g := &gs[i]; g.A == a && g.B == b || g.A == b && g.B == a {
 			return g
 		}
 	}
@@ -217,7 +214,8 @@ func judgeCapacitorGroupsBy(p *engine.Pass, role string, limit func(g *capGroup,
 	w := omegaLow(p.Circuit)
 	groups := capacitorGroups(p, role)
 	msgs := engine.NewBlock[capMsg](len(groups))
-	for _, g := range groups {
+	for i := range groups {
+		g := &groups[i]
 		z, ok := groupImpedance(p, g)
 		if !ok {
 			continue
