@@ -94,15 +94,9 @@ func runStabilityUnconditional(p *engine.Pass) error {
 	}
 	if engine.Fails(f.Measured, f.Limit, f.Comparison) {
 		// What a fix must make of the sweep, made only for a failing item.
-		judge := stableJudge(func(cs *analysis.Case) bool {
-			s, ok := sweepOf(cs)
-			return ok && s.OnePort != "" && s.ReMin >= 0
-		})
+		judge := stableJudge(func(cs *analysis.Case) bool { return sweepHolds(cs, false, 0) })
 		if sw.TwoPort {
-			judge = func(cs *analysis.Case) bool {
-				s, ok := sweepOf(cs)
-				return ok && s.TwoPort && s.MuMin >= minMu
-			}
+			judge = func(cs *analysis.Case) bool { return sweepHolds(cs, true, minMu) }
 		}
 		f.FixLater = func() (string, []engine.Change) {
 			same := func(r float64, _ bool) float64 { return r }
