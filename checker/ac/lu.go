@@ -25,6 +25,7 @@ type lu struct {
 	n    int
 	piv  []int // row i of the factors is row piv[i] of the original
 	rows []row
+	diag []divisor // row i's pivot, prepared for the solves to divide by
 }
 
 // row is one row of a matrix being factorised: the entries of columns
@@ -55,6 +56,7 @@ type sparse struct {
 	room    []int        // capacity reserved for each row, from its first column
 	buf     []complex128 // the block the rows were cut from
 	piv, nz []int        // factor's: the factors' row order (kept by them) and scratch
+	diag    []divisor    // factor's: the pivots (kept by the factors)
 	f       lu           // the factors factor returns (a later factor of m replaces them)
 }
 
@@ -158,9 +160,9 @@ func (m *sparse) factor() (*lu, error) {
 	n := m.n
 	rows := m.rows
 	if len(m.piv) != n {
-		m.piv, m.nz = make([]int, n), make([]int, 0, n)
+		m.piv, m.nz, m.diag = make([]int, n), make([]int, 0, n), make([]divisor, n)
 	}
-	piv, nz := m.piv, m.nz
+	piv, nz, diag := m.piv, m.nz, m.diag
 	for i := range piv {
 		piv[i] = i
 	}
@@ -184,7 +186,12 @@ func (m *sparse) factor() (*lu, error) {
 			piv[k], piv[p] = piv[p], piv[k]
 		}
 		rk := &rows[k]
-		inv := 1 / rk.at(k)
+		pk := rk.at(k)
+		diag[k] = newDivisor(pk)
+		inv, ok := diag[k].quo(1)
+		if !ok {
+			inv = 1 / pk
+		}
 		nz = nz[:0]
 		for j := k + 1; j <= rk.hi(); j++ {
 			if rk.v[j-rk.lo] != 0 {
@@ -213,7 +220,7 @@ func (m *sparse) factor() (*lu, error) {
 			}
 		}
 	}
-	m.f = lu{n: n, piv: piv, rows: rows}
+	m.f = lu{n: n, piv: piv, rows: rows, diag: diag}
 	return &m.f, nil
 }
 
@@ -247,7 +254,11 @@ func (f *lu) solveInto(dst, b []complex128) []complex128 {
 				s -= v * x[j]
 			}
 		}
-		x[i] = s / r.v[i-r.lo]
+		q, ok := f.diag[i].quo(s)
+		if !ok {
+			q = s / r.v[i-r.lo]
+		}
+		x[i] = q
 	}
 	return x
 }
@@ -288,9 +299,46 @@ func (f *lu) solvePart(dst, b []complex128, stop int) []complex128 {
 				s -= v * x[j]
 			}
 		}
-		x[i] = s / r.v[i-r.lo]
+		q, ok := f.diag[i].quo(s)
+		if !ok {
+			q = s / r.v[i-r.lo]
+		}
+		x[i] = q
 	}
 	return x
+}
+
+// divisor is a complex number m prepared for dividing by it: the first half
+// of Smith's algorithm (R. L. Smith, Algorithm 116: Complex division, Commun.
+// ACM 5(8), 1962, 435) exactly as the Go runtime performs n/m, done once for
+// a pivot that divides a whole column or solve. quo(n) is then bit for bit
+// n/m, with two real divisions instead of three and no call: the solves
+// divide by every pivot.
+//
+// The runtime takes one of two branches, e = (a + b·r)/den, f = (b − a·r)/den
+// when |Re m| ≥ |Im m| and e = (a·r + b)/den, f = (b·r − a)/den otherwise
+// (n = a + ib, r and den from m). Both are e = (a·p + b·q)/den,
+// f = (b·p − a·q)/den with (p, q) = (1, r) or (r, 1): a product with 1 is
+// exact, so quo needs no branch.
+type divisor struct{ p, q, denom float64 }
+
+// newDivisor prepares m.
+func newDivisor(m complex128) divisor {
+	re, im := real(m), imag(m)
+	if math.Abs(re) >= math.Abs(im) {
+		r := im / re
+		return divisor{1, r, re + r*im}
+	}
+	r := re / im
+	return divisor{r, 1, im + r*re}
+}
+
+// quo returns n/m and true, or false where both parts come out NaN: there
+// the runtime goes on to correct the result to C99's infinities and zeros,
+// and the caller divides with the operator instead.
+func (q *divisor) quo(n complex128) (complex128, bool) {
+	e, f := (real(n)*q.p+imag(n)*q.q)/q.denom, (imag(n)*q.p-real(n)*q.q)/q.denom
+	return complex(e, f), e == e || f == f
 }
 
 // abs1 is |re| + |im|, a cheap magnitude good enough for choosing pivots.
@@ -315,11 +363,12 @@ func invert(a []complex128, m int) ([]complex128, error) {
 func invertInto(out, a []complex128, m int) error {
 	var pivBuf [8]int
 	var xBuf [8]complex128
-	piv, x := pivBuf[:0], xBuf[:0]
+	var diagBuf [8]divisor
+	piv, x, diag := pivBuf[:0], xBuf[:0], diagBuf[:0]
 	if m > len(pivBuf) {
-		piv, x = make([]int, 0, m), make([]complex128, 0, m)
+		piv, x, diag = make([]int, 0, m), make([]complex128, 0, m), make([]divisor, 0, m)
 	}
-	piv, x = piv[:m], x[:m]
+	piv, x, diag = piv[:m], x[:m], diag[:m]
 	for i := range piv {
 		piv[i] = i
 	}
@@ -340,7 +389,11 @@ func invertInto(out, a []complex128, m int) error {
 			piv[k], piv[p] = piv[p], piv[k]
 		}
 		rk := a[k*m : (k+1)*m]
-		inv := 1 / rk[k]
+		diag[k] = newDivisor(rk[k])
+		inv, ok := diag[k].quo(1)
+		if !ok {
+			inv = 1 / rk[k]
+		}
 		for i := k + 1; i < m; i++ {
 			ri := a[i*m : (i+1)*m]
 			mult := ri[k]
@@ -379,7 +432,11 @@ func invertInto(out, a []complex128, m int) error {
 					s -= v * x[j]
 				}
 			}
-			x[i] = s / a[i*m+i]
+			q, ok := diag[i].quo(s)
+			if !ok {
+				q = s / a[i*m+i]
+			}
+			x[i] = q
 		}
 		for i, v := range x {
 			out[i*m+col] = v

@@ -308,3 +308,42 @@ func TestSolvePartMatchesSolve(t *testing.T) {
 		t.Errorf("only %d systems compared", compared)
 	}
 }
+
+// TestDivisorMatchesDivision: a prepared divisor divides bit for bit as Go's
+// own complex division does (the Go runtime's complex128div, Smith's
+// algorithm with the C99 corrections), on ordinary, tiny, huge, signed-zero,
+// infinite and NaN parts.
+func TestDivisorMatchesDivision(t *testing.T) {
+	rng := rand.New(rand.NewPCG(5, 8))
+	special := []float64{0, math.Copysign(0, -1), 1, -1, 2.5, 5e-324, -1e-310, 1e308, -3e307,
+		math.Inf(1), math.Inf(-1), math.NaN()}
+	part := func() float64 {
+		if rng.IntN(3) == 0 {
+			return special[rng.IntN(len(special))]
+		}
+		return rng.NormFloat64() * math.Pow(10, float64(rng.IntN(40)-20))
+	}
+	same := func(a, b complex128) bool {
+		eq := func(x, y float64) bool {
+			return math.Float64bits(x) == math.Float64bits(y) || (math.IsNaN(x) && math.IsNaN(y))
+		}
+		return eq(real(a), real(b)) && eq(imag(a), imag(b))
+	}
+	fixed := 0 // left to the operator
+	for range 200000 {
+		m, n := complex(part(), part()), complex(part(), part())
+		q := newDivisor(m)
+		if got, ok := q.quo(n); ok && !same(got, n/m) {
+			t.Fatalf("(%v)/(%v): divisor %v, operator %v", n, m, got, n/m)
+		} else if !ok {
+			fixed++
+		}
+		one := complex(1, 0)
+		if got, ok := q.quo(1); ok && !same(got, one/m) {
+			t.Fatalf("1/(%v): divisor %v, operator %v", m, got, one/m)
+		}
+	}
+	if fixed == 0 || fixed > 50000 {
+		t.Errorf("%d of 200000 quotients left to the operator", fixed)
+	}
+}

@@ -7,9 +7,9 @@
 // potentially unstable a decade above them, where the transistor still has
 // gain and the bias network presents whatever it happens to be.
 //
-// Each frequency is assembled and factorised afresh through ac.Result.Ports,
-// which keeps nothing, so a sweep inside the worst-case search does not grow
-// the band analysis's per-frequency cache.
+// The sweep goes through ac.Result.PortsEach, which keeps nothing after it
+// returns, so a sweep inside the worst-case search does not grow the band
+// analysis's per-frequency cache.
 package sweep
 
 import (
@@ -18,6 +18,7 @@ import (
 	"math"
 	"math/cmplx"
 	"slices"
+	"sync"
 
 	"headroom/checker/ac"
 	"headroom/checker/circuit"
@@ -79,33 +80,68 @@ var errNoPort = errors.New("no port")
 // from a decade below the band's lowest frequency to twice the highest
 // transistor fT (ten times the band's highest frequency when there is no
 // transistor, or when that is higher), plus the band's three points.
-func Grid(c *circuit.Circuit) []float64 {
-	lo, hi := c.Band[0]/10, 10*c.Band[1]
+func Grid(c *circuit.Circuit) []float64 { return slices.Clone(grid(c)) }
+
+// gridKey is what a grid depends on: the band and the top of the sweep.
+type gridKey struct{ lo, hi, top float64 }
+
+// grids memoises the last few grids: every case of a worst-case search
+// sweeps over the same band, usually to the same top, and a grid costs a
+// power per point.
+var grids = struct {
+	sync.Mutex
+	m map[gridKey][]float64
+}{m: map[gridKey][]float64{}}
+
+// grid is Grid, shared: read it, never write it.
+func grid(c *circuit.Circuit) []float64 {
+	top := 10 * c.Band[1]
 	for _, p := range c.Parts {
 		if p.Kind.IsBJT() && p.BJT != nil && p.BJT.FT > 0 && !math.IsInf(p.BJT.FT, 0) {
-			hi = math.Max(hi, 2*p.BJT.FT)
+			top = math.Max(top, 2*p.BJT.FT)
 		}
 	}
+	k := gridKey{c.Band[0], c.Band[1], top}
+	grids.Lock()
+	fs, ok := grids.m[k]
+	grids.Unlock()
+	if ok {
+		return fs
+	}
+	fs = makeGrid(k)
+	grids.Lock()
+	if len(grids.m) >= 16 {
+		clear(grids.m) // other circuits: a check goes through them one by one
+	}
+	grids.m[k] = fs
+	grids.Unlock()
+	return fs
+}
+
+// makeGrid computes the grid of k.
+func makeGrid(k gridKey) []float64 {
+	lo, hi := k.lo/10, k.top
+	band := [2]float64{k.lo, k.hi}
 	n := int(math.Ceil(PerDecade * math.Log10(hi/lo)))
 	fs := make([]float64, 0, n+4)
 	for k := 0; k <= n; k++ {
 		fs = append(fs, lo*math.Pow(hi/lo, float64(k)/float64(n)))
 	}
-	fs = append(fs, c.Band[0], math.Sqrt(c.Band[0]*c.Band[1]), c.Band[1])
+	fs = append(fs, band[0], math.Sqrt(band[0]*band[1]), band[1])
 	slices.Sort(fs)
 	return slices.Compact(fs)
 }
 
 // Run sweeps r (the band analysis of c) over Grid(c).
 func Run(c *circuit.Circuit, r *ac.Result) (*Result, error) {
-	return RunAt(r, Grid(c))
+	return RunAt(r, grid(c))
 }
 
 // RunAt sweeps r over the given frequencies.
 func RunAt(r *ac.Result, freqs []float64) (*Result, error) {
 	res := &Result{Points: make([]Point, 0, len(freqs)), MuMin: math.Inf(1), ReMin: math.Inf(1)}
 	first := true
-	gains := make([]float64, len(freqs)) // the points' GainDB, in one block
+	gains := make([]float64, 2*len(freqs)) // the points' GainDB and VoltageGainDB, in one block
 	err := r.PortsEach(freqs, func(pp ac.PortPoint) error {
 		if first {
 			first = false
@@ -120,7 +156,8 @@ func RunAt(r *ac.Result, freqs []float64) (*Result, error) {
 				return errNoPort
 			}
 		}
-		pt := point(pp, res.TwoPort, res.OnePort, &gains[len(res.Points)])
+		k := 2 * len(res.Points)
+		pt := point(pp, res.TwoPort, res.OnePort, &gains[k], &gains[k+1])
 		if res.TwoPort && pt.Mu < res.MuMin {
 			res.MuMin, res.MuMinHz = pt.Mu, pp.Frequency
 		}
@@ -146,8 +183,8 @@ func RunAt(r *ac.Result, freqs []float64) (*Result, error) {
 }
 
 // point turns one two-port into S-parameters and stability figures; gain
-// holds the point's GainDB when it has one.
-func point(pp ac.PortPoint, two bool, one string, gain *float64) Point {
+// and vgain hold the point's GainDB and VoltageGainDB when it has them.
+func point(pp ac.PortPoint, two bool, one string, gain, vgain *float64) Point {
 	pt := Point{Frequency: pp.Frequency}
 	if !two {
 		z, z0 := pp.Z[0][0], pp.RS
@@ -157,13 +194,14 @@ func point(pp ac.PortPoint, two bool, one string, gain *float64) Point {
 		pt.PortZ = z
 		g := (z - complex(z0, 0)) / (z + complex(z0, 0))
 		pt.S[0][0] = g
-		pt.ReturnLossDB = returnLoss(g)
+		pt.ReturnLossDB = returnLoss(cmplx.Abs(g))
 		return pt
 	}
 	pt.S = ToS(pp.Z, pp.RS, pp.RL)
-	s11, s21 := pt.S[0][0], pt.S[1][0]
-	pt.Mu, pt.MuPrime, pt.K, pt.Delta = Figures(pt.S)
-	pt.ReturnLossDB = returnLoss(s11)
+	s21 := pt.S[1][0]
+	abs11 := cmplx.Abs(pt.S[0][0])
+	pt.Mu, pt.MuPrime, pt.K, pt.Delta = figures(pt.S, abs11)
+	pt.ReturnLossDB = returnLoss(abs11)
 	if a := cmplx.Abs(s21); a > 0 {
 		*gain = 20 * math.Log10(a)
 		pt.GainDB = gain
@@ -174,7 +212,8 @@ func point(pp ac.PortPoint, two bool, one string, gain *float64) Point {
 	if pt.GainDB != nil && pt.PortZ != 0 {
 		av := cmplx.Abs(z[1][0] * complex(pp.RL, 0) / ((z[1][1] + complex(pp.RL, 0)) * pt.PortZ))
 		if g := 20 * math.Log10(av); !math.IsInf(g, 0) && !math.IsNaN(g) {
-			pt.VoltageGainDB = &g
+			*vgain = g
+			pt.VoltageGainDB = vgain
 		}
 	}
 	return pt
@@ -199,10 +238,15 @@ func ToS(z [2][2]complex128, r1, r2 float64) [2][2]complex128 {
 // μ' = (1 − |S22|²)/(|S11 − Δ·S22*| + |S12·S21|),
 // K = (1 − |S11|² − |S22|² + |Δ|²)/(2·|S12·S21|), each capped at ±Cap.
 func Figures(s [2][2]complex128) (mu, muPrime, k, delta float64) {
+	return figures(s, cmplx.Abs(s[0][0]))
+}
+
+// figures is Figures given |S11|, which the return loss needs too.
+func figures(s [2][2]complex128, abs11 float64) (mu, muPrime, k, delta float64) {
 	s11, s12, s21, s22 := s[0][0], s[0][1], s[1][0], s[1][1]
 	d := s11*s22 - s12*s21
 	p := cmplx.Abs(s12 * s21)
-	a11, a22 := sq(cmplx.Abs(s11)), sq(cmplx.Abs(s22))
+	a11, a22 := sq(abs11), sq(cmplx.Abs(s22))
 	mu = ratio(1-a11, cmplx.Abs(s22-d*cmplx.Conj(s11))+p)
 	muPrime = ratio(1-a22, cmplx.Abs(s11-d*cmplx.Conj(s22))+p)
 	k = ratio(1-a11-a22+sq(cmplx.Abs(d)), 2*p)
@@ -224,9 +268,8 @@ func ratio(num, den float64) float64 {
 
 func sq(x float64) float64 { return x * x }
 
-// returnLoss is −20·log10|g| within ±ac.MaxReturnLossDB.
-func returnLoss(g complex128) float64 {
-	a := cmplx.Abs(g)
+// returnLoss is −20·log10 a within ±ac.MaxReturnLossDB, a = |Γ|.
+func returnLoss(a float64) float64 {
 	if a == 0 || math.IsNaN(a) {
 		return ac.MaxReturnLossDB
 	}

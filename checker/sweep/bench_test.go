@@ -1,0 +1,43 @@
+package sweep
+
+import (
+	"path/filepath"
+	"testing"
+	"time"
+
+	"headroom/checker/analysis"
+	"headroom/checker/circuit"
+)
+
+// BenchmarkSweep times one whole sweep (Run) of shipped example circuits and
+// reports its cost per frequency: ns-per-freq and allocs-per-freq (the
+// allocations of one sweep over its number of points).
+func BenchmarkSweep(b *testing.B) {
+	for _, name := range []string{"preamp-30m", "two-stage-40m", "cs-tank-40m"} {
+		c, err := circuit.Load(filepath.Join("../../testdata/circuits", name+".toml"), circuit.Options{})
+		if err != nil {
+			b.Fatal(err)
+		}
+		cs := analysis.Run(c, nil)
+		if cs.AC == nil {
+			b.Fatalf("%s: no small-signal analysis", name)
+		}
+		points := len(Grid(c))
+		b.Run(name, func(b *testing.B) {
+			allocs := testing.AllocsPerRun(3, func() {
+				if _, err := Run(c, cs.AC); err != nil {
+					b.Fatal(err)
+				}
+			})
+			t0 := time.Now()
+			for b.Loop() {
+				if _, err := Run(c, cs.AC); err != nil {
+					b.Fatal(err)
+				}
+			}
+			b.ReportMetric(float64(time.Since(t0).Nanoseconds())/float64(b.N*points), "ns-per-freq")
+			b.ReportMetric(allocs/float64(points), "allocs-per-freq")
+			b.ReportMetric(float64(points), "freqs")
+		})
+	}
+}
