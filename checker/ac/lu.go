@@ -220,7 +220,9 @@ func (m *sparse) factor() (*lu, error) {
 			}
 		}
 	}
-	m.f = lu{n: n, piv: piv, rows: rows, diag: diag}
+	if m.f.rows == nil { // the same slices every time: written once
+		m.f = lu{n: n, piv: piv, rows: rows, diag: diag}
+	}
 	return &m.f, nil
 }
 
@@ -306,6 +308,61 @@ func (f *lu) solvePart(dst, b []complex128, stop int) []complex128 {
 		x[i] = q
 	}
 	return x
+}
+
+// solvePair is solvePart for the unit right-hand sides e_a and e_b at once,
+// into x and y (length n each): the two substitutions run side by side over
+// the same rows, each doing exactly solvePart's arithmetic, so that the
+// processor overlaps the two chains of divisions. Where the later start of
+// one leaves it rows before its own first non-zero, its entries there stay
+// +0 and change nothing, as in solvePart.
+func (f *lu) solvePair(x, y []complex128, a, b, stop int) {
+	n := f.n
+	x, y = x[:n], y[:n]
+	pa, pb := n, n // positions of a and b in the factors' row order
+	for i, p := range f.piv {
+		if p == a {
+			pa = i
+		}
+		if p == b {
+			pb = i
+		}
+	}
+	first := min(pa, pb)
+	for i := min(stop, first); i < n; i++ {
+		x[i], y[i] = 0, 0
+	}
+	x[pa], y[pb] = 1, 1
+	for i := max(first, 1); i < n; i++ {
+		r := &f.rows[i]
+		s, t := x[i], y[i]
+		for j := max(r.lo, first); j < i; j++ {
+			if v := r.v[j-r.lo]; v != 0 {
+				s -= v * x[j]
+				t -= v * y[j]
+			}
+		}
+		x[i], y[i] = s, t
+	}
+	for i := n - 1; i >= stop; i-- {
+		r := &f.rows[i]
+		s, t := x[i], y[i]
+		for j := i + 1; j <= r.hi(); j++ {
+			if v := r.v[j-r.lo]; v != 0 {
+				s -= v * x[j]
+				t -= v * y[j]
+			}
+		}
+		q, ok := f.diag[i].quo(s)
+		if !ok {
+			q = s / r.v[i-r.lo]
+		}
+		u, ok := f.diag[i].quo(t)
+		if !ok {
+			u = t / r.v[i-r.lo]
+		}
+		x[i], y[i] = q, u
+	}
 }
 
 // divisor is a complex number m prepared for dividing by it: the first half

@@ -270,7 +270,8 @@ func TestFactorMatchesDense(t *testing.T) {
 }
 
 // TestSolvePartMatchesSolve: the entries solvePart computes are solve's, bit
-// for bit, for right-hand sides like a branch's (a few ±1, the rest +0).
+// for bit, for right-hand sides like a branch's (a few ±1, the rest +0), and
+// so are solvePair's for two unit right-hand sides.
 func TestSolvePartMatchesSolve(t *testing.T) {
 	rng := rand.New(rand.NewPCG(9, 3))
 	compared := 0
@@ -303,6 +304,18 @@ func TestSolvePartMatchesSolve(t *testing.T) {
 			}
 		}
 		compared++
+		// solvePair: two unit right-hand sides at once.
+		ea, eb := make([]complex128, n), make([]complex128, n)
+		na, nc := rng.IntN(n), rng.IntN(n)
+		ea[na], eb[nc] = 1, 1
+		x, y := make([]complex128, n), make([]complex128, n)
+		f.solvePair(x, y, na, nc, stop)
+		wa, wb := f.solve(ea), f.solve(eb)
+		for i := stop; i < n; i++ {
+			if !sameBits(x[i], wa[i]) || !sameBits(y[i], wb[i]) {
+				t.Fatalf("trial %d (n %d, stop %d): pair gives x[%d] = %v, %v; solve %v, %v", trial, n, stop, i, x[i], y[i], wa[i], wb[i])
+			}
+		}
 	}
 	if compared < 200 {
 		t.Errorf("only %d systems compared", compared)

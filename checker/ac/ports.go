@@ -88,18 +88,19 @@ func (r *Result) PortsEach(freqs []float64, fn func(PortPoint) error) error {
 		if err != nil {
 			return fmt.Errorf("two-port at %g Hz: %w", f, err)
 		}
-		for j := range 2 {
-			if !has[j] {
-				continue
+		if has[0] && has[1] {
+			fa.solvePair(ps.x, ps.y, nodes[0], nodes[1], stop)
+			for i := range 2 {
+				p.Z[i][0], p.Z[i][1] = ps.x[nodes[i]], ps.y[nodes[i]]
+			}
+		} else {
+			j := 0
+			if has[1] {
+				j = 1
 			}
 			clear(ps.rhs)
 			ps.rhs[nodes[j]] = 1
-			fa.solvePart(ps.x, ps.rhs, stop)
-			for i := range 2 {
-				if has[i] {
-					p.Z[i][j] = ps.x[nodes[i]]
-				}
-			}
+			p.Z[j][j] = fa.solvePart(ps.x, ps.rhs, stop)[nodes[j]]
 		}
 		for i := range 2 {
 			for j := range 2 {

@@ -19,8 +19,9 @@ type portSolver struct {
 	start  []int // where each row's memory begins in m.buf
 	diag   []int // m.buf index of each diagonal entry
 	plan   []stampOp
-	one    complex128 // the sign stamp multiplies each entry by
-	rhs, x []complex128
+	one    complex128   // the sign stamp multiplies each entry by
+	rhs    []complex128 // a one-port's right-hand side
+	x, y   []complex128 // the solutions for the in and the out port
 }
 
 // stampOp is one entry of one element's admittance matrix: its index in the
@@ -66,7 +67,7 @@ func newPortSolver(nw *network, d [][]complex128, lo0, hi0 []int) *portSolver {
 		span(lo, hi, e.branches, d[i])
 	}
 	ps := &portSolver{m: newSparse(n, lo, hi), lo: lo, hi: hi, start: make([]int, n), diag: make([]int, n),
-		one: 1, rhs: make([]complex128, n), x: make([]complex128, n)}
+		one: 1, rhs: make([]complex128, n), x: make([]complex128, n), y: make([]complex128, n)}
 	at := 0
 	for i := range n {
 		ps.start[i] = at
@@ -112,10 +113,18 @@ func (ps *portSolver) assemble(flat []complex128) bool {
 	m := ps.m
 	buf := m.buf
 	for i := range m.rows {
-		s := ps.start[i]
-		v := buf[s : s+ps.hi[i]-ps.lo[i]+1 : s+m.room[i]]
-		clear(v)
-		m.rows[i] = row{lo: ps.lo[i], v: v}
+		// Put row i back in its own memory; where the last factorisation
+		// left it there (no exchange), only its length is written, which
+		// spares the garbage collector's write barrier.
+		r := &m.rows[i]
+		s, w := ps.start[i], ps.hi[i]-ps.lo[i]+1
+		if cap(r.v) == m.room[i] && &r.v[:1][0] == &buf[s] {
+			r.v = r.v[:w]
+		} else {
+			r.v = buf[s : s+w : s+m.room[i]]
+		}
+		r.lo = ps.lo[i]
+		clear(r.v)
 	}
 	for _, k := range ps.diag {
 		buf[k] += Gmin
