@@ -72,6 +72,9 @@ type Result struct {
 	MuMin, MuMinHz float64
 	// ReMin is the least Re PortZ over the sweep and ReMinHz where (both forms).
 	ReMin, ReMinHz float64
+	// Bare: the sweep of Stability, whose points leave out ReturnLossDB
+	// (zero), GainDB and VoltageGainDB (nil).
+	Bare bool
 }
 
 var errNoPort = errors.New("no port")
@@ -137,11 +140,25 @@ func Run(c *circuit.Circuit, r *ac.Result) (*Result, error) {
 	return RunAt(r, grid(c))
 }
 
+// Stability is Run for the stability rules, which read only S, μ, μ', K,
+// |Δ| and PortZ (and MuMin, ReMin): the same points, those figures bit for
+// bit Run's, without the three logarithms a point of the gains and the
+// return loss (Bare).
+func Stability(c *circuit.Circuit, r *ac.Result) (*Result, error) {
+	return runAt(r, grid(c), true)
+}
+
 // RunAt sweeps r over the given frequencies.
-func RunAt(r *ac.Result, freqs []float64) (*Result, error) {
-	res := &Result{Points: make([]Point, 0, len(freqs)), MuMin: math.Inf(1), ReMin: math.Inf(1)}
+func RunAt(r *ac.Result, freqs []float64) (*Result, error) { return runAt(r, freqs, false) }
+
+// runAt is RunAt, bare or not.
+func runAt(r *ac.Result, freqs []float64, bare bool) (*Result, error) {
+	res := &Result{Points: make([]Point, 0, len(freqs)), MuMin: math.Inf(1), ReMin: math.Inf(1), Bare: bare}
 	first := true
-	gains := make([]float64, 2*len(freqs)) // the points' GainDB and VoltageGainDB, in one block
+	var gains []float64 // the points' GainDB and VoltageGainDB, in one block
+	if !bare {
+		gains = make([]float64, 2*len(freqs))
+	}
 	err := r.PortsEach(freqs, func(pp ac.PortPoint) error {
 		if first {
 			first = false
@@ -156,8 +173,13 @@ func RunAt(r *ac.Result, freqs []float64) (*Result, error) {
 				return errNoPort
 			}
 		}
-		k := 2 * len(res.Points)
-		pt := point(pp, res.TwoPort, res.OnePort, &gains[k], &gains[k+1])
+		var pt Point
+		if bare {
+			pt = point(pp, res.TwoPort, res.OnePort, nil, nil)
+		} else {
+			k := 2 * len(res.Points)
+			pt = point(pp, res.TwoPort, res.OnePort, &gains[k], &gains[k+1])
+		}
 		if res.TwoPort && pt.Mu < res.MuMin {
 			res.MuMin, res.MuMinHz = pt.Mu, pp.Frequency
 		}
@@ -168,7 +190,7 @@ func RunAt(r *ac.Result, freqs []float64) (*Result, error) {
 		return nil
 	})
 	if err == errNoPort {
-		return &Result{}, nil
+		return &Result{Bare: bare}, nil
 	}
 	if err != nil {
 		return nil, err
@@ -183,7 +205,8 @@ func RunAt(r *ac.Result, freqs []float64) (*Result, error) {
 }
 
 // point turns one two-port into S-parameters and stability figures; gain
-// and vgain hold the point's GainDB and VoltageGainDB when it has them.
+// and vgain hold the point's GainDB and VoltageGainDB when it has them. With
+// gain nil (a bare sweep) the return loss and the gains are left out.
 func point(pp ac.PortPoint, two bool, one string, gain, vgain *float64) Point {
 	pt := Point{Frequency: pp.Frequency}
 	if !two {
@@ -194,21 +217,26 @@ func point(pp ac.PortPoint, two bool, one string, gain, vgain *float64) Point {
 		pt.PortZ = z
 		g := (z - complex(z0, 0)) / (z + complex(z0, 0))
 		pt.S[0][0] = g
-		pt.ReturnLossDB = returnLoss(cmplx.Abs(g))
+		if gain != nil {
+			pt.ReturnLossDB = returnLoss(cmplx.Abs(g))
+		}
 		return pt
 	}
 	pt.S = ToS(pp.Z, pp.RS, pp.RL)
 	s21 := pt.S[1][0]
 	abs11 := cmplx.Abs(pt.S[0][0])
 	pt.Mu, pt.MuPrime, pt.K, pt.Delta = figures(pt.S, abs11)
+	// The in port's impedance with the out port loaded by RL.
+	z := pp.Z
+	pt.PortZ = z[0][0] - z[0][1]*z[1][0]/(z[1][1]+complex(pp.RL, 0))
+	if gain == nil {
+		return pt
+	}
 	pt.ReturnLossDB = returnLoss(abs11)
 	if a := cmplx.Abs(s21); a > 0 {
 		*gain = 20 * math.Log10(a)
 		pt.GainDB = gain
 	}
-	// The in port's impedance with the out port loaded by RL.
-	z := pp.Z
-	pt.PortZ = z[0][0] - z[0][1]*z[1][0]/(z[1][1]+complex(pp.RL, 0))
 	if pt.GainDB != nil && pt.PortZ != 0 {
 		av := cmplx.Abs(z[1][0] * complex(pp.RL, 0) / ((z[1][1] + complex(pp.RL, 0)) * pt.PortZ))
 		if g := 20 * math.Log10(av); !math.IsInf(g, 0) && !math.IsNaN(g) {
