@@ -2,7 +2,8 @@
 // analysis of the circuit linearised at its DC operating point, at the band's
 // lowest frequency, its geometric centre and its highest frequency. It gives
 // the band figures the report prints and the impedances the reactance rules
-// judge against.
+// judge against. Plan analyses the worst-case search's cases of one circuit
+// on the numbering and branches built once from the nominal circuit.
 package ac
 
 import (
@@ -103,21 +104,40 @@ type BJT struct {
 // cannot be modelled (the loader should have refused it) or the network is
 // singular at a band frequency.
 func Analyze(c *circuit.Circuit, op *dc.Result) (*Result, error) {
+	return analyze(c, op, nil)
+}
+
+// analyze is Analyze, with the network built as a copy of like when like is
+// not nil (see build; errShape when c does not fit it).
+func analyze(c *circuit.Circuit, op *dc.Result, like *network) (*Result, error) {
 	lo, hi := c.Band[0], c.Band[1]
 	if !positive(lo) || !positive(hi) || hi < lo {
 		return nil, fmt.Errorf("band %g–%g Hz is not two positive frequencies, lowest first", lo, hi)
 	}
-	nw, err := build(c, op)
+	nw, err := build(c, op, like)
 	if err != nil {
 		return nil, err
+	}
+	var reactive, windings, bjts, fets int // the maps' sizes, so that they do not grow entry by entry
+	for _, p := range c.Parts {
+		switch p.Kind {
+		case circuit.Capacitor, circuit.Inductor:
+			reactive++
+		case circuit.Transformer:
+			windings++
+		case circuit.NPN, circuit.PNP:
+			bjts++
+		case circuit.NJFET, circuit.PJFET, circuit.DualGateMOSFET:
+			fets++
+		}
 	}
 	r := &Result{
 		HasInput: nw.hasIn,
 		HasGain:  nw.gains,
-		Parts:    map[string]*Reactive{},
-		Windings: map[string]map[string]*Winding{},
-		BJTs:     map[string]*BJT{},
-		FETs:     map[string]*FET{},
+		Parts:    make(map[string]*Reactive, reactive),
+		Windings: make(map[string]map[string]*Winding, windings),
+		BJTs:     make(map[string]*BJT, bjts),
+		FETs:     make(map[string]*FET, fets),
 		net:      nw,
 		freqs:    map[float64]*freq{},
 		cache:    map[cacheKey]complex128{},
@@ -197,6 +217,13 @@ func sq(x float64) float64 { return x * x }
 // partFigures fills Parts, Windings and BJTs.
 func (r *Result) partFigures(c *circuit.Circuit, op *dc.Result, lo, hi float64) error {
 	w := 2 * math.Pi * lo
+	// The figures are cut from one block per kind: an allocation per part
+	// was a good share of a case's.
+	reactive := make([]Reactive, 0, len(c.Parts))
+	var bjts []BJT
+	if op != nil {
+		bjts = make([]BJT, 0, len(op.BJTs))
+	}
 	for _, p := range c.Parts {
 		switch p.Kind {
 		case circuit.Capacitor, circuit.Inductor:
@@ -204,7 +231,8 @@ func (r *Result) partFigures(c *circuit.Circuit, op *dc.Result, lo, hi float64) 
 			if err != nil {
 				return fmt.Errorf("part %s: %w", p.Ref, err)
 			}
-			x := &Reactive{CircuitImpedance: cmplx.Abs(z)}
+			reactive = append(reactive, Reactive{CircuitImpedance: cmplx.Abs(z)})
+			x := &reactive[len(reactive)-1]
 			if p.Kind == circuit.Capacitor {
 				x.Reactance = 1 / (w * p.Value)
 			} else {
@@ -228,7 +256,11 @@ func (r *Result) partFigures(c *circuit.Circuit, op *dc.Result, lo, hi float64) 
 			if err != nil {
 				return fmt.Errorf("part %s: %w", p.Ref, err)
 			}
-			r.BJTs[p.Ref] = &BJT{GM: h.GM, Rpi: h.Rpi, Cpi: h.Cpi, Cmu: h.Cmu, BetaHigh: h.FT / hi}
+			if len(bjts) == cap(bjts) {
+				bjts = make([]BJT, 0, 4) // more transistors than the operating point lists
+			}
+			bjts = append(bjts, BJT{GM: h.GM, Rpi: h.Rpi, Cpi: h.Cpi, Cmu: h.Cmu, BetaHigh: h.FT / hi})
+			r.BJTs[p.Ref] = &bjts[len(bjts)-1]
 		case circuit.NJFET, circuit.PJFET, circuit.DualGateMOSFET:
 			f, err := fetModel(p, op)
 			if err != nil {

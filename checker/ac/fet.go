@@ -70,14 +70,10 @@ func (nw *network) addFET(p *circuit.Part, op *dc.Result, node func(string) int)
 	if p.Kind == circuit.DualGateMOSFET {
 		g2 = node(p.Nets[3])
 	}
-	nw.add(p.Ref, []branch{{d, s}, {g, s}, {g2, s}, {g, d}}, func(w float64, out []complex128) error {
-		copy(out, []complex128{
-			complex(j[0][0], w*m.Cds), complex(j[0][1], 0), complex(j[0][2], 0), 0,
-			complex(j[1][0], 0), complex(j[1][1], w*m.Cgs), complex(j[1][2], 0), 0,
-			complex(j[2][0], 0), complex(j[2][1], 0), complex(j[2][2], 0), 0,
-			0, 0, 0, complex(0, w*m.Cgd),
-		})
-		return nil
-	})
+	e := nw.add(p.Ref, admFET, branch{d, s}, branch{g, s}, branch{g2, s}, branch{g, d})
+	if e == nil {
+		return errShape
+	}
+	e.x = []float64{j[0][0], j[0][1], j[0][2], j[1][0], j[1][1], j[1][2], j[2][0], j[2][1], j[2][2], m.Cds, m.Cgs, m.Cgd}
 	return nil
 }

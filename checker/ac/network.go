@@ -1,6 +1,7 @@
 package ac
 
 import (
+	"errors"
 	"fmt"
 	"math"
 	"slices"
@@ -36,22 +37,71 @@ type branch struct{ from, to int }
 type element struct {
 	ref      string // part reference, "" for ports and supplies (never removed)
 	branches []branch
-	// adm writes D at angular frequency w, row-major, into d (len r², every
-	// entry written): the sweeps call it at every frequency, into storage
-	// they reuse, so it must not allocate.
-	// nil for a constant conductance, which is g: most elements are
-	// resistors, and a closure apiece would be an allocation per case.
-	adm func(w float64, d []complex128) error
-	g   complex128
+	// kind says how D depends on the frequency, from the values in g, v
+	// and x: values, not closures, so that a Plan's case writes them into a
+	// copy of the network without an allocation apiece.
+	kind admKind
+	g    complex128 // admConst: the admittance
+	v    [5]float64 // the values kind reads (see fill)
+	x    []float64  // a transformer's inductances then resistances; a FET's Jacobian then Cds, Cgs, Cgd
 }
 
-// fill writes D at angular frequency w into d.
+// admKind is the form of an element's D.
+type admKind uint8
+
+const (
+	admConst       admKind = iota // g
+	admCapacitor                  // v: C, the series loss resistance
+	admInductor                   // v: L, the series resistance
+	admPot                        // v: the two sections' resistances
+	admBJT                        // v: gπ, Cπ, Cμ, gm, rb (0: no internal base)
+	admTransformer                // v: coupling k; x: L then R of each winding
+	admFET                        // x: Jac row-major, Cds, Cgs, Cgd
+)
+
+// fill writes D at angular frequency w, row-major, into d (len r², every
+// entry written): the sweeps call it at every frequency, into storage they
+// reuse, so it must not allocate.
 func (e *element) fill(w float64, d []complex128) error {
-	if e.adm == nil {
+	v := &e.v
+	switch e.kind {
+	case admConst:
 		d[0] = e.g
-		return nil
+	case admCapacitor:
+		y := complex(0, w*v[0])
+		d[0] = y / (1 + y*complex(v[1], 0))
+	case admInductor:
+		d[0] = 1 / complex(v[1], w*v[0])
+	case admPot:
+		d[0], d[1], d[2], d[3] = complex(1/v[0], 0), 0, 0, complex(1/v[1], 0)
+	case admBJT:
+		gpi, cpi, cmu, gm, rb := v[0], v[1], v[2], v[3], v[4]
+		if rb == 0 {
+			copy(d, []complex128{
+				complex(gpi, w*cpi), 0, 0,
+				0, complex(0, w*cmu), 0,
+				complex(gm, 0), 0, 0,
+			})
+			return nil
+		}
+		copy(d, []complex128{
+			complex(gpi, w*cpi), 0, 0, 0,
+			0, complex(0, w*cmu), 0, 0,
+			complex(gm, 0), 0, 0, 0,
+			0, 0, 0, complex(1/rb, 0),
+		})
+	case admTransformer:
+		return transformerAdm(w, d, v[0], e.x)
+	case admFET:
+		j, cds, cgs, cgd := e.x[:9], e.x[9], e.x[10], e.x[11]
+		copy(d, []complex128{
+			complex(j[0], w*cds), complex(j[1], 0), complex(j[2], 0), 0,
+			complex(j[3], 0), complex(j[4], w*cgs), complex(j[5], 0), 0,
+			complex(j[6], 0), complex(j[7], 0), complex(j[8], 0), 0,
+			0, 0, 0, complex(0, w*cgd),
+		})
 	}
-	return e.adm(w, d)
+	return nil
 }
 
 // network is a circuit reduced to nodes and admittance stamps, holding copies
@@ -73,82 +123,157 @@ type network struct {
 	load   int     // index in elems of RL to gnd (-1 when the out net is AC ground)
 	gains  bool    // exactly one in and one out port
 	centre float64 // the band's geometric centre, Hz: where a part's Q applies without q_freq
+
+	// like is set while build writes a case's values into a copy of a
+	// Plan's network: add then checks each element against the one there
+	// (at index next) instead of appending.
+	like bool
+	next int
 }
 
-// build turns a circuit and its operating point into a network.
-func build(c *circuit.Circuit, op *dc.Result) (*network, error) {
-	nw := &network{parts: make(map[string]int, len(c.Parts)), source: -1, load: -1, centre: c.BandCentre(),
-		elems: make([]element, 0, len(c.Supplies)+len(c.Ports)+len(c.Parts))}
-	acGround := map[string]bool{}
+// errShape reports a circuit not wired as a Plan's (or whose values change
+// its network's shape, as a supply's impedance becoming zero would).
+var errShape = errors.New("the circuit is not wired as the plan's")
+
+// build turns a circuit and its operating point into a network. With like
+// set (a Plan's network) it builds a copy of like with c's values, sharing
+// like's numbering and branches, or fails with errShape when c's network
+// would not have like's shape.
+func build(c *circuit.Circuit, op *dc.Result, like *network) (*network, error) {
 	for _, s := range c.Supplies {
 		if !(s.Impedance >= 0) || math.IsInf(s.Impedance, 0) {
 			return nil, fmt.Errorf("supply %s: impedance %g is not a finite value ≥ 0", s.Net, s.Impedance)
 		}
-		if s.Impedance == 0 {
-			acGround[s.Net] = true
-		}
 	}
-	nw.nodes, nw.inner, nw.n = numbering(c, acGround)
-	node := func(net string) int { return nw.nodes[net] }
+	var nw *network
+	if like != nil {
+		cp := *like
+		nw = &cp
+		nw.elems = slices.Clone(like.elems)
+		nw.source, nw.load, nw.centre = -1, -1, c.BandCentre()
+		nw.hasIn, nw.hasOut, nw.like, nw.next = false, false, true, 0
+	} else {
+		nw = &network{parts: make(map[string]int, len(c.Parts)), source: -1, load: -1, centre: c.BandCentre(),
+			elems: make([]element, 0, len(c.Supplies)+len(c.Ports)+len(c.Parts))}
+		acGround := map[string]bool{}
+		for _, s := range c.Supplies {
+			if s.Impedance == 0 {
+				acGround[s.Net] = true
+			}
+		}
+		nw.nodes, nw.inner, nw.n = numbering(c, acGround)
+	}
+	err := nw.fill(c, op)
+	if err == nil && nw.like && nw.next != len(nw.elems) {
+		err = errShape
+	}
+	nw.like = false
+	if err != nil {
+		return nil, err
+	}
+	return nw, nil
+}
+
+// fill adds c's supplies, ports and parts.
+func (nw *network) fill(c *circuit.Circuit, op *dc.Result) error {
+	node := func(net string) int {
+		if i, ok := nw.nodes[net]; ok || !nw.like {
+			return i
+		}
+		return -2 // a net the plan's numbering does not know: matches no branch
+	}
 
 	for _, s := range c.Supplies {
 		if s.Impedance > 0 {
-			nw.addConductance("", []branch{{node(s.Net), ground}}, 1/s.Impedance)
+			if nw.addConductance("", 1/s.Impedance, branch{node(s.Net), ground}) == nil {
+				return errShape
+			}
 		}
 	}
 
 	ins, outs := 0, 0
 	for _, p := range c.Ports {
 		if !positive(p.Impedance) {
-			return nil, fmt.Errorf("port %s: impedance %g is not a positive finite value", p.Name, p.Impedance)
+			return fmt.Errorf("port %s: impedance %g is not a positive finite value", p.Name, p.Impedance)
 		}
-		br := []branch{{node(p.Net), ground}}
+		br := branch{node(p.Net), ground}
+		at := nw.at()
 		switch {
 		case p.Direction == "in" && ins == 0:
 			ins++
 			nw.hasIn, nw.inNode, nw.rs = true, node(p.Net), p.Impedance
 			if nw.inNode != ground {
-				nw.source = len(nw.elems)
+				nw.source = at
 			}
-			nw.addConductance("", br, 1/p.Impedance) // left out of the base matrix, see freq
+			// left out of the base matrix, see freq
 		case p.Direction == "out" && outs == 0:
 			outs++
 			nw.hasOut, nw.outNd, nw.rl = true, node(p.Net), p.Impedance
 			if nw.outNd != ground {
-				nw.load = len(nw.elems)
+				nw.load = at
 			}
-			nw.addConductance("", br, 1/p.Impedance)
 		default:
 			if p.Direction == "in" {
 				ins++
 			} else if p.Direction == "out" {
 				outs++
 			}
-			nw.addConductance("", br, 1/p.Impedance)
+		}
+		if nw.addConductance("", 1/p.Impedance, br) == nil {
+			return errShape
 		}
 	}
 	nw.gains = ins == 1 && outs == 1
 
 	for _, p := range c.Parts {
 		if err := nw.addPart(p, op, node); err != nil {
-			return nil, fmt.Errorf("part %s: %w", p.Ref, err)
+			if err == errShape {
+				return err
+			}
+			return fmt.Errorf("part %s: %w", p.Ref, err)
 		}
 	}
-	return nw, nil
+	return nil
 }
 
-// add appends an element and remembers it under its reference.
-func (nw *network) add(ref string, br []branch, adm func(float64, []complex128) error) {
+// at is the index the next element takes.
+func (nw *network) at() int {
+	if nw.like {
+		return nw.next
+	}
+	return len(nw.elems)
+}
+
+// add appends an element of the given kind over br and remembers it under
+// its reference; the caller writes its values. Building a Plan's case
+// (nw.like), it checks the element already there instead, and returns nil
+// when that one differs in reference, kind or branches. br is copied.
+func (nw *network) add(ref string, kind admKind, br ...branch) *element {
+	if nw.like {
+		if nw.next == len(nw.elems) {
+			return nil
+		}
+		e := &nw.elems[nw.next]
+		if e.ref != ref || e.kind != kind || !slices.Equal(e.branches, br) {
+			return nil
+		}
+		nw.next++
+		return e
+	}
 	if ref != "" {
 		nw.parts[ref] = len(nw.elems)
 	}
-	nw.elems = append(nw.elems, element{ref: ref, branches: br, adm: adm})
+	nw.elems = append(nw.elems, element{ref: ref, branches: slices.Clone(br), kind: kind})
+	return &nw.elems[len(nw.elems)-1]
 }
 
 // addConductance appends a constant real admittance g over one branch.
-func (nw *network) addConductance(ref string, br []branch, g float64) {
-	nw.add(ref, br, nil)
-	nw.elems[len(nw.elems)-1].g = complex(g, 0)
+func (nw *network) addConductance(ref string, g float64, br branch) *element {
+	e := nw.add(ref, admConst, br)
+	if e != nil {
+		e.g = complex(g, 0)
+	}
+	return e
 }
 
 // admBlock returns one r×r slice per element, all cut from one block, for
@@ -177,23 +302,22 @@ func (nw *network) addPart(p *circuit.Part, op *dc.Result, node func(string) int
 	if k, ok := netCount[p.Kind]; ok && len(p.Nets) != k {
 		return fmt.Errorf("%s needs %d nets, has %d", p.Kind, k, len(p.Nets))
 	}
+	var e *element
 	switch p.Kind {
 	case circuit.Resistor:
 		if !positive(p.Value) {
 			return fmt.Errorf("resistance %g is not a positive finite value", p.Value)
 		}
-		nw.addConductance(p.Ref, []branch{{node(p.Nets[0]), node(p.Nets[1])}}, 1/p.Value)
+		e = nw.addConductance(p.Ref, 1/p.Value, branch{node(p.Nets[0]), node(p.Nets[1])})
 	case circuit.Capacitor:
 		c := p.Value
 		if !positive(c) {
 			return fmt.Errorf("capacitance %g is not a positive finite value", c)
 		}
 		rq := p.QLoss(0, c, nw.centre) // the unloaded Q as a series resistance
-		nw.add(p.Ref, []branch{{node(p.Nets[0]), node(p.Nets[1])}}, func(w float64, d []complex128) error {
-			y := complex(0, w*c)
-			d[0] = y / (1 + y*complex(rq, 0))
-			return nil
-		})
+		if e = nw.add(p.Ref, admCapacitor, branch{node(p.Nets[0]), node(p.Nets[1])}); e != nil {
+			e.v = [5]float64{c, rq}
+		}
 	case circuit.Inductor:
 		l, r := p.Inductance(), p.Resistance
 		if !positive(l) {
@@ -203,10 +327,9 @@ func (nw *network) addPart(p *circuit.Part, op *dc.Result, node func(string) int
 			return fmt.Errorf("resistance %g is not a finite value ≥ 0", r)
 		}
 		r += p.QLoss(l, 0, nw.centre)
-		nw.add(p.Ref, []branch{{node(p.Nets[0]), node(p.Nets[1])}}, func(w float64, d []complex128) error {
-			d[0] = 1 / complex(r, w*l)
-			return nil
-		})
+		if e = nw.add(p.Ref, admInductor, branch{node(p.Nets[0]), node(p.Nets[1])}); e != nil {
+			e.v = [5]float64{l, r}
+		}
 	case circuit.Potentiometer:
 		if !positive(p.Value) || !(p.Setting >= 0 && p.Setting <= 1) {
 			return fmt.Errorf("value %g or setting %g out of range", p.Value, p.Setting)
@@ -214,10 +337,9 @@ func (nw *network) addPart(p *circuit.Part, op *dc.Result, node func(string) int
 		ra := math.Max(p.Value*(1-p.Setting), minSection)
 		rb := math.Max(p.Value*p.Setting, minSection)
 		a, wiper, b := node(p.Nets[0]), node(p.Nets[1]), node(p.Nets[2])
-		nw.add(p.Ref, []branch{{a, wiper}, {wiper, b}}, func(_ float64, d []complex128) error {
-			d[0], d[1], d[2], d[3] = complex(1/ra, 0), 0, 0, complex(1/rb, 0)
-			return nil
-		})
+		if e = nw.add(p.Ref, admPot, branch{a, wiper}, branch{wiper, b}); e != nil {
+			e.v = [5]float64{ra, rb}
+		}
 	case circuit.Transformer:
 		return nw.addTransformer(p, node)
 	case circuit.NPN, circuit.PNP:
@@ -226,6 +348,9 @@ func (nw *network) addPart(p *circuit.Part, op *dc.Result, node func(string) int
 		return nw.addFET(p, op, node)
 	default:
 		return fmt.Errorf("kind %q has no small-signal model", p.Kind)
+	}
+	if e == nil {
+		return errShape
 	}
 	return nil
 }
@@ -242,9 +367,10 @@ func (nw *network) addTransformer(p *circuit.Part, node func(string) int) error 
 	if !(p.Coupling > 0 && p.Coupling < 1) {
 		return fmt.Errorf("coupling %g is not inside (0, 1)", p.Coupling)
 	}
-	l := make([]float64, m)
-	r := make([]float64, m)
-	br := make([]branch, m)
+	lr := make([]float64, 2*m) // the inductances, then the resistances
+	l, r := lr[:m], lr[m:]
+	var brBuf [4]branch
+	br := brBuf[:0]
 	for i, w := range p.Windings {
 		l[i] = p.AL * w.Turns * w.Turns
 		r[i] = w.Resistance
@@ -255,29 +381,39 @@ func (nw *network) addTransformer(p *circuit.Part, node func(string) int) error 
 			return fmt.Errorf("winding %s: resistance %g is not a finite value ≥ 0", w.Name, r[i])
 		}
 		r[i] += p.QLoss(l[i], 0, nw.centre)
-		br[i] = branch{node(w.Nets[0]), node(w.Nets[1])}
+		br = append(br, branch{node(w.Nets[0]), node(w.Nets[1])})
 	}
-	k := p.Coupling
-	nw.add(p.Ref, br, func(w float64, d []complex128) error {
-		var zBuf [16]complex128 // up to four windings without allocating
-		z := zBuf[:0]
-		if m*m > len(zBuf) {
-			z = make([]complex128, 0, m*m)
-		}
-		z = z[:m*m]
-		for i := range m {
-			for j := range m {
-				lij := k * math.Sqrt(l[i]*l[j])
-				if i == j {
-					lij = l[i]
-				}
-				z[i*m+j] = complex(0, w*lij)
-			}
-			z[i*m+i] += complex(r[i], 0)
-		}
-		return invertInto(d, z, m)
-	})
+	e := nw.add(p.Ref, admTransformer, br...)
+	if e == nil {
+		return errShape
+	}
+	e.v[0], e.x = p.Coupling, lr
 	return nil
+}
+
+// transformerAdm writes a transformer's D at w: Z inverted (see
+// addTransformer), from the coupling k and the windings' inductances and
+// resistances lr.
+func transformerAdm(w float64, d []complex128, k float64, lr []float64) error {
+	m := len(lr) / 2
+	l, r := lr[:m], lr[m:]
+	var zBuf [16]complex128 // up to four windings without allocating
+	z := zBuf[:0]
+	if m*m > len(zBuf) {
+		z = make([]complex128, 0, m*m)
+	}
+	z = z[:m*m]
+	for i := range m {
+		for j := range m {
+			lij := k * math.Sqrt(l[i]*l[j])
+			if i == j {
+				lij = l[i]
+			}
+			z[i*m+j] = complex(0, w*lij)
+		}
+		z[i*m+i] += complex(r[i], 0)
+	}
+	return invertInto(d, z, m)
 }
 
 // addBJT stamps the hybrid-π model at the operating point: rπ and Cπ from
@@ -292,31 +428,21 @@ func (nw *network) addBJT(p *circuit.Part, op *dc.Result, node func(string) int,
 	}
 	c, b, e := node(p.Nets[0]), node(p.Nets[1]), node(p.Nets[2])
 	rb := p.BJT.RB
+	var el *element
 	if rb == 0 {
-		nw.add(p.Ref, []branch{{b, e}, {b, c}, {c, e}}, func(w float64, d []complex128) error {
-			copy(d, []complex128{
-				complex(h.gpi, w*h.Cpi), 0, 0,
-				0, complex(0, w*h.Cmu), 0,
-				complex(h.GM, 0), 0, 0,
-			})
-			return nil
-		})
-		return nil
+		el = nw.add(p.Ref, admBJT, branch{b, e}, branch{b, c}, branch{c, e})
+	} else {
+		bi, ok := inner[p.Ref]
+		if !positive(rb) || !ok {
+			return fmt.Errorf("base resistance rb %g is not a finite value ≥ 0", rb)
+		}
+		// Branches b'–e, b'–c, c–e as above, and b–b' for rb.
+		el = nw.add(p.Ref, admBJT, branch{bi, e}, branch{bi, c}, branch{c, e}, branch{b, bi})
 	}
-	bi, ok := inner[p.Ref]
-	if !positive(rb) || !ok {
-		return fmt.Errorf("base resistance rb %g is not a finite value ≥ 0", rb)
+	if el == nil {
+		return errShape
 	}
-	// Branches b'–e, b'–c, c–e as above, and b–b' for rb.
-	nw.add(p.Ref, []branch{{bi, e}, {bi, c}, {c, e}, {b, bi}}, func(w float64, d []complex128) error {
-		copy(d, []complex128{
-			complex(h.gpi, w*h.Cpi), 0, 0, 0,
-			0, complex(0, w*h.Cmu), 0, 0,
-			complex(h.GM, 0), 0, 0, 0,
-			0, 0, 0, complex(1/rb, 0),
-		})
-		return nil
-	})
+	el.v = [5]float64{h.gpi, h.Cpi, h.Cmu, h.GM, rb}
 	return nil
 }
 
@@ -412,15 +538,13 @@ func span(lo, hi []int, br []branch, d []complex128) {
 
 // refs returns the sorted, de-duplicated element indices of the named parts.
 func (nw *network) refs(removed []string) ([]int, error) {
-	seen := map[int]bool{}
-	var idx []int
+	idx := make([]int, 0, len(removed)) // a query removes a part or two: a linear search beats a set
 	for _, ref := range removed {
 		i, ok := nw.parts[ref]
 		if !ok {
 			return nil, fmt.Errorf("no part %q in the circuit", ref)
 		}
-		if !seen[i] {
-			seen[i] = true
+		if !slices.Contains(idx, i) {
 			idx = append(idx, i)
 		}
 	}

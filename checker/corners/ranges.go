@@ -31,7 +31,7 @@ func Ranges(c *circuit.Circuit, topo *topology.Topology, nominal *analysis.Case,
 	for i, p := range box {
 		cc := variant(c)
 		p.set(cc, p.Hi)
-		hi := q(analysis.Run(cc, topo))
+		hi := q(nominal.Vary(cc))
 		widen(hi)
 		for k, x := range hi {
 			if d, ok := dirs[k]; ok && rel(x, nom[k]) > moveTol {
@@ -61,7 +61,7 @@ func Ranges(c *circuit.Circuit, topo *topology.Topology, nominal *analysis.Case,
 						p.set(cc, p.Lo)
 					}
 				}
-				vals = q(analysis.Run(cc, topo))
+				vals = q(nominal.Vary(cc))
 				done[sig] = vals
 			}
 			if x, ok := vals[k]; ok {

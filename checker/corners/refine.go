@@ -87,7 +87,7 @@ func refine(c *circuit.Circuit, topo *topology.Topology, nominal *analysis.Case,
 			for _, r := range where[v] {
 				ids[r.w.key.Rule] = true
 			}
-			return engine.MeasureAppend(buf, analysis.Run(at(c, box, cases[v]), topo), nominal, only(cfg, ids))
+			return engine.MeasureAppend(buf, nominal.Vary(at(c, box, cases[v])), nominal, only(cfg, ids))
 		}, func(v int, fs []engine.Finding) {
 			got := make(map[engine.Key]engine.Finding, len(want))
 			for j := range fs {
@@ -322,7 +322,7 @@ func settle(c *circuit.Circuit, topo *topology.Topology, nominal *analysis.Case,
 	}
 	return inOrder(len(sigs), func(v int, buf []engine.Finding) ([]engine.Finding, error) {
 		keys := byCase[sigs[v]]
-		return engine.MeasureAppend(buf, analysis.Run(at(c, box, items[keys[0]].state), topo), nominal, only(cfg, rulesOf(keys)))
+		return engine.MeasureAppend(buf, nominal.Vary(at(c, box, items[keys[0]].state)), nominal, only(cfg, rulesOf(keys)))
 	}, func(v int, fs []engine.Finding) {
 		keys := byCase[sigs[v]]
 		state := items[keys[0]].state

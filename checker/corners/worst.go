@@ -71,7 +71,7 @@ func search(c *circuit.Circuit, topo *topology.Topology, nominal *analysis.Case,
 	err = inOrder(len(box), func(i int, buf []engine.Finding) ([]engine.Finding, error) {
 		cc := variant(c)
 		box[i].set(cc, box[i].Hi)
-		return engine.MeasureAppend(buf, analysis.Run(cc, topo), nominal, cfg)
+		return engine.MeasureAppend(buf, nominal.Vary(cc), nominal, cfg)
 	}, func(i int, hi []engine.Finding) {
 		p := box[i]
 		var corner map[string]float64 // shared by the items whose worst this case is
@@ -119,7 +119,7 @@ func search(c *circuit.Circuit, topo *topology.Topology, nominal *analysis.Case,
 	}
 	err = inOrder(len(vorder), func(v int, buf []engine.Finding) ([]engine.Finding, error) {
 		keys := vertices[vorder[v]]
-		return engine.MeasureAppend(buf, analysis.Run(at(c, box, items[keys[0]].dirs), topo), nominal, only(cfg, rulesOf(keys)))
+		return engine.MeasureAppend(buf, nominal.Vary(at(c, box, items[keys[0]].dirs)), nominal, only(cfg, rulesOf(keys)))
 	}, func(v int, vf []engine.Finding) {
 		keys := vertices[vorder[v]]
 		dirs := items[keys[0]].dirs

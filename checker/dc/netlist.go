@@ -40,6 +40,7 @@ const gnd = -1
 type conductance struct {
 	a, b int
 	g    float64
+	seq  int // place among the conductances and branches in compile order (refill checks it)
 }
 
 // source is a branch whose current is an unknown of its own (number row),
@@ -53,6 +54,7 @@ type source struct {
 	e    float64 // V at full source strength (0 for a short)
 	r    float64 // Ω, series resistance (0 for an ideal source or short)
 	row  int
+	seq  int // as conductance.seq
 }
 
 // branchBelow is the resistance under which a part becomes a branch.
@@ -99,6 +101,18 @@ type netlist struct {
 	// "REF:a" or "REF:b" for a potentiometer section, or "supply NET".
 	branchOwner []string
 	branchOf    map[string]int // owner → unknown index of its current
+	// adds counts the conductances and branches compile added (their seq).
+	adds int
+	// pinned: a transistor junction lies on a loop of supplies and
+	// zero-resistance parts, so that the supplies' values decide whether
+	// it is overdriven (forcedJunction); a Plan then compiles every case.
+	pinned bool
+}
+
+// addCond appends a conductance g between a and b.
+func (nl *netlist) addCond(a, b int, g float64) {
+	nl.conds = append(nl.conds, conductance{a, b, g, nl.adds})
+	nl.adds++
 }
 
 func invalid(part, format string, args ...any) *Failure {
@@ -142,7 +156,8 @@ func compile(c *circuit.Circuit) (*netlist, *Failure) {
 	shorts := newShortFinder(nl.nodes)
 	addBranch := func(p, m int, e, r float64, owner string) {
 		row := nl.nodes + len(nl.sources)
-		nl.sources = append(nl.sources, source{p: p, m: m, e: e, r: r, row: row})
+		nl.sources = append(nl.sources, source{p: p, m: m, e: e, r: r, row: row, seq: nl.adds})
+		nl.adds++
 		nl.branchOwner = append(nl.branchOwner, owner)
 		nl.branchOf[owner] = row
 	}
@@ -152,7 +167,7 @@ func compile(c *circuit.Circuit) (*netlist, *Failure) {
 			addBranch(a, b, 0, r, owner)
 			return
 		}
-		nl.conds = append(nl.conds, conductance{a, b, 1 / r})
+		nl.addCond(a, b, 1/r)
 	}
 
 	for _, s := range c.Supplies {
@@ -175,7 +190,7 @@ func compile(c *circuit.Circuit) (*netlist, *Failure) {
 			addBranch(n, gnd, s.Volts, s.Impedance, owner)
 			continue
 		}
-		nl.conds = append(nl.conds, conductance{n, gnd, 1 / s.Impedance})
+		nl.addCond(n, gnd, 1/s.Impedance)
 		if n != gnd {
 			nl.nortons = append(nl.nortons, norton{n, s.Volts / s.Impedance})
 		}
@@ -187,7 +202,7 @@ func compile(c *circuit.Circuit) (*netlist, *Failure) {
 		if !positive(p.Impedance) {
 			return nil, &Failure{Reason: fmt.Sprintf("port %s: impedance %g Ω", p.Name, p.Impedance), Net: p.Net, Cause: Invalid}
 		}
-		nl.conds = append(nl.conds, conductance{node(p.Net), gnd, 1 / p.Impedance})
+		nl.addCond(node(p.Net), gnd, 1/p.Impedance)
 	}
 	for _, p := range c.Parts {
 		if p == nil {
@@ -509,6 +524,7 @@ func (s *shortFinder) forcedJunction(nl *netlist) *Failure {
 			if s.find(b) != s.find(j.other) {
 				continue
 			}
+			nl.pinned = true
 			if v := q.pol * (pot[b] - pot[j.other]); v > expMax*nl.vt {
 				return &Failure{Cause: Overdriven, Part: q.ref, Parts: []string{q.ref},
 					Reason: fmt.Sprintf("the %s junction of %s is held forward at %.3g V by supplies and zero-resistance parts alone, "+

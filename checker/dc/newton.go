@@ -132,7 +132,16 @@ func newSolver(nl *netlist) *solver {
 			s.jac[k][e] = s.m.slot(rc[0], rc[1])
 		}
 	}
+	s.load()
+	return s
+}
 
+// load writes the netlist's linear part into base and bsrc, for a new
+// solver or after a Plan wrote a case's values into the netlist.
+func (s *solver) load() {
+	nl := s.nl
+	clear(s.base)
+	clear(s.bsrc)
 	add := func(i, j int, v float64) {
 		if i != gnd && j != gnd {
 			s.base[s.m.slot(i, j)] += v
@@ -158,7 +167,6 @@ func newSolver(nl *netlist) *solver {
 	for _, no := range nl.nortons {
 		s.bsrc[no.n] += no.i
 	}
-	return s
 }
 
 // factorSolve factorises the iteration's matrix and overwrites s.rhs with

@@ -35,6 +35,12 @@ func Solve(c *circuit.Circuit) (*Result, error) {
 		return nl.result(c, nil, 0, "newton")
 	}
 	s := newSolver(nl)
+	o, method := s.cold()
+	return s.finish(c, o, method)
+}
+
+// cold runs Newton from the solver's zero state, then the fall-backs.
+func (s *solver) cold() (outcome, string) {
 	o := s.newton(1, 0, maxNewton, true)
 	method := "newton"
 	if o == diverged {
@@ -46,6 +52,12 @@ func Solve(c *circuit.Circuit) (*Result, error) {
 		method = "source-stepping"
 		o = s.sourceStepping()
 	}
+	return o, method
+}
+
+// finish turns the outcome of the solve into Solve's answer.
+func (s *solver) finish(c *circuit.Circuit, o outcome, method string) (*Result, error) {
+	nl := s.nl
 	switch o {
 	case singular:
 		if f := nl.overdriven(s.x); f != nil {
@@ -184,6 +196,10 @@ func (nl *netlist) result(c *circuit.Circuit, x []float64, iters int, method str
 		}
 		return x[nl.index[net]]
 	}
+	// Every part's and transistor's figures are cut from one block each: a
+	// map entry apiece was most of a case's allocations.
+	parts := make([]Part, len(c.Parts))
+	bjts := make([]BJT, len(nl.bjts))
 	r.V[circuit.Gnd] = 0
 	for i, name := range nl.names[:nl.nets] {
 		r.V[name] = x[i]
@@ -207,18 +223,22 @@ func (nl *netlist) result(c *circuit.Circuit, x []float64, iters int, method str
 		}
 	}
 	k := 0 // transistors in compile order
-	for _, p := range c.Parts {
+	for pi, p := range c.Parts {
 		if p == nil {
 			continue
+		}
+		part := func(x Part) {
+			parts[pi] = x
+			r.Parts[p.Ref] = &parts[pi]
 		}
 		switch p.Kind {
 		case circuit.Resistor:
 			i := through(p.Ref, p.Nets[0], p.Nets[1], p.Value)
-			r.Parts[p.Ref] = &Part{Current: i, Power: i * i * p.Value}
+			part(Part{Current: i, Power: i * i * p.Value})
 		case circuit.Capacitor:
-			r.Parts[p.Ref] = &Part{Voltage: math.Abs(v(p.Nets[0]) - v(p.Nets[1]))}
+			part(Part{Voltage: math.Abs(v(p.Nets[0]) - v(p.Nets[1]))})
 		case circuit.Inductor:
-			r.Parts[p.Ref] = &Part{Current: through(p.Ref, p.Nets[0], p.Nets[1], p.Resistance)}
+			part(Part{Current: through(p.Ref, p.Nets[0], p.Nets[1], p.Resistance)})
 		case circuit.Transformer:
 			w := make(map[string]float64, len(p.Windings))
 			for _, wd := range p.Windings {
@@ -226,18 +246,19 @@ func (nl *netlist) result(c *circuit.Circuit, x []float64, iters int, method str
 					w[wd.Name] = through(p.Ref+"."+wd.Name, wd.Nets[0], wd.Nets[1], wd.Resistance)
 				}
 			}
-			r.Parts[p.Ref] = &Part{Windings: w}
+			part(Part{Windings: w})
 		case circuit.Potentiometer:
 			ra, rb, _ := potSections(p)
 			ia := through(p.Ref+":a", p.Nets[0], p.Nets[1], ra)
 			ib := through(p.Ref+":b", p.Nets[1], p.Nets[2], rb)
 			sa := Section{R: ra, Current: ia, Power: ia * ia * ra}
 			sb := Section{R: rb, Current: ib, Power: ib * ib * rb}
-			r.Parts[p.Ref] = &Part{Power: sa.Power + sb.Power, Sections: [2]Section{sa, sb}}
+			part(Part{Power: sa.Power + sb.Power, Sections: [2]Section{sa, sb}})
 		case circuit.NPN, circuit.PNP:
 			q := &nl.bjts[k]
+			bjts[k] = q.operatingPoint(volt(x, q.c), volt(x, q.b), volt(x, q.bp), volt(x, q.e), nl.vt)
+			r.BJTs[p.Ref] = &bjts[k]
 			k++
-			r.BJTs[p.Ref] = q.operatingPoint(volt(x, q.c), volt(x, q.b), volt(x, q.bp), volt(x, q.e), nl.vt)
 		case circuit.NJFET, circuit.PJFET, circuit.DualGateMOSFET:
 			nl.fetResult(r, p.Ref, x)
 		}
@@ -251,11 +272,11 @@ func (nl *netlist) result(c *circuit.Circuit, x []float64, iters int, method str
 // operatingPoint evaluates the model at the solved voltages: the currents
 // at the junctions (from the internal base vb), VBE between the pins (from
 // the base pin's vbp), so that it includes the drop IB·rb.
-func (q *bjt) operatingPoint(vc, vb, vbp, ve, vt float64) *BJT {
+func (q *bjt) operatingPoint(vc, vb, vbp, ve, vt float64) BJT {
 	vbe := q.pol * (vb - ve)
 	vbc := q.pol * (vb - vc)
 	p := q.eval(vbe, vbc, vt)
-	o := &BJT{
+	o := BJT{
 		ICf: p.ic, IBf: p.ib, VBEf: q.pol * (vbp - ve), VCEf: vbe - vbc, VBJf: vbe,
 		HFE: q.betaF, IS: q.is,
 	}

@@ -35,17 +35,31 @@ func chain(parts int) string {
 }
 
 // BenchmarkStability times the pole search and the wide sweep of one
-// analysed case on 10-, 30- and 100-part circuits.
+// analysed case on 10-, 30-, 100- and 300-part circuits. The pole search is
+// timed past the memo (Find would answer every loop after the first from
+// it): "poles" is the solver, "poles-reference" the solver before its
+// workspace was reused, in the same run.
 func BenchmarkStability(b *testing.B) {
-	for _, n := range []int{10, 30, 100} {
+	for _, n := range []int{10, 30, 100, 300} {
 		cs := analyse(b, chain(n), nil)
-		b.Run(fmt.Sprintf("poles/%d-parts", len(cs.Circuit.Parts)), func(b *testing.B) {
-			for b.Loop() {
-				if _, err := Find(cs.Circuit, cs.AC); err != nil {
-					b.Fatal(err)
+		pen, err := build(cs.Circuit, cs.AC)
+		if err != nil {
+			b.Fatal(err)
+		}
+		fLo, fHi := span(cs.Circuit)
+		for _, v := range []struct {
+			name  string
+			solve func(*pencil, float64, float64) (*Result, error)
+		}{{"poles", findPoles}, {"poles-reference", referencePoles}} {
+			b.Run(fmt.Sprintf("%s/%d-parts", v.name, len(cs.Circuit.Parts)), func(b *testing.B) {
+				for b.Loop() {
+					if _, err := v.solve(pen, fLo, fHi); err != nil {
+						b.Fatal(err)
+					}
 				}
-			}
-		})
+				b.ReportMetric(float64(pen.n), "unknowns")
+			})
+		}
 		b.Run(fmt.Sprintf("sweep/%d-parts", len(cs.Circuit.Parts)), func(b *testing.B) {
 			for b.Loop() {
 				if _, err := sweep.Run(cs.Circuit, cs.AC); err != nil {

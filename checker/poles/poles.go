@@ -22,9 +22,10 @@
 // placed at the geometric middle of the frequencies of interest, so that the
 // poles from a coupling capacitor's hertz to a transistor's gigahertz are all
 // resolved; s is scaled by the same angular frequency so that the matrix is
-// of order one. mat.Eigen (LAPACK's dgeev, with balancing) then gives all the
-// eigenvalues of the dense real A in O(n³): tens of microseconds for the tens
-// of unknowns of a hand-designed stage. Eigenvectors are computed only for the
+// of order one. LAPACK's dgeev (with balancing, as mat.Eigen calls it) then
+// gives all the eigenvalues of the dense real A in O(n³): tens of microseconds
+// for the tens of unknowns of a hand-designed stage; its storage is reused
+// from solve to solve. Eigenvectors are computed only for the
 // poles whose participation is asked for.
 package poles
 
@@ -38,6 +39,9 @@ import (
 	"sort"
 	"sync"
 
+	"gonum.org/v1/gonum/blas/blas64"
+	"gonum.org/v1/gonum/lapack"
+	"gonum.org/v1/gonum/lapack/lapack64"
 	"gonum.org/v1/gonum/mat"
 
 	"headroom/checker/ac"
@@ -130,7 +134,7 @@ func findPoles(pen *pencil, fLo, fHi float64) (*Result, error) {
 		return out, nil
 	}
 	w0 := 2 * math.Pi * math.Sqrt(fLo*fHi)
-	lams, _, sigma, err := pen.shiftInvert(w0, false)
+	lams, sigma, err := pen.eigenvalues(w0)
 	if err != nil {
 		return nil, err
 	}
@@ -277,12 +281,14 @@ func build(c *circuit.Circuit, res *ac.Result) (*pencil, error) {
 
 func positive(x float64) bool { return x > 0 && !math.IsInf(x, 0) }
 
+// netsOf is how many nets each two- and three-terminal kind must have.
+var netsOf = map[circuit.Kind]int{circuit.Resistor: 2, circuit.Capacitor: 2, circuit.Inductor: 2,
+	circuit.Potentiometer: 3, circuit.NPN: 3, circuit.PNP: 3}
+
 // part stamps one part.
 func (p *pencil) part(part *circuit.Part, res *ac.Result, nd func(string) int) error {
 	ref := part.Ref
-	need := map[circuit.Kind]int{circuit.Resistor: 2, circuit.Capacitor: 2, circuit.Inductor: 2,
-		circuit.Potentiometer: 3, circuit.NPN: 3, circuit.PNP: 3}
-	if k, ok := need[part.Kind]; ok && len(part.Nets) != k {
+	if k, ok := netsOf[part.Kind]; ok && len(part.Nets) != k {
 		return fmt.Errorf("%s needs %d nets, has %d", part.Kind, k, len(part.Nets))
 	}
 	switch part.Kind {
@@ -432,44 +438,95 @@ func (p *pencil) fet(part *circuit.Part, res *ac.Result, nd func(string) int) er
 	return nil
 }
 
-// dense returns G and C (C scaled by w0) as dense matrices.
-func (p *pencil) dense(w0 float64) (*mat.Dense, *mat.Dense) {
-	g, c := mat.NewDense(p.n, p.n, nil), mat.NewDense(p.n, p.n, nil)
-	for _, e := range p.entries {
-		g.Set(e.i, e.j, g.At(e.i, e.j)+e.g)
-		c.Set(e.i, e.j, c.At(e.i, e.j)+e.c*w0)
-	}
-	return g, c
+// workspace holds the dense matrices of one eigen-solve, reused from solve to
+// solve (a large circuit's search solves hundreds of pencils of one size, and
+// each solve would otherwise allocate six n×n matrices).
+type workspace struct {
+	g, c, m, a []float64
+	lu         mat.LU
+	wr, wi     []float64
+	work       []float64
 }
 
-// shiftInvert forms A = (G + σ·w0·C)⁻¹·w0·C (or its transpose's analogue,
+var workspaces = sync.Pool{New: func() any { return new(workspace) }}
+
+// grow returns buf resized to n values (contents undefined).
+func grow(buf []float64, n int) []float64 {
+	if cap(buf) < n {
+		return make([]float64, n)
+	}
+	return buf[:n]
+}
+
+// dense returns G and C (C scaled by w0), or their transposes, as dense
+// matrices over the workspace's storage. Entries are summed in the order the
+// pencil lists them.
+func (p *pencil) dense(w0 float64, transpose bool, ws *workspace) (*mat.Dense, *mat.Dense) {
+	n := p.n
+	ws.g, ws.c = grow(ws.g, n*n), grow(ws.c, n*n)
+	clear(ws.g)
+	clear(ws.c)
+	for _, e := range p.entries {
+		k := e.i*n + e.j
+		if transpose {
+			k = e.j*n + e.i
+		}
+		ws.g[k] += e.g
+		ws.c[k] += e.c * w0
+	}
+	return mat.NewDense(n, n, ws.g), mat.NewDense(n, n, ws.c)
+}
+
+// shifted forms A = (G + σ·w0·C)⁻¹·w0·C (or its transpose's analogue,
 // (G + σ·w0·C)⁻ᵀ·w0·Cᵀ, whose right eigenvectors are the pencil's left ones)
-// and returns its eigenvalues, with A, and σ. A shift that makes M badly
+// in the workspace and returns it with σ. A shift that makes M badly
 // conditioned (a real pole within rounding of it) is moved and tried again.
-func (p *pencil) shiftInvert(w0 float64, transpose bool) ([]complex128, *mat.Dense, float64, error) {
-	g, c := p.dense(w0)
-	if transpose {
-		g, c = mat.DenseCopyOf(g.T()), mat.DenseCopyOf(c.T())
-	}
-	var m, a mat.Dense
+func (p *pencil) shifted(w0 float64, transpose bool, ws *workspace) (*mat.Dense, float64, error) {
+	n := p.n
+	g, c := p.dense(w0, transpose, ws)
+	ws.m, ws.a = grow(ws.m, n*n), grow(ws.a, n*n)
 	for _, sigma := range []float64{1, 1.7, 0.43, 3.1, 0.19} {
+		m := mat.NewDense(n, n, ws.m)
 		m.Scale(sigma, c)
-		m.Add(&m, g)
-		var lu mat.LU
-		lu.Factorize(&m)
-		if cond := lu.Cond(); cond > 1e14 || math.IsNaN(cond) || math.IsInf(cond, 0) {
+		m.Add(m, g)
+		ws.lu.Factorize(m)
+		if cond := ws.lu.Cond(); cond > 1e14 || math.IsNaN(cond) || math.IsInf(cond, 0) {
 			continue
 		}
-		if err := lu.SolveTo(&a, false, c); err != nil {
+		a := mat.NewDense(n, n, ws.a)
+		if err := ws.lu.SolveTo(a, false, c); err != nil {
 			continue
 		}
-		var eig mat.Eigen
-		if !eig.Factorize(&a, mat.EigenNone) {
-			return nil, nil, 0, errors.New("the eigenvalue iteration did not converge")
-		}
-		return eig.Values(nil), &a, sigma, nil
+		return a, sigma, nil
 	}
-	return nil, nil, 0, errors.New("the nodal pencil is singular at every trial shift")
+	return nil, 0, errors.New("the nodal pencil is singular at every trial shift")
+}
+
+// eigenvalues returns the eigenvalues of the shifted-and-inverted pencil and
+// σ. It makes the LAPACK call mat.Eigen makes for eigenvalues only (dgeev
+// with balancing and the optimal workspace), on the workspace's storage, so
+// the values are the same to the last bit.
+func (p *pencil) eigenvalues(w0 float64) ([]complex128, float64, error) {
+	ws := workspaces.Get().(*workspace)
+	defer workspaces.Put(ws)
+	a, sigma, err := p.shifted(w0, false, ws)
+	if err != nil {
+		return nil, 0, err
+	}
+	n := p.n
+	ws.wr, ws.wi = grow(ws.wr, n), grow(ws.wi, n)
+	raw := a.RawMatrix()
+	query := []float64{0}
+	lapack64.Geev(lapack.LeftEVNone, lapack.RightEVNone, raw, ws.wr, ws.wi, blas64.General{}, blas64.General{}, query, -1)
+	ws.work = grow(ws.work, int(query[0]))
+	if lapack64.Geev(lapack.LeftEVNone, lapack.RightEVNone, raw, ws.wr, ws.wi, blas64.General{}, blas64.General{}, ws.work, len(ws.work)) != 0 {
+		return nil, 0, errors.New("the eigenvalue iteration did not converge")
+	}
+	vals := make([]complex128, n)
+	for i := range vals {
+		vals[i] = complex(ws.wr[i], ws.wi[i])
+	}
+	return vals, sigma, nil
 }
 
 // Participation ranks the parts by how much the pole moves when each part's
@@ -538,7 +595,8 @@ func (p *pencil) nullVector(s complex128, transpose bool) ([]complex128, error) 
 	if w0 == 0 {
 		w0 = 1
 	}
-	_, a, sigma, err := p.shiftInvert(w0, transpose)
+	ws := new(workspace) // the vectors' solve keeps a: not pooled
+	a, sigma, err := p.shifted(w0, transpose, ws)
 	if err != nil {
 		return nil, err
 	}
