@@ -360,3 +360,18 @@ func TestDivisorMatchesDivision(t *testing.T) {
 		t.Errorf("%d of 200000 quotients left to the operator", fixed)
 	}
 }
+
+// TestFinite: finite agrees with math/cmplx on every mix of ordinary,
+// zero, subnormal, huge, infinite and NaN parts.
+func TestFinite(t *testing.T) {
+	parts := []float64{0, math.Copysign(0, -1), 1, -2.5, 5e-324, math.MaxFloat64, -math.MaxFloat64,
+		math.Inf(1), math.Inf(-1), math.NaN()}
+	for _, re := range parts {
+		for _, im := range parts {
+			z := complex(re, im)
+			if want := !cmplx.IsNaN(z) && !cmplx.IsInf(z); finite(z) != want {
+				t.Errorf("finite(%v) = %v, want %v", z, finite(z), want)
+			}
+		}
+	}
+}

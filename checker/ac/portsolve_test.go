@@ -139,6 +139,7 @@ func TestPortsEachMatchesFresh(t *testing.T) {
 	if compared < 20000 {
 		t.Errorf("only %d points compared", compared)
 	}
+	t.Logf("%d points compared", compared)
 }
 
 // TestPortSolverWidens: an entry that was zero where the spans were drawn
