@@ -75,10 +75,7 @@ func runStabilityUnconditional(p *engine.Pass) error {
 			}
 			return msg
 		}
-		judge = func(cs *analysis.Case) bool {
-			s, ok := sweepOf(cs)
-			return ok && s.TwoPort && s.MuMin >= minMu
-		}
+		judge = func(cs *analysis.Case) bool { return sweepHolds(cs, true, minMu) }
 	} else {
 		port := c.InPort()
 		if sw.OnePort == "out" {
@@ -96,10 +93,7 @@ func runStabilityUnconditional(p *engine.Pass) error {
 			}
 			return msg
 		}
-		judge = func(cs *analysis.Case) bool {
-			s, ok := sweepOf(cs)
-			return ok && s.OnePort != "" && s.ReMin >= 0
-		}
+		judge = func(cs *analysis.Case) bool { return sweepHolds(cs, false, 0) }
 	}
 	if engine.Fails(f.Measured, f.Limit, f.Comparison) {
 		f.FixLater = func() (string, []engine.Change) {

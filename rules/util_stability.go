@@ -1,10 +1,12 @@
 package rules
 
 import (
+	"errors"
 	"fmt"
 	"math"
 	"strings"
 
+	"headroom/checker/ac"
 	"headroom/checker/analysis"
 	"headroom/checker/circuit"
 	"headroom/checker/engine"
@@ -169,8 +171,24 @@ func stabilityFix(p *engine.Pass, order []*circuit.Part, judge stableJudge, marg
 	// A candidate must also keep every transistor's collector current
 	// within maxBiasShift of the case's: a fix that moves the bias trades
 	// one problem for another.
-	ok := func(d *circuit.Circuit) bool {
-		cs := analysis.Run(d, nil)
+	// Each candidate is analysed once: the one found is stated with the
+	// case its search analysed.
+	type candidate struct {
+		q       string
+		stopper bool
+		r       float64
+	}
+	analysed := map[candidate]*analysis.Case{}
+	analyse := func(k candidate, d *circuit.Circuit) *analysis.Case {
+		cs, ok := analysed[k]
+		if !ok {
+			cs = analysis.Run(d, nil)
+			analysed[k] = cs
+		}
+		return cs
+	}
+	ok := func(k candidate, d *circuit.Circuit) bool {
+		cs := analyse(k, d)
 		return cs.AC != nil && judge(cs) && biasKept(p.A, cs)
 	}
 	type option struct {
@@ -183,17 +201,18 @@ func stabilityFix(p *engine.Pass, order []*circuit.Part, judge stableJudge, marg
 			continue
 		}
 		var opts []option
-		stop := func(r float64) bool { d, _, _ := withStopper(c, q.Ref, r); return ok(d) }
+		stop := func(r float64) bool { d, _, _ := withStopper(c, q.Ref, r); return ok(candidate{q.Ref, true, r}, d) }
 		if r, found := firstPassing(stopperValues, stop, func(r float64) float64 { return margin(r, true) }); found {
 			d, ref, net := withStopper(c, q.Ref, r)
-			text, cost := gainCost(base, d)
+			text, cost := gainCost(base, analyse(candidate{q.Ref, true, r}, d))
 			opts = append(opts, option{fmt.Sprintf("%s base stopper %s in series with %s's base (from net %s to %s's base pin, on a new net %s), %s",
 				withArticle(quantity.Approx(r, quantity.Ohm)), ref, q.Ref, q.Nets[1], q.Ref, net, text), cost})
 		}
 		if a, b, name, found := collectorLoad(c, q); found {
-			swamp := func(r float64) bool { return ok(withSwamp(c, a, b, r)) }
+			swamp := func(r float64) bool { return ok(candidate{q.Ref, false, r}, withSwamp(c, a, b, r)) }
 			if r, found := firstPassing(swampValues, swamp, func(r float64) float64 { return margin(r, false) }); found {
-				text, cost := gainCost(base, withSwamp(c, a, b, r))
+				d := withSwamp(c, a, b, r)
+				text, cost := gainCost(base, analyse(candidate{q.Ref, false, r}, d))
 				opts = append(opts, option{fmt.Sprintf("%s swamping resistor across %s's collector load %s (between nets %s and %s), %s",
 					withArticle(quantity.Approx(r, quantity.Ohm)), q.Ref, name, a, b, text), cost})
 			}
@@ -284,8 +303,8 @@ func bandGain(cs *analysis.Case) *[2]float64 {
 
 // gainCost states what a fix costs in gain at the band's centre, and the
 // cost in dB (0 when it cannot be stated).
-func gainCost(before *[2]float64, c *circuit.Circuit) (string, float64) {
-	after := bandGain(analysis.Run(c, nil))
+func gainCost(before *[2]float64, cs *analysis.Case) (string, float64) {
+	after := bandGain(cs)
 	if before == nil || after == nil {
 		return "whose cost in gain is not stated: the circuit has no in and out port", 0
 	}
@@ -299,6 +318,53 @@ func gainCost(before *[2]float64, c *circuit.Circuit) (string, float64) {
 	}
 	return fmt.Sprintf("which costs %s dB of gain at %s", quantity.Approx(d, quantity.Ratio), at), d
 }
+
+// sweepHolds is what a stability fix's judge asks of the case's wide sweep
+// (sweep.Run over sweep.Grid): whether the sweep works, has the form asked
+// for (the two-port form, or the one-port form), and its least figure (μ, or
+// Re Z looking into the one port) is at least floor. It computes each point
+// as sweep.Run does and stops at the first point that settles the answer,
+// so a candidate the search refuses costs the points up to its first failing
+// one, not the whole sweep (TestSweepHoldsIsSweepJudge compares it with the
+// full sweep on every candidate of the generated corpus).
+func sweepHolds(cs *analysis.Case, twoPort bool, floor float64) bool {
+	least, first := math.Inf(1), true
+	err := cs.AC.PortsEach(sweep.Grid(cs.Circuit), func(pp ac.PortPoint) error {
+		if first {
+			first = false
+			two := pp.HasIn && pp.HasOut
+			if two != twoPort || !pp.HasIn && !pp.HasOut {
+				return errSettled // the other form, or no port: sweep.Run gives neither figure
+			}
+		}
+		var v float64
+		switch {
+		case twoPort:
+			v, _, _, _ = sweep.Figures(sweep.ToS(pp.Z, pp.RS, pp.RL))
+		case pp.HasIn:
+			v = real(pp.Z[0][0])
+		default:
+			v = real(pp.Z[1][1])
+		}
+		if v < least {
+			least = v
+		}
+		if least < floor {
+			return errSettled // the least can only fall further
+		}
+		return nil
+	})
+	if err != nil {
+		return false
+	}
+	if math.IsInf(least, 1) {
+		least = 0 // as sweep.Run reports a sweep without a finite figure
+	}
+	return least >= floor
+}
+
+// errSettled stops a sweep whose answer is known.
+var errSettled = errors.New("settled")
 
 // sweepOf and polesOf analyse a case, reporting false when they cannot.
 func sweepOf(cs *analysis.Case) (*sweep.Result, bool) {

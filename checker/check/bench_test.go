@@ -83,7 +83,13 @@ func BenchmarkCorpus(b *testing.B) {
 
 // BenchmarkFixCheck measures what the whole-circuit check of every fix
 // costs: the same 40 generated files checked with it and without it in one
-// run, reported as a ratio (x-unchecked) and as fixes checked per file.
+// run, reported as a ratio (x-unchecked) and as fixes checked per file;
+// reload-x-unchecked is the same check without its shortcuts (loading every
+// fixed file from its edited text and judging every rule, as before
+// edit.Model). The allocation counts (allocs-x-unchecked,
+// reload-allocs-x-unchecked) hold steady on a busy machine where the times do
+// not. Use a multiple of 3 for -benchtime: the three runs take turns in every
+// order.
 func BenchmarkFixCheck(b *testing.B) {
 	files := corpus.Preamps(40)
 	all := rules.All()
@@ -94,9 +100,13 @@ func BenchmarkFixCheck(b *testing.B) {
 				b.Fatal(err)
 			}
 			set.Corners = mode
-			run := func(skip bool) (time.Duration, int) {
+			var ms runtime.MemStats
+			run := func(skip, reload bool) (time.Duration, int, uint64) {
+				runtime.ReadMemStats(&ms)
+				m0 := ms.Mallocs
 				t0 := time.Now()
 				r := NewRunner(Options{Rules: all, Set: set, Worst: corners.Worst, Today: "2026-12-02", NoFixCheck: skip})
+				r.reloadFixes = reload
 				fixes := 0
 				for i, f := range files {
 					res := r.File(fmt.Sprintf("gen%03d.toml", i), f)
@@ -109,18 +119,35 @@ func BenchmarkFixCheck(b *testing.B) {
 						}
 					}
 				}
-				return time.Since(t0), fixes
+				d := time.Since(t0)
+				runtime.ReadMemStats(&ms)
+				return d, fixes, ms.Mallocs - m0
 			}
-			var with, without time.Duration
-			fixes := 0
+			// The three take turns in every order: a run after another
+			// finds the analyses' memos (the poles') filled.
+			var with, reloading, without time.Duration
+			var aWith, aReloading, aWithout uint64
+			fixes, turn := 0, 0
 			for b.Loop() {
-				d, n := run(false)
-				with += d
-				fixes = n
-				d, _ = run(true)
-				without += d
+				for k := range 3 {
+					switch (turn + k) % 3 {
+					case 0:
+						d, n, a := run(false, false)
+						with, fixes, aWith = with+d, n, aWith+a
+					case 1:
+						d, _, a := run(false, true)
+						reloading, aReloading = reloading+d, aReloading+a
+					case 2:
+						d, _, a := run(true, false)
+						without, aWithout = without+d, aWithout+a
+					}
+				}
+				turn++
 			}
 			b.ReportMetric(with.Seconds()/without.Seconds(), "x-unchecked")
+			b.ReportMetric(reloading.Seconds()/without.Seconds(), "reload-x-unchecked")
+			b.ReportMetric(float64(aWith)/float64(aWithout), "allocs-x-unchecked")
+			b.ReportMetric(float64(aReloading)/float64(aWithout), "reload-allocs-x-unchecked")
 			b.ReportMetric(float64(fixes)/float64(len(files)), "fixes/file")
 		})
 	}

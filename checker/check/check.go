@@ -9,6 +9,7 @@ import (
 	"fmt"
 	"os"
 	"path/filepath"
+	"slices"
 	"strings"
 	"sync"
 	"time"
@@ -88,6 +89,10 @@ type Runner struct {
 	loader *ruleset.Loader
 	sets   map[string]*ruleset.Set
 	found  map[string]string // folder -> discovered rule-set reference
+	// reloadFixes checks every fix by loading the edited text and judging
+	// every rule, without the shortcuts of fixes.go (edit.Model, the rating
+	// rules alone); benchmarks and tests compare the two in one run.
+	reloadFixes bool
 }
 
 // NewRunner prepares a run.
@@ -182,28 +187,53 @@ func (r *Runner) File(path string, data []byte) Result {
 	fs, nominal := j.findings, j.nominal
 	res.NotJudged, res.NotJudgedWhy = j.notJudged, j.why
 	if !r.opt.NoFixCheck {
-		verifyFixes(r.opt.Rules, fs, data, nominal, cfg.Fixes, func(b []byte) ([]engine.Finding, *analysis.Case, error) {
-			c2, err := circuit.LoadBytes(path, b, circuit.Options{ReadFile: r.opt.ReadFile, Libraries: set.Libraries})
-			if err != nil {
-				return nil, nil, err
-			}
-			j2, err := r.judge(c2, cfg, false) // a fix's check reads no fix of the fixed file
-			if err != nil {
-				return nil, nil, err
-			}
-			return j2.findings, j2.nominal, nil
-		})
+		src := &source{data: data, c: c, reload: r.reloadFixes}
+		verifyFixes(r.opt.Rules, fs, src, nominal, cfg.Fixes, r.recheck(path, set, cfg))
 	}
 	res.Findings = applyWaivers(c, cfg, fs, r.opt.Today, res.NotJudged)
 	engine.Sort(res.Findings)
 	return res
 }
 
+// recheck checks a fixed file as File checks the file at path, without
+// working out its findings' fixes.
+func (r *Runner) recheck(path string, set *ruleset.Set, cfg *engine.Config) recheck {
+	return func(b []byte, c *circuit.Circuit, only []string) ([]engine.Finding, *analysis.Case, error) {
+		if c == nil {
+			var err error
+			if c, err = circuit.LoadBytes(path, b, circuit.Options{ReadFile: r.opt.ReadFile, Libraries: set.Libraries}); err != nil {
+				return nil, nil, err
+			}
+		}
+		j, err := r.judgeOnly(c, cfg, false, only) // a fix's check reads no fix of the fixed file
+		if err != nil {
+			return nil, nil, err
+		}
+		return j.findings, j.nominal, nil
+	}
+}
+
 // judge analyses the circuit and returns its failing findings with
 // severities, the nominal case, and the rules left unjudged in a broken
 // circuit. fixes asks for the findings' fixes to be worked out too.
 func (r *Runner) judge(c *circuit.Circuit, cfg *engine.Config, fixes bool) (judged, error) {
+	return r.judgeOnly(c, cfg, fixes, nil)
+}
+
+// judgeOnly is judge with, when only is not nil, every rule but those named
+// switched off once the circuit is prepared: the rules left unjudged are
+// those the whole check leaves unjudged.
+func (r *Runner) judgeOnly(c *circuit.Circuit, cfg *engine.Config, fixes bool, only []string) (judged, error) {
 	topo, j, cfg := r.prepare(c, cfg)
+	if only != nil {
+		var off []string
+		for _, rule := range cfg.Rules {
+			if !slices.Contains(only, rule.ID) {
+				off = append(off, rule.ID)
+			}
+		}
+		cfg = withoutRules(cfg, off)
+	}
 	fs, err := r.judgeCase(c, topo, j.nominal, cfg, fixes)
 	j.findings = fs
 	return j, err

@@ -3,10 +3,12 @@ package check
 import (
 	"fmt"
 	"math"
+	"slices"
 	"sort"
 	"strings"
 
 	"headroom/checker/analysis"
+	"headroom/checker/circuit"
 	"headroom/checker/edit"
 	"headroom/checker/engine"
 	"headroom/checker/quantity"
@@ -28,7 +30,13 @@ import (
 // changed, because the edited text is exactly what the user will have after
 // making the fix: the written code is read back with its rounding, a new
 // device brings its library figures, new turns reach every derived quantity,
-// and no second way of applying a change can drift from the loader.
+// and no second way of applying a change can drift from the loader. The one
+// exception is a change set that only sets values of keys the file has
+// (most fixes): edit.Model sets the values, read from the same literals by
+// the same parser, into a copy of the loaded circuit, and moves the
+// positions the edit moves, which gives the circuit loading the edited text
+// gives without parsing it again (TestInPlaceModelIsLoadedModel compares the
+// two field by field over the generated corpus and the test circuits).
 //
 // A form that fails is not offered; the rule's other forms (Finding.FixForms)
 // are tried in order. When none passes, the fix says so and describes what
@@ -80,17 +88,77 @@ type verdict struct {
 	moved []string // what the form moves by the rule's purpose, for the fix text
 }
 
-// recheck checks an edited file again: its findings and its nominal case.
-type recheck func(data []byte) ([]engine.Finding, *analysis.Case, error)
+// recheck checks a fixed file again: its findings and its nominal case. c is
+// the fixed circuit when it was made without loading (edit.Model), else nil
+// and data is the edited text to load. only, when not nil, names the only
+// rules to judge (the others are switched off).
+type recheck func(data []byte, c *circuit.Circuit, only []string) ([]engine.Finding, *analysis.Case, error)
+
+// ratingRules are the only rules that read a part's rating: no analysis
+// does (ratings are not among the corner box's parameters either), so a
+// change set that only sets ratings leaves every other rule's findings, and
+// the nominal case, exactly as they were before it. Its check judges these
+// rules alone: a finding of another rule can neither be left (the fix is for
+// one of these rules) nor be new. TestRatingsOnlyInRatingRules and
+// TestRatingFixVerdicts hold this to the full check over the corpus.
+var ratingRules = []string{"resistor.power", "capacitor.voltage"}
+
+// onlyRatings reports whether a form of f's fix is checked by the rating
+// rules alone: f is theirs and every change sets a rating.
+func onlyRatings(f *engine.Finding, changes []engine.Change) bool {
+	if !slices.Contains(ratingRules, f.Rule) {
+		return false
+	}
+	for _, ch := range changes {
+		if ch.Key != "rating" {
+			return false
+		}
+	}
+	return true
+}
+
+// source is the file whose fixes are checked: its text, and the circuit
+// loaded from it.
+type source struct {
+	data   []byte
+	c      *circuit.Circuit
+	text   *edit.Text // parsed on first use
+	parsed bool
+	// reload loads every fixed file from its edited text and judges it
+	// with every rule (for measuring and testing what edit.Model and
+	// ratingRules save).
+	reload bool
+}
+
+// fixed makes changes: the fixed circuit when they only set existing values
+// (edit.InPlace, edit.Model), else the edited text.
+func (s *source) fixed(changes []engine.Change) ([]byte, *circuit.Circuit, error) {
+	if !s.reload && s.c != nil {
+		if !s.parsed {
+			s.text, s.parsed = edit.Parse(s.data), true
+		}
+		if reps, ok := s.text.InPlace(changes); ok {
+			if d, ok := edit.Model(s.c, reps); ok {
+				return nil, d, nil
+			}
+		}
+	}
+	b, err := edit.Apply(s.data, changes)
+	return b, nil, err
+}
 
 // judgeForm applies one form's changes and judges the result against before.
-func judgeForm(rule *engine.Rule, f *engine.Finding, form engine.FixForm, data []byte,
+func judgeForm(rule *engine.Rule, f *engine.Finding, form engine.FixForm, src *source,
 	before []engine.Finding, mBefore measures, limits engine.FixLimits, again recheck) verdict {
-	fixed, err := edit.Apply(data, form.Changes)
+	text, fixed, err := src.fixed(form.Changes)
 	if err != nil {
 		return verdict{why: fmt.Sprintf("cannot be made to the file (%v)", err)}
 	}
-	after, nominal, err := again(fixed)
+	var only []string
+	if !src.reload && onlyRatings(f, form.Changes) {
+		only = ratingRules
+	}
+	after, nominal, err := again(text, fixed, only)
 	if err != nil {
 		return verdict{why: fmt.Sprintf("leaves a file that does not load (%v)", err)}
 	}
@@ -192,7 +260,7 @@ func signedDB(x float64) string {
 
 // verifyFixes runs the whole-circuit check over every failing finding with
 // changes, keeping the first form that passes.
-func verifyFixes(rules []*engine.Rule, fs []engine.Finding, data []byte, nominal *analysis.Case,
+func verifyFixes(rules []*engine.Rule, fs []engine.Finding, src *source, nominal *analysis.Case,
 	limits engine.FixLimits, again recheck) {
 	byID := map[string]*engine.Rule{}
 	for _, r := range rules {
@@ -201,18 +269,8 @@ func verifyFixes(rules []*engine.Rule, fs []engine.Finding, data []byte, nominal
 	mBefore := measure(nominal)
 	for i := range fs {
 		f := &fs[i]
-		forms := []engine.FixForm{}
-		if len(f.Changes) > 0 {
-			forms = append(forms, engine.FixForm{Text: f.Fix, Changes: f.Changes})
-		}
-		if f.FixForms != nil {
-			for _, ff := range f.FixForms() {
-				if len(ff.Changes) > 0 {
-					forms = append(forms, ff)
-				}
-			}
-			f.FixForms = nil
-		}
+		forms := fixForms(f)
+		f.FixForms = nil
 		if len(forms) == 0 {
 			continue
 		}
@@ -223,7 +281,7 @@ func verifyFixes(rules []*engine.Rule, fs []engine.Finding, data []byte, nominal
 		var refused []string
 		done := false
 		for _, form := range forms {
-			v := judgeForm(rule, f, form, data, fs, mBefore, limits, again)
+			v := judgeForm(rule, f, form, src, fs, mBefore, limits, again)
 			if !v.ok {
 				refused = append(refused, fmt.Sprintf("%s was not offered: it %s", describe(form.Changes), v.why))
 				continue
@@ -248,6 +306,23 @@ func verifyFixes(rules []*engine.Rule, fs []engine.Finding, data []byte, nominal
 			f.Changes = nil
 		}
 	}
+}
+
+// fixForms lists a finding's fix forms with changes, in the order they are
+// tried: its own fix, then the rule's other forms.
+func fixForms(f *engine.Finding) []engine.FixForm {
+	var forms []engine.FixForm
+	if len(f.Changes) > 0 {
+		forms = append(forms, engine.FixForm{Text: f.Fix, Changes: f.Changes})
+	}
+	if f.FixForms != nil {
+		for _, ff := range f.FixForms() {
+			if len(ff.Changes) > 0 {
+				forms = append(forms, ff)
+			}
+		}
+	}
+	return forms
 }
 
 // describe writes changes as the file would read them: "R3.value = 18k".

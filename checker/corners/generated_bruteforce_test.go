@@ -25,30 +25,21 @@ var generatedStability = flag.Int("generated-stability", 30, "circuits TestGener
 // worst vertex) on generated single- and two-stage amplifiers of every rule
 // of the default set, boxes of up to 12 parameters. Every item within
 // NearLimit of its limit at the worst vertex (or failing there) must be
-// reported at least as adverse as that vertex to 0.1 %, and no item may be
-// reported better than nominal. The circuits are invented (random values in
-// ranges a builder would use); the reference is the brute force, not the
-// code under test. It also counts how many items the local search changed,
-// the figure the README quotes.
+// reported at least as adverse as that vertex to 0.1 %, with no exception,
+// and no item may be reported better than nominal. The circuits are
+// invented (random values in ranges a builder would use); the reference is
+// the brute force, not the code under test. It also counts how many items
+// the local search changed, the figure the README quotes.
 func TestGeneratedMatchBruteForce(t *testing.T) {
 	if testing.Short() {
 		t.Skip("brute force over every vertex")
 	}
 	cfg := defaultConfig(t)
-	// The stability rules judge a minimum over a frequency sweep (μ) or over
-	// the poles (damping), whose frequency moves with the parameters: not
-	// monotonic, so the search's vertex is not promised to be the worst
-	// (docs/stability.md); and a sweep at each of up to 4096 vertices would
-	// triple this test's time. They are left out of the comparison.
+	// The stability rules are compared on their own
+	// (TestGeneratedStabilityMatchBruteForce): a sweep and a pole solve at
+	// each of up to 4096 vertices would triple this test's time.
 	cfg.Severity["stability.oscillation"], cfg.Severity["stability.unconditional"] = engine.Off, engine.Off
 	sum := compareGenerated(t, *generated, cfg)
-	// A figure with a ridge inside the box (a dissipation that peaks where
-	// two parameters pull the current opposite ways) can still trap the
-	// local search one step short of the worst vertex: allow one such item
-	// in a thousand, each within 1 %.
-	if sum.missed*1000 > sum.near {
-		t.Errorf("%d of %d near items miss the worst vertex by more than 0.1 %%", sum.missed, sum.near)
-	}
 	t.Logf("%d circuits, %d vertices tried by brute force, %d items judged, %d near their limit at the worst vertex; "+
 		"the local search changed %d items; %d near items miss the worst vertex by more than 0.1 %% (without the local search %d)",
 		*generated, sum.vertices, sum.judged, sum.near, sum.changed, sum.missed, sum.missedWithout)
@@ -77,9 +68,6 @@ func TestGeneratedStabilityMatchBruteForce(t *testing.T) {
 		}
 	}
 	sum := compareGenerated(t, *generatedStability, cfg)
-	if sum.missed*1000 > sum.near {
-		t.Errorf("%d of %d near items miss the worst vertex by more than 0.1 %%", sum.missed, sum.near)
-	}
 	t.Logf("%d circuits, %d vertices tried by brute force, %d stability items judged, %d near their limit at the worst vertex; "+
 		"the local search changed %d items; %d near items miss the worst vertex by more than 0.1 %% (without the local search %d)",
 		*generatedStability, sum.vertices, sum.judged, sum.near, sum.changed, sum.missed, sum.missedWithout)
@@ -189,23 +177,11 @@ func compareWithBruteForce(t *testing.T, n int, src string, limit int, cfg *engi
 		}
 		if engine.Worse(&w, &f) && !within(f, w, 1e-3) {
 			r.missed++
-			t.Logf("circuit %d %s %s %s: search %g (limit %g) at %s; worst vertex %g (limit %g)",
-				n, f.Rule, f.Part, f.Bound, f.Measured, f.Limit, f.CornerText, w.Measured, w.Limit)
-			if !within(f, w, 1e-2) && !negativeReturnLoss(w) {
-				t.Errorf("circuit %d %s %s %s: more than 1 %% short of the worst vertex\n%s", n, f.Rule, f.Part, f.Bound, src)
-			}
+			t.Errorf("circuit %d %s %s %s: search %g (limit %g) at %s; worst vertex %g (limit %g), more than 0.1 %% worse\n%s",
+				n, f.Rule, f.Part, f.Bound, f.Measured, f.Limit, f.CornerText, w.Measured, w.Limit, src)
 		}
 	}
 	return r
-}
-
-// negativeReturnLoss reports a match.input item whose worst vertex has a
-// negative return loss (|Γ| > 1, a negative input resistance). Such a
-// figure runs to −∞ as Zin passes −RS: near that pole it is monotonic in
-// no parameter, and every case of it fails far below its limit. It still
-// counts towards the one-in-a-thousand allowance, but not the 1 % bound.
-func negativeReturnLoss(w engine.Finding) bool {
-	return w.Rule == "match.input" && w.Measured < 0
 }
 
 // tally counts what the comparison saw.

@@ -173,6 +173,7 @@ func search(c *circuit.Circuit, topo *topology.Topology, nominal *analysis.Case,
 // is reused for a later case: use copies what it keeps. The error is the
 // first in case order.
 func inOrder(n int, measure func(i int, buf []engine.Finding) ([]engine.Finding, error), use func(i int, fs []engine.Finding)) error {
+	analysed.Add(int64(n))
 	workers := min(runtime.GOMAXPROCS(0), n)
 	if workers <= 1 {
 		var buf []engine.Finding
@@ -240,12 +241,21 @@ func inOrder(n int, measure func(i int, buf []engine.Finding) ([]engine.Finding,
 	return nil
 }
 
+// analysed counts the cases the searches of this process have analysed (each
+// an analysis of the circuit at one case, judged by some rules): the
+// benchmarks report it per search, a cost that does not vary with the
+// machine's load.
+var analysed atomic.Int64
+
 // moved reports whether a metric moved by more than one part in 10⁶. The
 // scale is the larger of the figure and its limit, so that a metric that is
 // zero at nominal (bias.drift) is not moved by solver noise.
-func moved(a, b *engine.Finding) bool {
+func moved(a, b *engine.Finding) bool { return movedBy(a, b, moveTol) }
+
+// movedBy is moved with a tolerance of its own.
+func movedBy(a, b *engine.Finding, tol float64) bool {
 	scale := math.Max(math.Max(math.Abs(a.Measured), math.Abs(b.Measured)), math.Max(math.Abs(a.Limit), math.Abs(b.Limit)))
-	return math.Abs(a.Measured-b.Measured) > moveTol*scale || rel(a.Limit, b.Limit) > moveTol
+	return math.Abs(a.Measured-b.Measured) > tol*scale || rel(a.Limit, b.Limit) > tol
 }
 
 func rel(a, b float64) float64 {

@@ -242,12 +242,14 @@ func BenchmarkWorst(b *testing.B) {
 			}
 			b.Run(name, func(b *testing.B) {
 				topo := topology.Analyze(c)
+				cases := analysed.Load()
 				for b.Loop() {
 					if _, err := search(c, topo, analysis.Run(c, topo), cfg, v.local); err != nil {
 						b.Fatal(err)
 					}
 				}
 				b.ReportMetric(float64(len(Box(c))), "params")
+				b.ReportMetric(float64(analysed.Load()-cases)/float64(b.N), "cases/op")
 			})
 		}
 		// One analysed case alone (every parameter at its high end, every

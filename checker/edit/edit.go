@@ -15,8 +15,19 @@ import (
 )
 
 // Apply returns data with every change made. A change's Part is a part
-// reference, or REF.WINDING for a transformer winding.
+// reference, or REF.WINDING for a transformer winding. Changes that only set
+// existing values are made in one pass over the text parsed once (InPlace);
+// the others one at a time, parsing the text again after each.
 func Apply(data []byte, changes []engine.Change) ([]byte, error) {
+	x := Parse(data)
+	if reps, ok := x.InPlace(changes); ok {
+		return x.Edited(reps), nil
+	}
+	return applyEach(data, changes)
+}
+
+// applyEach makes the changes one at a time, parsing the text after each.
+func applyEach(data []byte, changes []engine.Change) ([]byte, error) {
 	text := string(data)
 	for _, ch := range changes {
 		var err error
@@ -32,23 +43,9 @@ func apply(text string, ch engine.Change) (string, error) {
 	if err != nil {
 		return "", err
 	}
-	parts := doc.Root.Table("parts", "parts")
-	if parts == nil {
-		return "", fmt.Errorf("no [parts] table")
-	}
-	ref, winding, _ := strings.Cut(ch.Part, ".")
-	t := parts.Table(ref, ref)
-	if t == nil {
-		return "", fmt.Errorf("no part %s", ref)
-	}
-	if winding != "" {
-		ws := t.Table("windings", "windings")
-		if ws == nil {
-			return "", fmt.Errorf("%s has no windings", ref)
-		}
-		if t = ws.Table(winding, winding); t == nil {
-			return "", fmt.Errorf("%s has no winding %s", ref, winding)
-		}
+	t, err := target(doc, ch.Part)
+	if err != nil {
+		return "", err
 	}
 	val := literal(ch.To)
 	if t.Has(ch.Key) {
@@ -74,6 +71,29 @@ func apply(text string, ch engine.Change) (string, error) {
 	}
 	at := start + brace + 1
 	return text[:at] + " " + ch.Key + " = " + val + "," + text[at:], nil
+}
+
+// target is the table of a part, or of a winding for REF.WINDING.
+func target(doc *tomlfile.Doc, part string) (*tomlfile.Table, error) {
+	parts := doc.Root.Table("parts", "parts")
+	if parts == nil {
+		return nil, fmt.Errorf("no [parts] table")
+	}
+	ref, winding, _ := strings.Cut(part, ".")
+	t := parts.Table(ref, ref)
+	if t == nil {
+		return nil, fmt.Errorf("no part %s", ref)
+	}
+	if winding != "" {
+		ws := t.Table("windings", "windings")
+		if ws == nil {
+			return nil, fmt.Errorf("%s has no windings", ref)
+		}
+		if t = ws.Table(winding, winding); t == nil {
+			return nil, fmt.Errorf("%s has no winding %s", ref, winding)
+		}
+	}
+	return t, nil
 }
 
 // literal writes a change's value as TOML: whole numbers bare (turns), every
