@@ -42,7 +42,8 @@ func runCollectorHeadroom(p *engine.Pass) error {
 		return nil
 	}
 	minV := p.Param("min_volts")
-	for _, part := range bjts(p) {
+	msgs := bjtFigs(p, 1)
+	for part := range bjts(p) {
 		q := op.BJTs[part.Ref]
 		tb := p.A.Topo.BJTs[part.Ref]
 		if q == nil || tb == nil {
@@ -51,10 +52,10 @@ func runCollectorHeadroom(p *engine.Pass) error {
 		vce := q.VCEf
 		f := engine.Finding{Part: part.Ref,
 			HasMetric: true, Measured: q.VCEf, Limit: minV, Comparison: ">=", Unit: "V",
-			MessageLater: func() string {
-				m, l := approx2(vce, minV, quantity.Volt)
-				return fmt.Sprintf("%s has %s from collector to emitter, needs at least %s", part.Ref, m, l)
-			}}
+			Messenger: msgs.Add(figs{part: part, v: [6]float64{vce, minV}, say: func(m *figs) string {
+				v, l := approx2(m.v[0], m.v[1], quantity.Volt)
+				return fmt.Sprintf("%s has %s from collector to emitter, needs at least %s", m.part.Ref, v, l)
+			}})}
 		if engine.Fails(q.VCEf, minV, ">=") {
 			f.FixLater = func() (string, []engine.Change) { return headroomFix(p, tb, minV) }
 		}

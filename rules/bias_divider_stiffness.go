@@ -60,7 +60,8 @@ func runDividerStiffness(p *engine.Pass) error {
 		return nil
 	}
 	minRatio := p.Param("min_ratio")
-	for _, part := range bjts(p) {
+	msgs := bjtFigs(p, 1)
+	for part := range bjts(p) {
 		tb := p.A.Topo.BJTs[part.Ref]
 		q := op.BJTs[part.Ref]
 		if tb == nil || q == nil || len(tb.LowerLeg) == 0 || !(q.IB > 0) {
@@ -79,10 +80,10 @@ func runDividerStiffness(p *engine.Pass) error {
 		}
 		f := engine.Finding{Part: tb.LowerLeg[0],
 			HasMetric: true, Measured: ratio, Limit: minRatio, Comparison: ">=", Unit: "ratio",
-			MessageLater: func() string {
-				m, l := approx2(ratio, minRatio, quantity.Ratio)
-				return fmt.Sprintf("%s carries %sx the base current of %s, needs at least %sx", who, m, part.Ref, l)
-			}}
+			Messenger: msgs.Add(figs{part: part, s: who, v: [6]float64{ratio, minRatio}, say: func(m *figs) string {
+				r, l := approx2(m.v[0], m.v[1], quantity.Ratio)
+				return fmt.Sprintf("%s carries %sx the base current of %s, needs at least %sx", m.s, r, m.part.Ref, l)
+			}})}
 		if engine.Fails(ratio, minRatio, ">=") {
 			f.FixLater = func() (string, []engine.Change) { return dividerFix(p, tb, minRatio) }
 		}

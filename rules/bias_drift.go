@@ -56,7 +56,8 @@ func runBiasDrift(p *engine.Pass) error {
 		return nil
 	}
 	limit := p.Param("max_fraction")
-	for _, part := range bjts(p) {
+	msgs := bjtFigs(p, 1)
+	for part := range bjts(p) {
 		q, qn := op.BJTs[part.Ref], nomOP.BJTs[part.Ref]
 		if q == nil || qn == nil || !(qn.IC > 0) {
 			continue
@@ -68,29 +69,34 @@ func runBiasDrift(p *engine.Pass) error {
 		if math.Abs(r-1) < driftFloor {
 			r = 1 // solver noise: a parameter that does not move IC must not enter the corner
 		}
-		way := "above"
-		if r < 1 {
-			way = "below"
-		}
 		ic, icNom := q.IC, qn.IC
-		who := part.Ref + "'s collector current"
-		for _, other := range bjts(p) {
+		above := "" // the cascode device stacked on this one, if any
+		for other := range bjts(p) {
 			if tb := p.A.Topo.BJTs[other.Ref]; tb != nil && tb.Stacked == part.Ref {
-				who = fmt.Sprintf("the collector current of %s (and of %s above it, which carries it)", part.Ref, other.Ref)
+				above = other.Ref
 			}
 		}
-		msg := func() string {
-			m, l := approx2(math.Abs(r-1), limit, quantity.Fraction)
+		msg := msgs.Add(figs{part: part, s: above, v: [6]float64{r, limit, ic, icNom}, say: func(m *figs) string {
+			r, limit, ic, icNom := m.v[0], m.v[1], m.v[2], m.v[3]
+			who := m.part.Ref + "'s collector current"
+			if m.s != "" {
+				who = fmt.Sprintf("the collector current of %s (and of %s above it, which carries it)", m.part.Ref, m.s)
+			}
+			way := "above"
+			if r < 1 {
+				way = "below"
+			}
+			d, l := approx2(math.Abs(r-1), limit, quantity.Fraction)
 			return fmt.Sprintf("%s is %s %s nominal (%s against %s) with the supplies held, allows %s",
-				who, m, way, quantity.Approx(ic, quantity.Ampere), quantity.Approx(icNom, quantity.Ampere), l)
-		}
+				who, d, way, quantity.Approx(ic, quantity.Ampere), quantity.Approx(icNom, quantity.Ampere), l)
+		}})
 		for _, b := range []struct {
 			bound    string
 			measured float64
 		}{{"up", r - 1}, {"down", 1 - r}} {
 			f := engine.Finding{Part: part.Ref, Bound: b.bound,
 				HasMetric: true, Measured: b.measured, Limit: limit, Comparison: "<=", Unit: "fraction",
-				MessageLater: msg}
+				Messenger: msg}
 			if engine.Fails(b.measured, limit, "<=") {
 				ref, ic, up := part.Ref, qn.IC, b.bound == "up"
 				f.FixLater = func() (string, []engine.Change) { return driftFix(p, ref, ic, up), nil }

@@ -65,7 +65,8 @@ func runEmitterFraction(p *engine.Pass) error {
 		return nil
 	}
 	lo, hi := p.Param("min_fraction"), p.Param("max_fraction")
-	for _, part := range bjts(p) {
+	msgs := bjtFigs(p, 2)
+	for part := range bjts(p) {
 		tb := p.A.Topo.BJTs[part.Ref]
 		if tb == nil || !tb.CommonEmitter || tb.ReturnRail == "" || tb.FeedRail == "" {
 			continue
@@ -82,11 +83,11 @@ func runEmitterFraction(p *engine.Pass) error {
 		}{{"min", ">=", "at least", lo}, {"max", "<=", "at most", hi}} {
 			f := engine.Finding{Part: part.Ref, Bound: b.bound,
 				HasMetric: true, Measured: fr, Limit: b.limit, Comparison: b.cmp, Unit: "fraction",
-				MessageLater: func() string {
-					m, l := approx2(fr, b.limit, quantity.Fraction)
-					return fmt.Sprintf("%s drops %s across its emitter, %s of the %s feed, needs %s %s", part.Ref,
-						quantity.Approx(ve, quantity.Volt), m, quantity.Approx(vf, quantity.Volt), b.word, l)
-				}}
+				Messenger: msgs.Add(figs{part: part, s: b.word, v: [6]float64{fr, b.limit, ve, vf}, say: func(m *figs) string {
+					fr, l := approx2(m.v[0], m.v[1], quantity.Fraction)
+					return fmt.Sprintf("%s drops %s across its emitter, %s of the %s feed, needs %s %s", m.part.Ref,
+						quantity.Approx(m.v[2], quantity.Volt), fr, quantity.Approx(m.v[3], quantity.Volt), m.s, l)
+				}})}
 			if engine.Fails(fr, b.limit, b.cmp) {
 				f.FixLater = func() (string, []engine.Change) { return emitterFix(p, tb, lo, hi) }
 				f.FixForms = func() []engine.FixForm { return baseForm(p, tb, lo, hi) }

@@ -53,7 +53,8 @@ func runBiasRegion(p *engine.Pass) error {
 			Fix:     "look for a part value far outside its usual range or a network that has no solution at the frequency named"})
 	}
 	minIC, minVCE := p.Param("min_ic"), p.Param("min_vce")
-	for _, part := range bjts(p) {
+	msgs := bjtFigs(p, 2)
+	for part := range bjts(p) {
 		q := cs.OP.BJTs[part.Ref]
 		if q == nil {
 			continue
@@ -76,17 +77,17 @@ func runBiasRegion(p *engine.Pass) error {
 		// counted as cut off, as its Region says.
 		p.Report(engine.Finding{Part: part.Ref, Bound: "cutoff",
 			HasMetric: true, Measured: q.ICf, Limit: minIC, Comparison: ">=", Unit: "A",
-			MessageLater: func() string {
-				return fmt.Sprintf("%s is cut off: IC %s, needs at least %s", part.Ref,
-					quantity.Approx(q.ICf, quantity.Ampere), quantity.Approx(minIC, quantity.Ampere))
-			},
+			Messenger: msgs.Add(figs{part: part, v: [6]float64{q.ICf, minIC}, say: func(m *figs) string {
+				return fmt.Sprintf("%s is cut off: IC %s, needs at least %s", m.part.Ref,
+					quantity.Approx(m.v[0], quantity.Ampere), quantity.Approx(m.v[1], quantity.Ampere))
+			}}),
 			Fix: "raise the base voltage (a smaller upper divider leg or a larger lower leg) or lower the emitter resistance until the collector current flows"})
 		p.Report(engine.Finding{Part: part.Ref, Bound: "saturated",
 			HasMetric: true, Measured: q.VCEf, Limit: minVCE, Comparison: ">=", Unit: "V",
-			MessageLater: func() string {
-				return fmt.Sprintf("%s is saturated: VCE %s, needs at least %s", part.Ref,
-					quantity.Approx(q.VCEf, quantity.Volt), quantity.Approx(minVCE, quantity.Volt))
-			},
+			Messenger: msgs.Add(figs{part: part, v: [6]float64{q.VCEf, minVCE}, say: func(m *figs) string {
+				return fmt.Sprintf("%s is saturated: VCE %s, needs at least %s", m.part.Ref,
+					quantity.Approx(m.v[0], quantity.Volt), quantity.Approx(m.v[1], quantity.Volt))
+			}}),
 			Fix: "lower the collector-feed resistance or the base voltage, or raise the emitter resistance, so that VCE sits near half the supply"})
 	}
 	return nil

@@ -35,7 +35,8 @@ func runBJTCurrent(p *engine.Pass) error {
 		return nil
 	}
 	maxLoad := p.Param("max_load")
-	for _, part := range bjts(p) {
+	msgs := bjtFigs(p, 1)
+	for part := range bjts(p) {
 		q, b := op.BJTs[part.Ref], part.BJT
 		if q == nil || b == nil || !(b.ICMax > 0) {
 			continue
@@ -43,11 +44,12 @@ func runBJTCurrent(p *engine.Pass) error {
 		load := q.IC / b.ICMax
 		f := engine.Finding{Part: part.Ref, HasMetric: true, Measured: load, Limit: maxLoad,
 			Comparison: "<=", Unit: "fraction", Absolute: load,
-			MessageLater: func() string {
-				return fmt.Sprintf("%s carries %s, %s of its %s ic_max, at most %s%s", part.Ref,
-					quantity.Approx(q.IC, quantity.Ampere), pct(load), quantity.Approx(b.ICMax, quantity.Ampere),
+			Messenger: msgs.Add(figs{part: part, v: [6]float64{q.IC, load, b.ICMax, maxLoad}, say: func(m *figs) string {
+				ic, load, icMax, maxLoad := m.v[0], m.v[1], m.v[2], m.v[3]
+				return fmt.Sprintf("%s carries %s, %s of its %s ic_max, at most %s%s", m.part.Ref,
+					quantity.Approx(ic, quantity.Ampere), pct(load), quantity.Approx(icMax, quantity.Ampere),
 					pct(maxLoad), runsHot(load))
-			}}
+			}})}
 		if engine.Fails(load, maxLoad, "<=") {
 			laterWithForms(&f, func(forms *[]engine.FixForm) (string, []engine.Change) { return currentFix(p, part, q, maxLoad, forms) })
 		}

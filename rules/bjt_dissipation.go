@@ -40,7 +40,8 @@ func runBJTDissipation(p *engine.Pass) error {
 	}
 	maxLoad := p.Param("max_load")
 	ambient := p.Circuit.Ambient.Nominal
-	for _, part := range bjts(p) {
+	msgs := bjtFigs(p, 1)
+	for part := range bjts(p) {
 		q, b := op.BJTs[part.Ref], part.BJT
 		if q == nil || b == nil || !(b.PD > 0) {
 			continue
@@ -53,18 +54,19 @@ func runBJTDissipation(p *engine.Pass) error {
 			continue
 		}
 		load := q.Power / (b.PD * der)
-		msg := func() string {
-			msg := fmt.Sprintf("%s dissipates %s, %s of its %s pd", part.Ref, quantity.Approx(q.Power, quantity.Watt),
-				pct(load), quantity.Approx(b.PD, quantity.Watt))
+		msg := msgs.Add(figs{part: part, v: [6]float64{q.Power, load, b.PD, der, ambient, maxLoad}, say: func(m *figs) string {
+			power, load, pd, der, ambient, maxLoad := m.v[0], m.v[1], m.v[2], m.v[3], m.v[4], m.v[5]
+			msg := fmt.Sprintf("%s dissipates %s, %s of its %s pd", m.part.Ref, quantity.Approx(power, quantity.Watt),
+				pct(load), quantity.Approx(pd, quantity.Watt))
 			if der < 1 {
-				msg += fmt.Sprintf(" derated to %s at %s", quantity.Approx(b.PD*der, quantity.Watt), temp(ambient))
+				msg += fmt.Sprintf(" derated to %s at %s", quantity.Approx(pd*der, quantity.Watt), temp(ambient))
 			} else {
 				msg += " at " + temp(ambient)
 			}
 			return msg + fmt.Sprintf(", at most %s", pct(maxLoad)) + runsHot(load)
-		}
+		}})
 		f := engine.Finding{Part: part.Ref, HasMetric: true, Measured: load, Limit: maxLoad,
-			Comparison: "<=", Unit: "fraction", Absolute: load, MessageLater: msg}
+			Comparison: "<=", Unit: "fraction", Absolute: load, Messenger: msg}
 		if engine.Fails(load, maxLoad, "<=") {
 			laterWithForms(&f, func(forms *[]engine.FixForm) (string, []engine.Change) {
 				return dissipationFix(p, part, q, der, maxLoad, forms)

@@ -38,7 +38,7 @@ func runBJTFtHeadroom(p *engine.Pass) error {
 	if !(fHigh > 0) {
 		return nil
 	}
-	for _, part := range bjts(p) {
+	for part := range bjts(p) {
 		b := part.BJT
 		if b == nil || !(b.FT > 0) {
 			continue

@@ -39,7 +39,8 @@ func runBJTVoltage(p *engine.Pass) error {
 		return nil
 	}
 	maxLoad, swing := p.Param("max_load"), p.Param("inductive_swing")
-	for _, part := range bjts(p) {
+	msgs := bjtFigs(p, 1)
+	for part := range bjts(p) {
 		tb, b := p.A.Topo.BJTs[part.Ref], part.BJT
 		span, ok := dcSpan(p, tb)
 		if !ok || b == nil || !(b.VCEO > 0) {
@@ -50,20 +51,22 @@ func runBJTVoltage(p *engine.Pass) error {
 			peak = span * swing
 		}
 		load, absolute := peak/b.VCEO, span/b.VCEO
-		msg := func() string {
+		msg := msgs.Add(figs{part: part, tb: tb, v: [6]float64{span, swing, peak, load, b.VCEO, maxLoad}, say: func(m *figs) string {
+			span, swing, peak, load, vceo, maxLoad := m.v[0], m.v[1], m.v[2], m.v[3], m.v[4], m.v[5]
+			tb := m.tb
 			how := fmt.Sprintf("the %s span from %s to %s", quantity.Approx(span, quantity.Volt), tb.FeedRail, tb.ReturnRail)
 			if tb.InductiveFeed {
 				how = fmt.Sprintf("%s× %s, fed through %s", quantity.Approx(swing, quantity.Ratio), how, tb.FeedInductor)
 			}
-			msg := fmt.Sprintf("%s's collector can reach %s (%s), %s of its %s VCEO, at most %s", part.Ref,
-				quantity.Approx(peak, quantity.Volt), how, pct(load), quantity.Approx(b.VCEO, quantity.Volt), pct(maxLoad))
-			if absolute > 1 {
+			msg := fmt.Sprintf("%s's collector can reach %s (%s), %s of its %s VCEO, at most %s", m.part.Ref,
+				quantity.Approx(peak, quantity.Volt), how, pct(load), quantity.Approx(vceo, quantity.Volt), pct(maxLoad))
+			if span/vceo > 1 {
 				msg += "; the DC span alone is past VCEO: the transistor may break down and run hot"
 			}
 			return msg
-		}
+		}})
 		f := engine.Finding{Part: part.Ref, HasMetric: true, Measured: load, Limit: maxLoad,
-			Comparison: "<=", Unit: "fraction", Absolute: absolute, MessageLater: msg}
+			Comparison: "<=", Unit: "fraction", Absolute: absolute, Messenger: msg}
 		if engine.Fails(load, maxLoad, "<=") {
 			laterWithForms(&f, func(forms *[]engine.FixForm) (string, []engine.Change) {
 				return voltageFix(p, part, peak, maxLoad, forms)

@@ -36,13 +36,15 @@ var BypassReactance = &engine.Rule{
 	},
 	Run: func(p *engine.Pass) error {
 		frac := p.Param("max_fraction")
-		judgeCapacitorGroupsBy(p, topology.Bypass, func(g *capGroup, z float64) (float64, string, bool) {
+		judgeCapacitorGroupsBy(p, topology.Bypass, func(g *capGroup, z float64) (float64, capWhy, bool) {
 			what, ok := bypassed(p, g)
 			if !ok {
-				return 0, "", false
+				return 0, capWhy{}, false
 			}
-			return frac * z, fmt.Sprintf("%s × the %s the %s sees", quantity.Format(frac, quantity.Ratio),
-				quantity.Approx(z, quantity.Ohm), what), true
+			return frac * z, capWhy{frac: frac, z: z, what: what, say: func(w *capWhy) string {
+				return fmt.Sprintf("%s × the %s the %s sees", quantity.Format(w.frac, quantity.Ratio),
+					quantity.Approx(w.z, quantity.Ohm), w.what)
+			}}, true
 		})
 		return nil
 	},

@@ -35,14 +35,18 @@ var CouplingReactance = &engine.Rule{
 	},
 	Run: func(p *engine.Pass) error {
 		maxOhms, frac := p.Param("max_ohms"), p.Param("max_fraction")
-		judgeCapacitorGroups(p, topology.Coupling, func(z float64) (float64, string, bool) {
+		judgeCapacitorGroups(p, topology.Coupling, func(z float64) (float64, capWhy, bool) {
 			byFraction := frac * z
 			if maxOhms < byFraction {
-				return maxOhms, fmt.Sprintf("the %s ceiling; it works into %s", quantity.Approx(maxOhms, quantity.Ohm),
-					quantity.Approx(z, quantity.Ohm)), true
+				return maxOhms, capWhy{ceiling: maxOhms, z: z, say: func(w *capWhy) string {
+					return fmt.Sprintf("the %s ceiling; it works into %s", quantity.Approx(w.ceiling, quantity.Ohm),
+						quantity.Approx(w.z, quantity.Ohm))
+				}}, true
 			}
-			return byFraction, fmt.Sprintf("%s × the %s it works into", quantity.Format(frac, quantity.Ratio),
-				quantity.Approx(z, quantity.Ohm)), !math.IsInf(byFraction, 0)
+			return byFraction, capWhy{frac: frac, z: z, say: func(w *capWhy) string {
+				return fmt.Sprintf("%s × the %s it works into", quantity.Format(w.frac, quantity.Ratio),
+					quantity.Approx(w.z, quantity.Ohm))
+			}}, !math.IsInf(byFraction, 0)
 		})
 		return nil
 	},

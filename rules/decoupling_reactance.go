@@ -32,9 +32,11 @@ var DecouplingReactance = &engine.Rule{
 	},
 	Run: func(p *engine.Pass) error {
 		frac, minOhms := p.Param("max_fraction"), p.Param("min_ohms")
-		judgeCapacitorGroups(p, topology.Decoupling, func(z float64) (float64, string, bool) {
-			return frac * z, fmt.Sprintf("%s × the %s the net sees without it", quantity.Format(frac, quantity.Ratio),
-				quantity.Approx(z, quantity.Ohm)), z >= minOhms
+		judgeCapacitorGroups(p, topology.Decoupling, func(z float64) (float64, capWhy, bool) {
+			return frac * z, capWhy{frac: frac, z: z, say: func(w *capWhy) string {
+				return fmt.Sprintf("%s × the %s the net sees without it", quantity.Format(w.frac, quantity.Ratio),
+					quantity.Approx(w.z, quantity.Ohm))
+			}}, z >= minOhms
 		})
 		return nil
 	},

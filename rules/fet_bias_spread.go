@@ -44,7 +44,7 @@ func runFETBiasSpread(p *engine.Pass) error {
 		return nil
 	}
 	lo, hi := p.Param("min_ratio"), p.Param("max_ratio")
-	for _, part := range fets(p) {
+	for part := range fets(p) {
 		q, qn := op.FETs[part.Ref], p.Nominal.OP.FETs[part.Ref]
 		if q == nil || qn == nil || !(qn.ID > 0) {
 			continue

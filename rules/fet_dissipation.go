@@ -35,7 +35,7 @@ func runFETDissipation(p *engine.Pass) error {
 	}
 	maxLoad := p.Param("max_load")
 	ambient := p.Circuit.Ambient.Nominal
-	for _, part := range fets(p) {
+	for part := range fets(p) {
 		q, f := op.FETs[part.Ref], part.FET
 		if q == nil || !(f.PD > 0) {
 			continue

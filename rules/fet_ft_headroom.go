@@ -34,7 +34,7 @@ func runFETFtHeadroom(p *engine.Pass) error {
 	if op == nil || !(fHigh > 0) {
 		return nil
 	}
-	for _, part := range fets(p) {
+	for part := range fets(p) {
 		q, f := op.FETs[part.Ref], part.FET
 		if q == nil || !(f.Ciss > 0) {
 			continue

@@ -40,7 +40,7 @@ func runFETRegion(p *engine.Pass) error {
 		return nil
 	}
 	minID, minMargin, maxGate := p.Param("min_id"), p.Param("min_margin"), p.Param("max_gate_bias")
-	for _, part := range fets(p) {
+	for part := range fets(p) {
 		q := op.FETs[part.Ref]
 		if q == nil {
 			continue

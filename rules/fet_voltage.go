@@ -33,7 +33,7 @@ func runFETVoltage(p *engine.Pass) error {
 		return nil
 	}
 	maxLoad, swing := p.Param("max_load"), p.Param("inductive_swing")
-	for _, part := range fets(p) {
+	for part := range fets(p) {
 		tb, f := p.A.Topo.BJTs[part.Ref], part.FET
 		span, ok := dcSpan(p, tb)
 		if !ok || !(f.VDSMax > 0) {

@@ -108,7 +108,7 @@ func filterAdvice(p *engine.Pass, figure func(*analysis.Case) (float64, bool), u
 		s = fmt.Sprintf("In the case judged the passband is centred at %s with a 3 dB bandwidth of %s (the band is %s to %s, centre %s). ",
 			hz(shape.CenterHz), hz(shape.BandwidthHz), hz(c.Band[0]), hz(c.Band[1]), hz(c.BandCentre()))
 	}
-	ms := spread(p.Circuit, p.NominalCircuit, figure)
+	ms := spread(p, figure)
 	if t := spreadText(ms, u, 3); t != "" {
 		s += t
 		if short > 0 && math.Abs(ms[0].delta) < short {

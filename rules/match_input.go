@@ -54,18 +54,20 @@ func runMatchInput(p *engine.Pass) error {
 		}
 	}
 	b := res.Band[worst]
-	m, l := approx2(b.ReturnLossDB, minDB, quantity.Ratio)
-	msg := fmt.Sprintf("input %s has %s dB of return loss at %s (Zin %s against %s), needs at least %s dB",
-		port.Name, m, quantity.Approx(b.Frequency, quantity.Hertz),
-		complexOhms(b.InputImpedance), quantity.Approx(port.Impedance, quantity.Ohm), l)
-	if real(b.InputImpedance) < 0 {
-		msg += fmt.Sprintf("; the input resistance is negative (%s), a poor match: whether the stage oscillates "+
-			"is judged by stability.oscillation and stability.unconditional",
-			quantity.Approx(real(b.InputImpedance), quantity.Ohm))
-	}
 	f := engine.Finding{Part: port.Name,
 		HasMetric: true, Measured: b.ReturnLossDB, Limit: minDB, Comparison: ">=", Unit: "dB",
-		Message: msg}
+		MessageLater: func() string {
+			m, l := approx2(b.ReturnLossDB, minDB, quantity.Ratio)
+			msg := fmt.Sprintf("input %s has %s dB of return loss at %s (Zin %s against %s), needs at least %s dB",
+				port.Name, m, quantity.Approx(b.Frequency, quantity.Hertz),
+				complexOhms(b.InputImpedance), quantity.Approx(port.Impedance, quantity.Ohm), l)
+			if real(b.InputImpedance) < 0 {
+				msg += fmt.Sprintf("; the input resistance is negative (%s), a poor match: whether the stage oscillates "+
+					"is judged by stability.oscillation and stability.unconditional",
+					quantity.Approx(real(b.InputImpedance), quantity.Ohm))
+			}
+			return msg
+		}}
 	if engine.Fails(b.ReturnLossDB, minDB, ">=") {
 		f.FixLater = func() (string, []engine.Change) { return matchAdvice(p, port, b), nil }
 	}

@@ -76,12 +76,12 @@ func runNoiseFigure(p *engine.Pass) error {
 	pt := pts[worst]
 	env := c.Environment
 	f := engine.Finding{HasMetric: true, Measured: rise, Limit: maxRise, Comparison: "<=", Unit: "dB", AtHz: pt.Frequency}
-	floor := fmt.Sprintf("the %s man-made noise", env)
-	if gal {
-		floor = "galactic noise"
-	}
-	shares := pt.Shares()
 	f.MessageLater = func() string {
+		floor := fmt.Sprintf("the %s man-made noise", env)
+		if gal {
+			floor = "galactic noise"
+		}
+		shares := pt.Shares()
 		m, l := approx2(rise, maxRise, quantity.Ratio)
 		msg := fmt.Sprintf("NF %s dB (noise temperature %s K) at %s raises the external noise floor (%s, %s dB above kT0, ITU-R P.372) by %s dB",
 			quantity.Approx(pt.NFDB, quantity.Ratio), quantity.Approx(pt.TemperatureK, quantity.Ratio),
@@ -98,7 +98,7 @@ func runNoiseFigure(p *engine.Pass) error {
 		f.Fix = fmt.Sprintf("a noise figure of at most %s dB at %s keeps the rise within %s dB in a %s environment",
 			quantity.Approx(noise.AllowedNF(fa, maxRise), quantity.Ratio), quantity.Approx(pt.Frequency, quantity.Hertz),
 			quantity.Approx(maxRise, quantity.Ratio), env)
-		if s := shareText(shares); s != "" {
+		if s := shareText(pt.Shares()); s != "" {
 			f.Fix += "; the stage's own noise comes mostly from " + s + ": quieten those first (a larger bias " +
 				"resistor off the signal path, less resistance in series with the input, the transistor's " +
 				"current nearer the optimum for the source resistance)"

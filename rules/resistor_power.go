@@ -48,6 +48,13 @@ func runResistorPower(p *engine.Pass) error {
 	maxLoad, knee, zero := p.Param("max_load"), p.Param("knee"), p.Param("zero")
 	ambient := p.Circuit.Ambient.Nominal
 	der := derating(ambient, knee, zero)
+	n := 0
+	for _, part := range p.Circuit.Parts {
+		if part.Kind == circuit.Resistor || part.Kind == circuit.Potentiometer {
+			n++
+		}
+	}
+	msgs := engine.NewBlock[powerMsg](n)
 	for _, part := range p.Circuit.Parts {
 		if part.Kind != circuit.Resistor && part.Kind != circuit.Potentiometer {
 			continue
@@ -71,36 +78,15 @@ func runResistorPower(p *engine.Pass) error {
 		}
 
 		// What is judged: the whole part, or the worse potentiometer section.
-		power, share, what := st.Power, 1.0, part.Ref
+		power, share, what := st.Power, 1.0, section{ref: part.Ref, i: -1}
 		if part.Kind == circuit.Potentiometer {
 			power, share, what = worseSection(part.Ref, st.Sections, rating*der)
 		}
 		load := power / (rating * share * der)
 
-		msg := func() string {
-			msg := part.Ref + " dissipates "
-			if what != part.Ref {
-				msg = what + " dissipates "
-			}
-			msg += fmt.Sprintf("%s, %s of its %s rating", quantity.Approx(power, quantity.Watt), pct(load),
-				quantity.Approx(rating*share, quantity.Watt))
-			if share < 1 {
-				msg += fmt.Sprintf(" (its %s share of the %s part)", pct(share), quantity.Approx(rating, quantity.Watt))
-			}
-			if der < 1 {
-				msg += fmt.Sprintf(" derated to %s at %s", quantity.Approx(rating*share*der, quantity.Watt), temp(ambient))
-			} else {
-				msg += " at " + temp(ambient)
-			}
-			msg += fmt.Sprintf(", at most %s", pct(maxLoad))
-			if !given {
-				msg += fmt.Sprintf(" (no rating given: judged as %s, the rule set's default_rating)", quantity.Approx(rating, quantity.Watt))
-			}
-			return msg + runsHot(load)
-		}
-
 		f := engine.Finding{Part: part.Ref, HasMetric: true, Measured: load, Limit: maxLoad,
-			Comparison: "<=", Unit: "fraction", Absolute: load, MessageLater: msg}
+			Comparison: "<=", Unit: "fraction", Absolute: load,
+			Messenger: msgs.Add(powerMsg{what, power, load, rating, share, der, ambient, maxLoad, given})}
 		if engine.Fails(load, maxLoad, "<=") {
 			f.Fix, f.Changes = resistorRatingFix(part.Ref, power/(share*der*maxLoad), power/(share*der), ambient)
 		}
@@ -109,17 +95,56 @@ func runResistorPower(p *engine.Pass) error {
 	return nil
 }
 
+// powerMsg is a resistor's message figures.
+type powerMsg struct {
+	what                                          section
+	power, load, rating, share, der, ambient, max float64
+	given                                         bool
+}
+
+func (m *powerMsg) Message() string {
+	msg := m.what.String() + " dissipates "
+	msg += fmt.Sprintf("%s, %s of its %s rating", quantity.Approx(m.power, quantity.Watt), pct(m.load),
+		quantity.Approx(m.rating*m.share, quantity.Watt))
+	if m.share < 1 {
+		msg += fmt.Sprintf(" (its %s share of the %s part)", pct(m.share), quantity.Approx(m.rating, quantity.Watt))
+	}
+	if m.der < 1 {
+		msg += fmt.Sprintf(" derated to %s at %s", quantity.Approx(m.rating*m.share*m.der, quantity.Watt), temp(m.ambient))
+	} else {
+		msg += " at " + temp(m.ambient)
+	}
+	msg += fmt.Sprintf(", at most %s", pct(m.max))
+	if !m.given {
+		msg += fmt.Sprintf(" (no rating given: judged as %s, the rule set's default_rating)", quantity.Approx(m.rating, quantity.Watt))
+	}
+	return msg + runsHot(m.load)
+}
+
+// section is what resistor.power judges of a part: the whole part (i −1)
+// or a potentiometer's section i, named only for a message.
+type section struct {
+	ref string
+	i   int
+}
+
+func (s section) String() string {
+	if s.i < 0 {
+		return s.ref
+	}
+	return fmt.Sprintf("%s's %s section", s.ref, [2]string{"a–wiper", "wiper–b"}[s.i])
+}
+
 // worseSection picks the potentiometer section with the larger load: each
 // section is rated in proportion to its share of the track.
-func worseSection(ref string, s [2]dc.Section, derated float64) (power, share float64, what string) {
+func worseSection(ref string, s [2]dc.Section, derated float64) (power, share float64, what section) {
 	total := s[0].R + s[1].R
-	names := [2]string{"a–wiper", "wiper–b"}
 	best := -1.0
 	for i := range s {
 		sh := s[i].R / total
 		load := s[i].Power / (derated * sh)
 		if load > best {
-			best, power, share, what = load, s[i].Power, sh, fmt.Sprintf("%s's %s section", ref, names[i])
+			best, power, share, what = load, s[i].Power, sh, section{ref, i}
 		}
 	}
 	return power, share, what

@@ -57,13 +57,19 @@ func runSafetyVoltage(p *engine.Pass) error {
 	volts := c.Supply(top.Net).Volts
 	span := hi - lo
 	limit := p.Param("max_volts")
+	net := top.Net
 	f := engine.Finding{Part: top.Net,
 		HasMetric: true, Measured: span, Limit: limit, Comparison: "<=", Unit: "V",
-		Message: fmt.Sprintf("the rails span %s (%s at %s), the limit for safety extra-low voltage is %s",
-			quantity.Approx(span, quantity.Volt), top.Net, quantity.Approx(volts, quantity.Volt),
-			quantity.Approx(limit, quantity.Volt))}
+		MessageLater: func() string {
+			msg := fmt.Sprintf("the rails span %s (%s at %s), the limit for safety extra-low voltage is %s",
+				quantity.Approx(span, quantity.Volt), net, quantity.Approx(volts, quantity.Volt),
+				quantity.Approx(limit, quantity.Volt))
+			if engine.Fails(span, limit, "<=") {
+				msg += ": " + safetyCaution
+			}
+			return msg
+		}}
 	if engine.Fails(span, limit, "<=") {
-		f.Message += ": " + safetyCaution
 		f.Fix = fmt.Sprintf("no value change makes this safe: bring every rail within %s of every other, or %s",
 			quantity.Approx(limit, quantity.Volt), safetyCaution)
 	}

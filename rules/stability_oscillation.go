@@ -43,7 +43,7 @@ var StabilityOscillation = &engine.Rule{
 }
 
 func runStabilityOscillation(p *engine.Pass) error {
-	if p.A.AC == nil || len(bjts(p)) == 0 {
+	if p.A.AC == nil || !hasBJT(p) {
 		return nil // a passive network cannot oscillate
 	}
 	r, err := poles.Find(p.Circuit, p.A.AC)

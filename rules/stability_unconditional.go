@@ -43,7 +43,7 @@ var StabilityUnconditional = &engine.Rule{
 }
 
 func runStabilityUnconditional(p *engine.Pass) error {
-	if p.A.AC == nil || len(bjts(p)) == 0 {
+	if p.A.AC == nil || !hasBJT(p) {
 		return nil // a passive circuit cannot oscillate
 	}
 	sw, ok := sweepOf(p.A)
@@ -53,7 +53,6 @@ func runStabilityUnconditional(p *engine.Pass) error {
 	minMu := p.Param("min_mu")
 	c := p.Circuit
 	var f engine.Finding
-	var judge stableJudge
 	if sw.TwoPort {
 		f = engine.Finding{HasMetric: true, Measured: sw.MuMin, Limit: minMu, Comparison: ">=", Unit: "ratio", AtHz: sw.MuMinHz}
 		lo, hi := failRange(sw, func(pt sweep.Point) bool { return pt.Mu < minMu })
@@ -75,7 +74,6 @@ func runStabilityUnconditional(p *engine.Pass) error {
 			}
 			return msg
 		}
-		judge = func(cs *analysis.Case) bool { return sweepHolds(cs, true, minMu) }
 	} else {
 		port := c.InPort()
 		if sw.OnePort == "out" {
@@ -93,9 +91,13 @@ func runStabilityUnconditional(p *engine.Pass) error {
 			}
 			return msg
 		}
-		judge = func(cs *analysis.Case) bool { return sweepHolds(cs, false, 0) }
 	}
 	if engine.Fails(f.Measured, f.Limit, f.Comparison) {
+		// What a fix must make of the sweep, made only for a failing item.
+		judge := stableJudge(func(cs *analysis.Case) bool { return sweepHolds(cs, false, 0) })
+		if sw.TwoPort {
+			judge = func(cs *analysis.Case) bool { return sweepHolds(cs, true, minMu) }
+		}
 		f.FixLater = func() (string, []engine.Change) {
 			same := func(r float64, _ bool) float64 { return r }
 			return stabilityFix(p, transistorsBy(c, nil), judge, same), nil

@@ -269,7 +269,7 @@ func tankShift(p *engine.Pass, ref string) float64 {
 // tankRanking ranks the parts by how far their tolerance moves the tank's
 // loaded resonance, in the case judged.
 func tankRanking(p *engine.Pass, t filter.Tank) string {
-	ms := spread(p.Circuit, p.NominalCircuit, func(cs *analysis.Case) (float64, bool) {
+	ms := spread(p, func(cs *analysis.Case) (float64, bool) {
 		if cs.AC == nil {
 			return 0, false
 		}

@@ -1,19 +1,21 @@
 package rules
 
 import (
+	"iter"
+
 	"headroom/checker/circuit"
 	"headroom/checker/engine"
 )
 
-// fets lists the circuit's field-effect transistors in file order.
-func fets(p *engine.Pass) []*circuit.Part {
-	var out []*circuit.Part
-	for _, part := range p.Circuit.Parts {
-		if part.Kind.IsFET() && part.FET != nil {
-			out = append(out, part)
+// fets yields the circuit's field-effect transistors in file order.
+func fets(p *engine.Pass) iter.Seq[*circuit.Part] {
+	return func(yield func(*circuit.Part) bool) {
+		for _, part := range p.Circuit.Parts {
+			if part.Kind.IsFET() && part.FET != nil && !yield(part) {
+				return
+			}
 		}
 	}
-	return out
 }
 
 // fetSafety is the caution every FET finding about heat or voltage carries.

@@ -45,19 +45,17 @@ func roundUpE12(v float64) float64 {
 type capGroup struct {
 	Parts []*circuit.Part // the case's parts, in file order; Parts[0] names the finding
 	A, B  string          // the nets, as the first part writes them
+	names []string        // the parts' references, for Impedance's removed list
+
+	one     [1]*circuit.Part // storage for a group of one part
+	oneName [1]string
 }
 
 // first is the part the finding names and the fix changes.
 func (g *capGroup) first() *circuit.Part { return g.Parts[0] }
 
 // refs lists the group's references, for Impedance's removed list.
-func (g *capGroup) refs() []string {
-	out := make([]string, len(g.Parts))
-	for i, p := range g.Parts {
-		out[i] = p.Ref
-	}
-	return out
-}
+func (g *capGroup) refs() []string { return g.names }
 
 // capacitance is the group's capacitance at the case judged: the sum of the
 // case's values (at a corner the circuit already holds the corner values).
@@ -82,30 +80,51 @@ func (g *capGroup) name() string {
 // found by the topology) into groups by their unordered pair of nets, in the
 // file order of each group's first part. A capacitor with both ends on one
 // net is left out: nothing is across it.
-func capacitorGroups(p *engine.Pass, role string) []*capGroup {
-	var out []*capGroup
-	byNets := map[[2]string]*capGroup{}
+func capacitorGroups(p *engine.Pass, role string) []capGroup {
+	n := 0
 	for _, part := range p.Circuit.Parts {
-		if part.Kind != circuit.Capacitor || len(part.Nets) != 2 || p.A.Topo.Roles[part.Ref] != role {
+		if isGrouped(p, part, role) {
+			n++
+		}
+	}
+	if n == 0 {
+		return nil
+	}
+	// One block for the groups (the reactance rules gather them at every
+	// case of a worst-case search); a group's first part and name are kept
+	// in the group itself, and the rare second part of a group copies them.
+	groups := make([]capGroup, 0, n)
+	for _, part := range p.Circuit.Parts {
+		if !isGrouped(p, part, role) {
 			continue
 		}
 		a, b := part.Nets[0], part.Nets[1]
-		if a == b {
-			continue
-		}
-		key := [2]string{a, b}
-		if b < a {
-			key = [2]string{b, a}
-		}
-		if g := byNets[key]; g != nil {
+		if g := groupOn(groups, a, b); g != nil {
 			g.Parts = append(g.Parts, part)
+			g.names = append(g.names, part.Ref)
 			continue
 		}
-		g := &capGroup{Parts: []*circuit.Part{part}, A: a, B: b}
-		byNets[key] = g
-		out = append(out, g)
+		groups = append(groups, capGroup{A: a, B: b, one: [1]*circuit.Part{part}, oneName: [1]string{part.Ref}})
+		g := &groups[len(groups)-1]
+		g.Parts, g.names = g.one[:], g.oneName[:]
 	}
-	return out
+	return groups
+}
+
+// isGrouped reports whether part is a capacitor of role with something
+// across it (two nets, not the same one).
+func isGrouped(p *engine.Pass, part *circuit.Part, role string) bool {
+	return part.Kind == circuit.Capacitor && len(part.Nets) == 2 && p.A.Topo.Roles[part.Ref] == role && part.Nets[0] != part.Nets[1]
+}
+
+// groupOn is the group across nets a and b in either order, or nil.
+func groupOn(gs []capGroup, a, b string) *capGroup {
+	for i := range gs {
+		if g := &gs[i]; g.A == a && g.B == b || g.A == b && g.B == a {
+			return g
+		}
+	}
+	return nil
 }
 
 // groupImpedance is |the impedance the rest of the circuit presents across
@@ -156,22 +175,47 @@ func capacitorFix(p *engine.Pass, g *capGroup, maxX float64) (string, []engine.C
 	return b.String(), []engine.Change{{Part: first.Ref, Key: "value", To: quantity.Code(v, quantity.Farad)}}
 }
 
+// capWhy is the phrase that explains a group's limit, written only for a
+// message: say formats the figures kept beside it (a function literal that
+// captures nothing, so that judging a group allocates nothing for it).
+type capWhy struct {
+	say              func(w *capWhy) string
+	frac, z, ceiling float64
+	what             string
+}
+
+// capMsg is a capacitor group's message figures.
+type capMsg struct {
+	g            *capGroup
+	x, fLow, lim float64
+	why          capWhy
+}
+
+func (m *capMsg) Message() string {
+	return fmt.Sprintf("%s has %s of reactance at %s, needs at most %s (%s)", m.g.name(),
+		quantity.Approx(m.x, quantity.Ohm), quantity.Approx(m.fLow, quantity.Hertz),
+		quantity.Approx(m.lim, quantity.Ohm), m.why.say(&m.why))
+}
+
 // judgeCapacitorGroups reports, for every group of the role, the reactance
 // at the lowest frequency against limit(circuit impedance). limit returns
 // ok false where the item is not judged (decoupling.reactance below
 // min_ohms), and a phrase explaining the limit for the message.
-func judgeCapacitorGroups(p *engine.Pass, role string, limit func(z float64) (lim float64, why string, ok bool)) {
-	judgeCapacitorGroupsBy(p, role, func(_ *capGroup, z float64) (float64, string, bool) { return limit(z) })
+func judgeCapacitorGroups(p *engine.Pass, role string, limit func(z float64) (lim float64, why capWhy, ok bool)) {
+	judgeCapacitorGroupsBy(p, role, func(_ *capGroup, z float64) (float64, capWhy, bool) { return limit(z) })
 }
 
 // judgeCapacitorGroupsBy is judgeCapacitorGroups with a limit that may
 // depend on the group (or pass it over, returning false).
-func judgeCapacitorGroupsBy(p *engine.Pass, role string, limit func(g *capGroup, z float64) (lim float64, why string, ok bool)) {
+func judgeCapacitorGroupsBy(p *engine.Pass, role string, limit func(g *capGroup, z float64) (lim float64, why capWhy, ok bool)) {
 	if p.A.AC == nil {
 		return
 	}
 	w := omegaLow(p.Circuit)
-	for _, g := range capacitorGroups(p, role) {
+	groups := capacitorGroups(p, role)
+	msgs := engine.NewBlock[capMsg](len(groups))
+	for i := range groups {
+		g := &groups[i]
 		z, ok := groupImpedance(p, g)
 		if !ok {
 			continue
@@ -181,14 +225,9 @@ func judgeCapacitorGroupsBy(p *engine.Pass, role string, limit func(g *capGroup,
 			continue
 		}
 		x := 1 / (w * g.capacitance())
-		fLow := p.Circuit.Band[0]
 		f := engine.Finding{Part: g.first().Ref,
 			HasMetric: true, Measured: x, Limit: lim, Comparison: "<=", Unit: "ohm",
-			MessageLater: func() string {
-				return fmt.Sprintf("%s has %s of reactance at %s, needs at most %s (%s)", g.name(),
-					quantity.Approx(x, quantity.Ohm), quantity.Approx(fLow, quantity.Hertz),
-					quantity.Approx(lim, quantity.Ohm), why)
-			}}
+			Messenger: msgs.Add(capMsg{g: g, x: x, fLow: p.Circuit.Band[0], lim: lim, why: why})}
 		if engine.Fails(x, lim, "<=") {
 			f.Fix, f.Changes = capacitorFix(p, g, lim)
 		}

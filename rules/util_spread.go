@@ -8,6 +8,7 @@ import (
 
 	"headroom/checker/analysis"
 	"headroom/checker/circuit"
+	"headroom/checker/engine"
 	"headroom/checker/quantity"
 )
 
@@ -24,22 +25,26 @@ type mover struct {
 }
 
 // spread moves each part with a spread across its range in copies of the
-// case judged (cs), nominal values from nom, analyses each copy again and
-// measures it with figure; it returns the parts whose range changes the
-// figure, largest change first. figure reports false when it cannot be
-// measured in a copy (the part is then left out).
-func spread(cs, nom *circuit.Circuit, figure func(*analysis.Case) (float64, bool)) []mover {
+// case judged (p.Circuit), nominal values from p.NominalCircuit, analyses
+// each copy again and measures it with figure; it returns the parts whose
+// range changes the figure, largest change first. figure reports false
+// when it cannot be measured in a copy (the part is then left out). The
+// copies are wired as the nominal circuit, so they are analysed as the
+// worst-case search's cases are (p.Nominal.Vary: the same figures as a
+// fresh analysis, without building the netlist again).
+func spread(p *engine.Pass, figure func(*analysis.Case) (float64, bool)) []mover {
+	cs, nom, nominal := p.Circuit, p.NominalCircuit, p.Nominal
 	var out []mover
 	try := func(ref, key, tol string, edit func(p *circuit.Part, end float64)) {
 		var v [2]float64
 		for i, end := range []float64{-1, 1} {
 			c := cs.Clone()
-			p := c.Part(ref)
-			if p == nil {
+			part := c.Part(ref)
+			if part == nil {
 				return
 			}
-			edit(p, end)
-			x, ok := figure(analysis.Run(c, nil))
+			edit(part, end)
+			x, ok := figure(nominal.Vary(c))
 			if !ok {
 				return
 			}

@@ -74,7 +74,10 @@ func (f *lu) solveTransposeInto(dst, b []complex128) []complex128 {
 	copy(acc, b)
 	for j := range n {
 		r := &f.rows[j]
-		w := acc[j] / r.v[j-r.lo]
+		w, ok := f.diag[j].quo(acc[j])
+		if !ok {
+			w = acc[j] / r.v[j-r.lo]
+		}
 		acc[j] = w
 		if w == 0 {
 			continue

@@ -3,7 +3,6 @@ package ac
 import (
 	"errors"
 	"math"
-	"math/cmplx"
 )
 
 // errSingular reports a zero pivot: the network has no unique solution at
@@ -25,6 +24,7 @@ type lu struct {
 	n    int
 	piv  []int // row i of the factors is row piv[i] of the original
 	rows []row
+	diag []divisor // row i's pivot, prepared for the solves to divide by
 }
 
 // row is one row of a matrix being factorised: the entries of columns
@@ -55,6 +55,7 @@ type sparse struct {
 	room    []int        // capacity reserved for each row, from its first column
 	buf     []complex128 // the block the rows were cut from
 	piv, nz []int        // factor's: the factors' row order (kept by them) and scratch
+	diag    []divisor    // factor's: the pivots (kept by the factors)
 	f       lu           // the factors factor returns (a later factor of m replaces them)
 }
 
@@ -158,9 +159,9 @@ func (m *sparse) factor() (*lu, error) {
 	n := m.n
 	rows := m.rows
 	if len(m.piv) != n {
-		m.piv, m.nz = make([]int, n), make([]int, 0, n)
+		m.piv, m.nz, m.diag = make([]int, n), make([]int, 0, n), make([]divisor, n)
 	}
-	piv, nz := m.piv, m.nz
+	piv, nz, diag := m.piv, m.nz, m.diag
 	for i := range piv {
 		piv[i] = i
 	}
@@ -184,7 +185,12 @@ func (m *sparse) factor() (*lu, error) {
 			piv[k], piv[p] = piv[p], piv[k]
 		}
 		rk := &rows[k]
-		inv := 1 / rk.at(k)
+		pk := rk.at(k)
+		diag[k] = newDivisor(pk)
+		inv, ok := diag[k].quo(1)
+		if !ok {
+			inv = 1 / pk
+		}
 		nz = nz[:0]
 		for j := k + 1; j <= rk.hi(); j++ {
 			if rk.v[j-rk.lo] != 0 {
@@ -213,7 +219,9 @@ func (m *sparse) factor() (*lu, error) {
 			}
 		}
 	}
-	m.f = lu{n: n, piv: piv, rows: rows}
+	if m.f.rows == nil { // the same slices every time: written once
+		m.f = lu{n: n, piv: piv, rows: rows, diag: diag}
+	}
 	return &m.f, nil
 }
 
@@ -247,7 +255,11 @@ func (f *lu) solveInto(dst, b []complex128) []complex128 {
 				s -= v * x[j]
 			}
 		}
-		x[i] = s / r.v[i-r.lo]
+		q, ok := f.diag[i].quo(s)
+		if !ok {
+			q = s / r.v[i-r.lo]
+		}
+		x[i] = q
 	}
 	return x
 }
@@ -288,9 +300,101 @@ func (f *lu) solvePart(dst, b []complex128, stop int) []complex128 {
 				s -= v * x[j]
 			}
 		}
-		x[i] = s / r.v[i-r.lo]
+		q, ok := f.diag[i].quo(s)
+		if !ok {
+			q = s / r.v[i-r.lo]
+		}
+		x[i] = q
 	}
 	return x
+}
+
+// solvePair is solvePart for the unit right-hand sides e_a and e_b at once,
+// into x and y (length n each): the two substitutions run side by side over
+// the same rows, each doing exactly solvePart's arithmetic, so that the
+// processor overlaps the two chains of divisions. Where the later start of
+// one leaves it rows before its own first non-zero, its entries there stay
+// +0 and change nothing, as in solvePart.
+func (f *lu) solvePair(x, y []complex128, a, b, stop int) {
+	n := f.n
+	x, y = x[:n], y[:n]
+	pa, pb := n, n // positions of a and b in the factors' row order
+	for i, p := range f.piv {
+		if p == a {
+			pa = i
+		}
+		if p == b {
+			pb = i
+		}
+	}
+	first := min(pa, pb)
+	for i := min(stop, first); i < n; i++ {
+		x[i], y[i] = 0, 0
+	}
+	x[pa], y[pb] = 1, 1
+	for i := max(first, 1); i < n; i++ {
+		r := &f.rows[i]
+		s, t := x[i], y[i]
+		for j := max(r.lo, first); j < i; j++ {
+			if v := r.v[j-r.lo]; v != 0 {
+				s -= v * x[j]
+				t -= v * y[j]
+			}
+		}
+		x[i], y[i] = s, t
+	}
+	for i := n - 1; i >= stop; i-- {
+		r := &f.rows[i]
+		s, t := x[i], y[i]
+		for j := i + 1; j <= r.hi(); j++ {
+			if v := r.v[j-r.lo]; v != 0 {
+				s -= v * x[j]
+				t -= v * y[j]
+			}
+		}
+		q, ok := f.diag[i].quo(s)
+		if !ok {
+			q = s / r.v[i-r.lo]
+		}
+		u, ok := f.diag[i].quo(t)
+		if !ok {
+			u = t / r.v[i-r.lo]
+		}
+		x[i], y[i] = q, u
+	}
+}
+
+// divisor is a complex number m prepared for dividing by it: the first half
+// of Smith's algorithm (R. L. Smith, Algorithm 116: Complex division, Commun.
+// ACM 5(8), 1962, 435) exactly as the Go runtime performs n/m, done once for
+// a pivot that divides a whole column or solve. quo(n) is then bit for bit
+// n/m, with two real divisions instead of three and no call: the solves
+// divide by every pivot.
+//
+// The runtime takes one of two branches, e = (a + b·r)/den, f = (b − a·r)/den
+// when |Re m| ≥ |Im m| and e = (a·r + b)/den, f = (b·r − a)/den otherwise
+// (n = a + ib, r and den from m). Both are e = (a·p + b·q)/den,
+// f = (b·p − a·q)/den with (p, q) = (1, r) or (r, 1): a product with 1 is
+// exact, so quo needs no branch.
+type divisor struct{ p, q, denom float64 }
+
+// newDivisor prepares m.
+func newDivisor(m complex128) divisor {
+	re, im := real(m), imag(m)
+	if math.Abs(re) >= math.Abs(im) {
+		r := im / re
+		return divisor{1, r, re + r*im}
+	}
+	r := re / im
+	return divisor{r, 1, im + r*re}
+}
+
+// quo returns n/m and true, or false where both parts come out NaN: there
+// the runtime goes on to correct the result to C99's infinities and zeros,
+// and the caller divides with the operator instead.
+func (q *divisor) quo(n complex128) (complex128, bool) {
+	e, f := (real(n)*q.p+imag(n)*q.q)/q.denom, (imag(n)*q.p-real(n)*q.q)/q.denom
+	return complex(e, f), e == e || f == f
 }
 
 // abs1 is |re| + |im|, a cheap magnitude good enough for choosing pivots.
@@ -315,11 +419,12 @@ func invert(a []complex128, m int) ([]complex128, error) {
 func invertInto(out, a []complex128, m int) error {
 	var pivBuf [8]int
 	var xBuf [8]complex128
-	piv, x := pivBuf[:0], xBuf[:0]
+	var diagBuf [8]divisor
+	piv, x, diag := pivBuf[:0], xBuf[:0], diagBuf[:0]
 	if m > len(pivBuf) {
-		piv, x = make([]int, 0, m), make([]complex128, 0, m)
+		piv, x, diag = make([]int, 0, m), make([]complex128, 0, m), make([]divisor, 0, m)
 	}
-	piv, x = piv[:m], x[:m]
+	piv, x, diag = piv[:m], x[:m], diag[:m]
 	for i := range piv {
 		piv[i] = i
 	}
@@ -340,7 +445,11 @@ func invertInto(out, a []complex128, m int) error {
 			piv[k], piv[p] = piv[p], piv[k]
 		}
 		rk := a[k*m : (k+1)*m]
-		inv := 1 / rk[k]
+		diag[k] = newDivisor(rk[k])
+		inv, ok := diag[k].quo(1)
+		if !ok {
+			inv = 1 / rk[k]
+		}
 		for i := k + 1; i < m; i++ {
 			ri := a[i*m : (i+1)*m]
 			mult := ri[k]
@@ -379,7 +488,11 @@ func invertInto(out, a []complex128, m int) error {
 					s -= v * x[j]
 				}
 			}
-			x[i] = s / a[i*m+i]
+			q, ok := diag[i].quo(s)
+			if !ok {
+				q = s / a[i*m+i]
+			}
+			x[i] = q
 		}
 		for i, v := range x {
 			out[i*m+col] = v
@@ -388,5 +501,6 @@ func invertInto(out, a []complex128, m int) error {
 	return nil
 }
 
-// finite reports whether z has no NaN or infinite part.
-func finite(z complex128) bool { return !cmplx.IsNaN(z) && !cmplx.IsInf(z) }
+// finite reports whether z has no NaN or infinite part: x − x is 0 for a
+// finite x and NaN for an infinite or NaN one.
+func finite(z complex128) bool { return real(z)-real(z) == 0 && imag(z)-imag(z) == 0 }

@@ -270,7 +270,8 @@ func TestFactorMatchesDense(t *testing.T) {
 }
 
 // TestSolvePartMatchesSolve: the entries solvePart computes are solve's, bit
-// for bit, for right-hand sides like a branch's (a few ±1, the rest +0).
+// for bit, for right-hand sides like a branch's (a few ±1, the rest +0), and
+// so are solvePair's for two unit right-hand sides.
 func TestSolvePartMatchesSolve(t *testing.T) {
 	rng := rand.New(rand.NewPCG(9, 3))
 	compared := 0
@@ -303,8 +304,74 @@ func TestSolvePartMatchesSolve(t *testing.T) {
 			}
 		}
 		compared++
+		// solvePair: two unit right-hand sides at once.
+		ea, eb := make([]complex128, n), make([]complex128, n)
+		na, nc := rng.IntN(n), rng.IntN(n)
+		ea[na], eb[nc] = 1, 1
+		x, y := make([]complex128, n), make([]complex128, n)
+		f.solvePair(x, y, na, nc, stop)
+		wa, wb := f.solve(ea), f.solve(eb)
+		for i := stop; i < n; i++ {
+			if !sameBits(x[i], wa[i]) || !sameBits(y[i], wb[i]) {
+				t.Fatalf("trial %d (n %d, stop %d): pair gives x[%d] = %v, %v; solve %v, %v", trial, n, stop, i, x[i], y[i], wa[i], wb[i])
+			}
+		}
 	}
 	if compared < 200 {
 		t.Errorf("only %d systems compared", compared)
+	}
+}
+
+// TestDivisorMatchesDivision: a prepared divisor divides bit for bit as Go's
+// own complex division does (the Go runtime's complex128div, Smith's
+// algorithm with the C99 corrections), on ordinary, tiny, huge, signed-zero,
+// infinite and NaN parts.
+func TestDivisorMatchesDivision(t *testing.T) {
+	rng := rand.New(rand.NewPCG(5, 8))
+	special := []float64{0, math.Copysign(0, -1), 1, -1, 2.5, 5e-324, -1e-310, 1e308, -3e307,
+		math.Inf(1), math.Inf(-1), math.NaN()}
+	part := func() float64 {
+		if rng.IntN(3) == 0 {
+			return special[rng.IntN(len(special))]
+		}
+		return rng.NormFloat64() * math.Pow(10, float64(rng.IntN(40)-20))
+	}
+	same := func(a, b complex128) bool {
+		eq := func(x, y float64) bool {
+			return math.Float64bits(x) == math.Float64bits(y) || (math.IsNaN(x) && math.IsNaN(y))
+		}
+		return eq(real(a), real(b)) && eq(imag(a), imag(b))
+	}
+	fixed := 0 // left to the operator
+	for range 200000 {
+		m, n := complex(part(), part()), complex(part(), part())
+		q := newDivisor(m)
+		if got, ok := q.quo(n); ok && !same(got, n/m) {
+			t.Fatalf("(%v)/(%v): divisor %v, operator %v", n, m, got, n/m)
+		} else if !ok {
+			fixed++
+		}
+		one := complex(1, 0)
+		if got, ok := q.quo(1); ok && !same(got, one/m) {
+			t.Fatalf("1/(%v): divisor %v, operator %v", m, got, one/m)
+		}
+	}
+	if fixed == 0 || fixed > 50000 {
+		t.Errorf("%d of 200000 quotients left to the operator", fixed)
+	}
+}
+
+// TestFinite: finite agrees with math/cmplx on every mix of ordinary,
+// zero, subnormal, huge, infinite and NaN parts.
+func TestFinite(t *testing.T) {
+	parts := []float64{0, math.Copysign(0, -1), 1, -2.5, 5e-324, math.MaxFloat64, -math.MaxFloat64,
+		math.Inf(1), math.Inf(-1), math.NaN()}
+	for _, re := range parts {
+		for _, im := range parts {
+			z := complex(re, im)
+			if want := !cmplx.IsNaN(z) && !cmplx.IsInf(z); finite(z) != want {
+				t.Errorf("finite(%v) = %v, want %v", z, finite(z), want)
+			}
+		}
 	}
 }

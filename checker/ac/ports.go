@@ -32,9 +32,11 @@ func (r *Result) Ports(f float64) (PortPoint, error) {
 }
 
 // PortsEach computes the two-port at each frequency in turn and hands it to
-// fn, reusing one matrix and one set of scratch vectors for all of them (the
-// sparsity pattern is the same at every frequency); nothing is kept after it
-// returns. It stops at the first error, fn's included.
+// fn; nothing is kept after it returns. It stops at the first error, fn's
+// included. Everything that depends only on the wiring is prepared at the
+// first frequency and reused at every other (portSolver): the matrix's
+// memory and spans, where each admittance entry lands, the pivots' and the
+// solves' scratch; a frequency only writes values and factorises them.
 func (r *Result) PortsEach(freqs []float64, fn func(PortPoint) error) error {
 	nw := r.net
 	tmpl := PortPoint{HasIn: nw.hasIn && nw.inNode != ground, HasOut: nw.hasOut && nw.outNd != ground}
@@ -44,12 +46,16 @@ func (r *Result) PortsEach(freqs []float64, fn func(PortPoint) error) error {
 	if tmpl.HasOut {
 		tmpl.RL = nw.rl
 	}
-	n := nw.n
-	d := nw.admBlock() // rewritten at every frequency
-	var blank, y *sparse
-	rhs, x := make([]complex128, n), make([]complex128, n)
+	d, flat := admFlat(nw) // rewritten at every frequency
+	var ps *portSolver
 	nodes := [2]int{nw.inNode, nw.outNd}
 	has := [2]bool{tmpl.HasIn, tmpl.HasOut}
+	stop := nw.n // the lowest port node: the solves need x from there on
+	for j := range 2 {
+		if has[j] {
+			stop = min(stop, nodes[j])
+		}
+	}
 	for _, f := range freqs {
 		p := tmpl
 		p.Frequency = f
@@ -69,41 +75,32 @@ func (r *Result) PortsEach(freqs []float64, fn func(PortPoint) error) error {
 				return fmt.Errorf("%s at %g Hz: %w", name(*e), f, err)
 			}
 		}
-		if blank == nil {
-			lo, hi := make([]int, n), make([]int, n)
-			for i := range n {
-				lo[i], hi[i] = i, i
-			}
-			for i, e := range nw.elems {
-				span(lo, hi, e.branches, d[i])
-			}
-			blank = newSparse(n, lo, hi)
+		if ps == nil {
+			ps = newPortSolver(nw, d, nil, nil)
 		}
-		y = blank.cloneInto(y)
-		for i := range n {
-			y.add(i, i, Gmin)
+		if !ps.assemble(flat) {
+			// An entry that was zero where the spans were drawn is not
+			// now: widen them by this frequency's entries and start again.
+			ps = newPortSolver(nw, d, ps.lo, ps.hi)
+			ps.assemble(flat)
 		}
-		for i, e := range nw.elems {
-			if i != nw.source && i != nw.load {
-				stamp(y, e.branches, d[i], 1)
-			}
-		}
-		fa, err := y.factor()
+		fa, err := ps.m.factor()
 		if err != nil {
 			return fmt.Errorf("two-port at %g Hz: %w", f, err)
 		}
-		for j := range 2 {
-			if !has[j] {
-				continue
-			}
-			clear(rhs)
-			rhs[nodes[j]] = 1
-			fa.solveInto(x, rhs)
+		if has[0] && has[1] {
+			fa.solvePair(ps.x, ps.y, nodes[0], nodes[1], stop)
 			for i := range 2 {
-				if has[i] {
-					p.Z[i][j] = x[nodes[i]]
-				}
+				p.Z[i][0], p.Z[i][1] = ps.x[nodes[i]], ps.y[nodes[i]]
 			}
+		} else {
+			j := 0
+			if has[1] {
+				j = 1
+			}
+			clear(ps.rhs)
+			ps.rhs[nodes[j]] = 1
+			p.Z[j][j] = fa.solvePart(ps.x, ps.rhs, stop)[nodes[j]]
 		}
 		for i := range 2 {
 			for j := range 2 {

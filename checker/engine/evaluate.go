@@ -3,6 +3,7 @@ package engine
 import (
 	"fmt"
 	"sort"
+	"sync/atomic"
 
 	"headroom/checker/analysis"
 	"headroom/checker/circuit"
@@ -59,20 +60,95 @@ func MeasureAppend(dst []Finding, cs *analysis.Case, nominal *analysis.Case, cfg
 	if nominal == nil {
 		nominal = cs
 	}
-	pos := positions(cs.Circuit)
+	runs := func(r *Rule) bool {
+		return r.Run != nil && cfg.Enabled(r) && !(r.NeedsCorners && !worst) && !(r.Static && cs != nominal)
+	}
+	n := 0
+	for _, r := range cfg.Rules {
+		if runs(r) {
+			n++
+		}
+	}
+	// One block for the passes: a rule's later message or fix may keep its
+	// pass, so each rule has its own, but not an allocation of its own.
+	passes := make([]Pass, 0, n)
+	pos := positionsOf(cs.Circuit)
 	all := dst // every pass appends to the one slice
 	for _, r := range cfg.Rules {
-		if r.Run == nil || !cfg.Enabled(r) || r.NeedsCorners && !worst || r.Static && cs != nominal {
+		if !runs(r) {
 			continue
 		}
-		p := &Pass{Circuit: cs.Circuit, A: cs, Params: cfg.Params[r.ID], Corners: worst,
-			Nominal: nominal, NominalCircuit: nominal.Circuit, rule: r, pos: pos, findings: all}
+		passes = append(passes, Pass{Circuit: cs.Circuit, A: cs, Params: cfg.Params[r.ID], Corners: worst,
+			Nominal: nominal, NominalCircuit: nominal.Circuit, rule: r, pos: pos, findings: all})
+		p := &passes[len(passes)-1]
 		if err := r.Run(p); err != nil {
 			return nil, fmt.Errorf("rule %s: %w", r.ID, err)
 		}
 		all = p.findings
 	}
 	return all, nil
+}
+
+// lastPositions is the index positionsOf built last, with the names and
+// positions it was built from: a worst-case search's cases all have their
+// nominal circuit's names and positions, so one index serves them all.
+var lastPositions atomic.Pointer[posIndex]
+
+type posIndex struct {
+	parts, ports, supplies int
+	names                  []string // the parts', ports' and supplies' names, in that order
+	places                 []circuit.Pos
+	pos                    map[string]circuit.Pos
+}
+
+// positionsOf is positions(c), reused from the last index built when c
+// names the same parts, ports and supplies in the same order at the same
+// positions as the circuit that index was built from.
+func positionsOf(c *circuit.Circuit) map[string]circuit.Pos {
+	if last := lastPositions.Load(); last != nil && last.fits(c) {
+		return last.pos
+	}
+	x := &posIndex{parts: len(c.Parts), ports: len(c.Ports), supplies: len(c.Supplies), pos: positions(c)}
+	for _, p := range c.Parts {
+		x.names, x.places = append(x.names, p.Ref), append(x.places, p.Pos)
+	}
+	for _, p := range c.Ports {
+		x.names, x.places = append(x.names, p.Name), append(x.places, p.Pos)
+	}
+	for _, s := range c.Supplies {
+		x.names, x.places = append(x.names, s.Net), append(x.places, s.Pos)
+	}
+	lastPositions.Store(x)
+	return x.pos
+}
+
+// fits reports whether c lists the names and positions x was built from.
+func (x *posIndex) fits(c *circuit.Circuit) bool {
+	if len(c.Parts) != x.parts || len(c.Ports) != x.ports || len(c.Supplies) != x.supplies {
+		return false
+	}
+	i := 0
+	same := func(name string, pos circuit.Pos) bool {
+		ok := x.names[i] == name && x.places[i] == pos
+		i++
+		return ok
+	}
+	for _, p := range c.Parts {
+		if !same(p.Ref, p.Pos) {
+			return false
+		}
+	}
+	for _, p := range c.Ports {
+		if !same(p.Name, p.Pos) {
+			return false
+		}
+	}
+	for _, s := range c.Supplies {
+		if !same(s.Net, s.Pos) {
+			return false
+		}
+	}
+	return true
 }
 
 // positions indexes where findings about each part, port and supply point,

@@ -39,6 +39,11 @@ type Finding struct {
 	// case it finally reports instead of at every corner. It must capture
 	// only what the message needs, not the whole case.
 	MessageLater func() string
+	// Messenger is MessageLater for a rule that keeps its items' message
+	// figures in one block per pass (engine.Block): a pointer into the
+	// block is an interface value without an allocation, where a closure
+	// per item is one, at every case of a worst-case search.
+	Messenger Messenger
 
 	// The metric, in SI base units. Comparison reads "Measured must be
 	// Comparison Limit".
@@ -90,13 +95,40 @@ type Change struct {
 	To   string `json:"to"`
 }
 
-// ResolveMessage fills Message from MessageLater, once.
+// Messenger writes a finding's message when it is needed (Finding.Messenger).
+type Messenger interface{ Message() string }
+
+// Block hands out storage for values that findings point at (a Messenger's
+// figures) from blocks of a few items each: one allocation per pass instead
+// of one per item. A value handed out stays where it is (a full block is
+// left to the values in it and a new one started).
+type Block[T any] struct{ s []T }
+
+// NewBlock starts a Block with room for n values.
+func NewBlock[T any](n int) Block[T] { return Block[T]{s: make([]T, 0, max(n, 1))} }
+
+// Add stores v and returns where it is.
+func (b *Block[T]) Add(v T) *T {
+	if len(b.s) == cap(b.s) {
+		b.s = make([]T, 0, max(2*cap(b.s), 4))
+	}
+	b.s = append(b.s, v)
+	return &b.s[len(b.s)-1]
+}
+
+// ResolveMessage fills Message from MessageLater or Messenger, once.
 func (f *Finding) ResolveMessage() {
 	if f.MessageLater != nil {
 		if f.Message == "" {
 			f.Message = f.MessageLater()
 		}
 		f.MessageLater = nil
+	}
+	if f.Messenger != nil {
+		if f.Message == "" {
+			f.Message = f.Messenger.Message()
+		}
+		f.Messenger = nil
 	}
 }
 

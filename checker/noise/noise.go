@@ -10,7 +10,9 @@ import (
 	"fmt"
 	"math"
 	"math/cmplx"
+	"slices"
 	"sort"
+	"strings"
 
 	"headroom/checker/ac"
 	"headroom/checker/circuit"
@@ -59,17 +61,40 @@ type Point struct {
 }
 
 // Band computes the noise at the band's three frequencies of r (lowest,
-// centre, highest).
+// centre, highest). The three points' contributions share one block, and
+// one buffer serves every part's transfers: a worst-case search runs this
+// at every case.
 func Band(c *circuit.Circuit, op *dc.Result, r *ac.Result) ([3]Point, error) {
 	var out [3]Point
+	n := maxContributions(c)
+	block := make([]Contribution, 0, len(r.Band)*n)
+	var h []complex128
 	for i, bp := range r.Band {
-		p, err := At(c, op, r, bp.Frequency)
+		p, err := atInto(c, op, r, bp.Frequency, block[len(block):len(block):len(block)+n], &h)
 		if err != nil {
 			return out, err
 		}
+		block = block[:len(block)+n]
 		out[i] = p
 	}
 	return out, nil
+}
+
+// maxContributions is how many sources c's parts have at most: three a
+// transistor, two a FET, one any other part.
+func maxContributions(c *circuit.Circuit) int {
+	n := 0
+	for _, part := range c.Parts {
+		switch {
+		case part.Kind.IsBJT():
+			n += 3
+		case part.Kind.IsFET():
+			n += 2
+		default:
+			n++
+		}
+	}
+	return n
 }
 
 // At computes the noise at f. The parts are at the case's ambient
@@ -87,6 +112,14 @@ func Band(c *circuit.Circuit, op *dc.Result, r *ac.Result) ([3]Point, error) {
 // channel is not modelled). Supplies and ports other than the in port
 // are noiseless; no flicker noise.
 func At(c *circuit.Circuit, op *dc.Result, r *ac.Result, f float64) (Point, error) {
+	var h []complex128
+	return atInto(c, op, r, f, make([]Contribution, 0, maxContributions(c)), &h)
+}
+
+// atInto is At appending the contributions to parts (which must have room for
+// maxContributions(c), so that nothing grows) and each part's transfers to
+// the buffer *hbuf.
+func atInto(c *circuit.Circuit, op *dc.Result, r *ac.Result, f float64, parts []Contribution, hbuf *[]complex128) (Point, error) {
 	p := Point{Frequency: f}
 	if !r.HasGain {
 		return p, nil
@@ -105,43 +138,43 @@ func At(c *circuit.Circuit, op *dc.Result, r *ac.Result, f float64) (Point, erro
 	hs, rs := adj.Source()
 	p.Source = sq(cmplx.Abs(hs)) * 4 * Boltzmann * T0 / rs
 	total := p.Source
+	p.Parts = parts
 	for _, part := range c.Parts {
-		h, d, err := adj.Branches(part.Ref)
+		h, d, err := adj.BranchesAppend((*hbuf)[:0], part.Ref)
 		if err != nil {
 			return p, err
 		}
-		var cs []Contribution
+		*hbuf = h
 		switch {
 		case part.Kind.IsBJT():
-			cs = bjtNoise(part, op, t, h)
+			bjtNoise(&p, &total, part, op, t, h)
 		case part.Kind.IsFET():
 			if q := op.FETs[part.Ref]; q != nil && len(h) > 0 {
 				gm := math.Abs(q.Jac[0][1])
-				cs = []Contribution{{part.Ref, "channel thermal", sq(cmplx.Abs(h[0])) * 4 * Boltzmann * t * Gamma * gm},
-					{part.Ref, "gate shot", sq(cmplx.Abs(h[1])) * 2 * Charge * math.Abs(q.IG)}}
+				p.add(&total, Contribution{part.Ref, "channel thermal", sq(cmplx.Abs(h[0])) * 4 * Boltzmann * t * Gamma * gm})
+				p.add(&total, Contribution{part.Ref, "gate shot", sq(cmplx.Abs(h[1])) * 2 * Charge * math.Abs(q.IG)})
 			}
 		default:
 			if pw := passive(h, d, t); pw > 0 {
-				cs = []Contribution{{part.Ref, "thermal", pw}}
-			}
-		}
-		for _, x := range cs {
-			if x.Power > 0 && !math.IsInf(x.Power, 0) {
-				p.Parts = append(p.Parts, x)
-				total += x.Power
+				p.add(&total, Contribution{part.Ref, "thermal", pw})
 			}
 		}
 	}
-	sort.SliceStable(p.Parts, func(i, j int) bool {
-		a, b := p.Parts[i], p.Parts[j]
+	slices.SortStableFunc(p.Parts, func(a, b Contribution) int {
 		if a.Power != b.Power {
-			return a.Power > b.Power
+			if a.Power > b.Power {
+				return -1
+			}
+			return 1
 		}
-		if a.Ref != b.Ref {
-			return a.Ref < b.Ref
+		if c := strings.Compare(a.Ref, b.Ref); c != 0 {
+			return c
 		}
-		return a.Source < b.Source
+		return strings.Compare(a.Source, b.Source)
 	})
+	if len(p.Parts) == 0 {
+		p.Parts = nil
+	}
 	if !(p.Source > 0) || math.IsInf(total, 0) || math.IsNaN(total) {
 		p.Parts = nil
 		return p, nil
@@ -169,21 +202,26 @@ func passive(h, d []complex128, t float64) float64 {
 	return 2 * Boltzmann * t * real(s)
 }
 
-// bjtNoise is a transistor's three (or, with rb = 0, two) sources on its
+// add counts a contribution that is a positive, finite power.
+func (p *Point) add(total *float64, x Contribution) {
+	if x.Power > 0 && !math.IsInf(x.Power, 0) {
+		p.Parts = append(p.Parts, x)
+		*total += x.Power
+	}
+}
+
+// bjtNoise adds a transistor's three (or, with rb = 0, two) sources on its
 // branches [b′–e, b′–c, c–e, b–b′].
-func bjtNoise(part *circuit.Part, op *dc.Result, t float64, h []complex128) []Contribution {
+func bjtNoise(p *Point, total *float64, part *circuit.Part, op *dc.Result, t float64, h []complex128) {
 	q := op.BJTs[part.Ref]
 	if q == nil || len(h) < 3 {
-		return nil
+		return
 	}
-	cs := []Contribution{
-		{part.Ref, "base shot", sq(cmplx.Abs(h[0])) * 2 * Charge * math.Abs(q.IB)},
-		{part.Ref, "collector shot", sq(cmplx.Abs(h[2])) * 2 * Charge * math.Abs(q.IC)},
-	}
+	p.add(total, Contribution{part.Ref, "base shot", sq(cmplx.Abs(h[0])) * 2 * Charge * math.Abs(q.IB)})
+	p.add(total, Contribution{part.Ref, "collector shot", sq(cmplx.Abs(h[2])) * 2 * Charge * math.Abs(q.IC)})
 	if len(h) == 4 && part.BJT != nil && part.BJT.RB > 0 {
-		cs = append(cs, Contribution{part.Ref, "rb thermal", sq(cmplx.Abs(h[3])) * 4 * Boltzmann * t / part.BJT.RB})
+		p.add(total, Contribution{part.Ref, "rb thermal", sq(cmplx.Abs(h[3])) * 4 * Boltzmann * t / part.BJT.RB})
 	}
-	return cs
 }
 
 func sq(x float64) float64 { return x * x }

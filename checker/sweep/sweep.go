@@ -7,9 +7,9 @@
 // potentially unstable a decade above them, where the transistor still has
 // gain and the bias network presents whatever it happens to be.
 //
-// Each frequency is assembled and factorised afresh through ac.Result.Ports,
-// which keeps nothing, so a sweep inside the worst-case search does not grow
-// the band analysis's per-frequency cache.
+// The sweep goes through ac.Result.PortsEach, which keeps nothing after it
+// returns, so a sweep inside the worst-case search does not grow the band
+// analysis's per-frequency cache.
 package sweep
 
 import (
@@ -18,6 +18,7 @@ import (
 	"math"
 	"math/cmplx"
 	"slices"
+	"sync"
 
 	"headroom/checker/ac"
 	"headroom/checker/circuit"
@@ -71,6 +72,9 @@ type Result struct {
 	MuMin, MuMinHz float64
 	// ReMin is the least Re PortZ over the sweep and ReMinHz where (both forms).
 	ReMin, ReMinHz float64
+	// Bare: the sweep of Stability, whose points leave out ReturnLossDB
+	// (zero), GainDB and VoltageGainDB (nil).
+	Bare bool
 }
 
 var errNoPort = errors.New("no port")
@@ -79,33 +83,85 @@ var errNoPort = errors.New("no port")
 // from a decade below the band's lowest frequency to twice the highest
 // transistor fT (ten times the band's highest frequency when there is no
 // transistor, or when that is higher), plus the band's three points.
-func Grid(c *circuit.Circuit) []float64 {
-	lo, hi := c.Band[0]/10, 10*c.Band[1]
+func Grid(c *circuit.Circuit) []float64 { return slices.Clone(grid(c)) }
+
+// gridKey is what a grid depends on: the band and the top of the sweep.
+type gridKey struct{ lo, hi, top float64 }
+
+// grids memoises the last few grids: every case of a worst-case search
+// sweeps over the same band, usually to the same top, and a grid costs a
+// power per point.
+var grids = struct {
+	sync.Mutex
+	m map[gridKey][]float64
+}{m: map[gridKey][]float64{}}
+
+// grid is Grid, shared: read it, never write it.
+func grid(c *circuit.Circuit) []float64 {
+	top := 10 * c.Band[1]
 	for _, p := range c.Parts {
 		if p.Kind.IsBJT() && p.BJT != nil && p.BJT.FT > 0 && !math.IsInf(p.BJT.FT, 0) {
-			hi = math.Max(hi, 2*p.BJT.FT)
+			top = math.Max(top, 2*p.BJT.FT)
 		}
 	}
+	k := gridKey{c.Band[0], c.Band[1], top}
+	grids.Lock()
+	fs, ok := grids.m[k]
+	grids.Unlock()
+	if ok {
+		return fs
+	}
+	fs = makeGrid(k)
+	grids.Lock()
+	if len(grids.m) >= 16 {
+		clear(grids.m) // other circuits: a check goes through them one by one
+	}
+	grids.m[k] = fs
+	grids.Unlock()
+	return fs
+}
+
+// makeGrid computes the grid of k.
+func makeGrid(k gridKey) []float64 {
+	lo, hi := k.lo/10, k.top
+	band := [2]float64{k.lo, k.hi}
 	n := int(math.Ceil(PerDecade * math.Log10(hi/lo)))
 	fs := make([]float64, 0, n+4)
 	for k := 0; k <= n; k++ {
 		fs = append(fs, lo*math.Pow(hi/lo, float64(k)/float64(n)))
 	}
-	fs = append(fs, c.Band[0], math.Sqrt(c.Band[0]*c.Band[1]), c.Band[1])
+	fs = append(fs, band[0], math.Sqrt(band[0]*band[1]), band[1])
 	slices.Sort(fs)
 	return slices.Compact(fs)
 }
 
 // Run sweeps r (the band analysis of c) over Grid(c).
 func Run(c *circuit.Circuit, r *ac.Result) (*Result, error) {
-	return RunAt(r, Grid(c))
+	return RunAt(r, grid(c))
+}
+
+// Stability is Run for the stability rules, which read only S, μ, μ', K,
+// |Δ| and PortZ (and MuMin, ReMin): the same points, those figures bit for
+// bit Run's, without the three logarithms a point of the gains and the
+// return loss (Bare).
+func Stability(c *circuit.Circuit, r *ac.Result) (*Result, error) {
+	return runAt(r, grid(c), true)
 }
 
 // RunAt sweeps r over the given frequencies.
-func RunAt(r *ac.Result, freqs []float64) (*Result, error) {
-	res := &Result{Points: make([]Point, 0, len(freqs)), MuMin: math.Inf(1), ReMin: math.Inf(1)}
+func RunAt(r *ac.Result, freqs []float64) (*Result, error) { return runAt(r, freqs, false) }
+
+// runAt is RunAt, bare or not.
+func runAt(r *ac.Result, freqs []float64, bare bool) (*Result, error) {
+	// The points are written in place: a Point is 144 bytes, and copying
+	// each through a return and an append showed in the profiles.
+	res := &Result{Points: make([]Point, len(freqs)), MuMin: math.Inf(1), ReMin: math.Inf(1), Bare: bare}
+	k := 0 // points written
 	first := true
-	gains := make([]float64, len(freqs)) // the points' GainDB, in one block
+	var gains []float64 // the points' GainDB and VoltageGainDB, in one block
+	if !bare {
+		gains = make([]float64, 2*len(freqs))
+	}
 	err := r.PortsEach(freqs, func(pp ac.PortPoint) error {
 		if first {
 			first = false
@@ -120,18 +176,24 @@ func RunAt(r *ac.Result, freqs []float64) (*Result, error) {
 				return errNoPort
 			}
 		}
-		pt := point(pp, res.TwoPort, res.OnePort, &gains[len(res.Points)])
+		pt := &res.Points[k]
+		if bare {
+			point(pt, pp, res.TwoPort, res.OnePort, nil, nil)
+		} else {
+			point(pt, pp, res.TwoPort, res.OnePort, &gains[2*k], &gains[2*k+1])
+		}
+		k++
 		if res.TwoPort && pt.Mu < res.MuMin {
 			res.MuMin, res.MuMinHz = pt.Mu, pp.Frequency
 		}
 		if re := real(pt.PortZ); re < res.ReMin {
 			res.ReMin, res.ReMinHz = re, pp.Frequency
 		}
-		res.Points = append(res.Points, pt)
 		return nil
 	})
+	res.Points = res.Points[:k]
 	if err == errNoPort {
-		return &Result{}, nil
+		return &Result{Bare: bare}, nil
 	}
 	if err != nil {
 		return nil, err
@@ -145,10 +207,12 @@ func RunAt(r *ac.Result, freqs []float64) (*Result, error) {
 	return res, nil
 }
 
-// point turns one two-port into S-parameters and stability figures; gain
-// holds the point's GainDB when it has one.
-func point(pp ac.PortPoint, two bool, one string, gain *float64) Point {
-	pt := Point{Frequency: pp.Frequency}
+// point turns one two-port into S-parameters and stability figures, written
+// into pt (zero); gain and vgain hold the point's GainDB and VoltageGainDB
+// when it has them. With gain nil (a bare sweep) the return loss and the
+// gains are left out.
+func point(pt *Point, pp ac.PortPoint, two bool, one string, gain, vgain *float64) {
+	pt.Frequency = pp.Frequency
 	if !two {
 		z, z0 := pp.Z[0][0], pp.RS
 		if one == "out" {
@@ -157,27 +221,33 @@ func point(pp ac.PortPoint, two bool, one string, gain *float64) Point {
 		pt.PortZ = z
 		g := (z - complex(z0, 0)) / (z + complex(z0, 0))
 		pt.S[0][0] = g
-		pt.ReturnLossDB = returnLoss(g)
-		return pt
+		if gain != nil {
+			pt.ReturnLossDB = returnLoss(cmplx.Abs(g))
+		}
+		return
 	}
 	pt.S = ToS(pp.Z, pp.RS, pp.RL)
-	s11, s21 := pt.S[0][0], pt.S[1][0]
-	pt.Mu, pt.MuPrime, pt.K, pt.Delta = Figures(pt.S)
-	pt.ReturnLossDB = returnLoss(s11)
+	s21 := pt.S[1][0]
+	abs11 := cmplx.Abs(pt.S[0][0])
+	pt.Mu, pt.MuPrime, pt.K, pt.Delta = figures(pt.S, abs11)
+	// The in port's impedance with the out port loaded by RL.
+	z := pp.Z
+	pt.PortZ = z[0][0] - z[0][1]*z[1][0]/(z[1][1]+complex(pp.RL, 0))
+	if gain == nil {
+		return
+	}
+	pt.ReturnLossDB = returnLoss(abs11)
 	if a := cmplx.Abs(s21); a > 0 {
 		*gain = 20 * math.Log10(a)
 		pt.GainDB = gain
 	}
-	// The in port's impedance with the out port loaded by RL.
-	z := pp.Z
-	pt.PortZ = z[0][0] - z[0][1]*z[1][0]/(z[1][1]+complex(pp.RL, 0))
 	if pt.GainDB != nil && pt.PortZ != 0 {
 		av := cmplx.Abs(z[1][0] * complex(pp.RL, 0) / ((z[1][1] + complex(pp.RL, 0)) * pt.PortZ))
 		if g := 20 * math.Log10(av); !math.IsInf(g, 0) && !math.IsNaN(g) {
-			pt.VoltageGainDB = &g
+			*vgain = g
+			pt.VoltageGainDB = vgain
 		}
 	}
-	return pt
 }
 
 // ToS converts an open-circuit impedance matrix to S-parameters referred to
@@ -199,10 +269,15 @@ func ToS(z [2][2]complex128, r1, r2 float64) [2][2]complex128 {
 // μ' = (1 − |S22|²)/(|S11 − Δ·S22*| + |S12·S21|),
 // K = (1 − |S11|² − |S22|² + |Δ|²)/(2·|S12·S21|), each capped at ±Cap.
 func Figures(s [2][2]complex128) (mu, muPrime, k, delta float64) {
+	return figures(s, cmplx.Abs(s[0][0]))
+}
+
+// figures is Figures given |S11|, which the return loss needs too.
+func figures(s [2][2]complex128, abs11 float64) (mu, muPrime, k, delta float64) {
 	s11, s12, s21, s22 := s[0][0], s[0][1], s[1][0], s[1][1]
 	d := s11*s22 - s12*s21
 	p := cmplx.Abs(s12 * s21)
-	a11, a22 := sq(cmplx.Abs(s11)), sq(cmplx.Abs(s22))
+	a11, a22 := sq(abs11), sq(cmplx.Abs(s22))
 	mu = ratio(1-a11, cmplx.Abs(s22-d*cmplx.Conj(s11))+p)
 	muPrime = ratio(1-a22, cmplx.Abs(s11-d*cmplx.Conj(s22))+p)
 	k = ratio(1-a11-a22+sq(cmplx.Abs(d)), 2*p)
@@ -224,9 +299,8 @@ func ratio(num, den float64) float64 {
 
 func sq(x float64) float64 { return x * x }
 
-// returnLoss is −20·log10|g| within ±ac.MaxReturnLossDB.
-func returnLoss(g complex128) float64 {
-	a := cmplx.Abs(g)
+// returnLoss is −20·log10 a within ±ac.MaxReturnLossDB, a = |Γ|.
+func returnLoss(a float64) float64 {
 	if a == 0 || math.IsNaN(a) {
 		return ac.MaxReturnLossDB
 	}

@@ -228,3 +228,35 @@ func TestMuAgreesWithKAndDelta(t *testing.T) {
 		t.Errorf("only %d points", n)
 	}
 }
+
+// TestStabilityIsBareRun: the stability rules' sweep gives Run's points with
+// the same S, μ, μ', K, |Δ| and PortZ, bit for bit, and the same least μ and
+// Re Z, leaving out only the return loss and the gains.
+func TestStabilityIsBareRun(t *testing.T) {
+	files, _ := filepath.Glob("../../testdata/circuits/*.toml")
+	for _, f := range files {
+		c, err := circuit.Load(f, circuit.Options{})
+		if err != nil {
+			t.Fatal(err)
+		}
+		cs := analysis.Run(c, nil)
+		full, err1 := Run(c, cs.AC)
+		bare, err2 := Stability(c, cs.AC)
+		if err1 != nil || err2 != nil {
+			t.Fatalf("%s: %v, %v", f, err1, err2)
+		}
+		if !bare.Bare || full.Bare || len(bare.Points) != len(full.Points) || bare.TwoPort != full.TwoPort || bare.OnePort != full.OnePort ||
+			bare.MuMin != full.MuMin || bare.MuMinHz != full.MuMinHz || bare.ReMin != full.ReMin || bare.ReMinHz != full.ReMinHz {
+			t.Fatalf("%s: bare %v, full %v", f, bare, full)
+		}
+		for i, p := range bare.Points {
+			q := full.Points[i]
+			if p.Frequency != q.Frequency || p.S != q.S || p.Mu != q.Mu || p.MuPrime != q.MuPrime || p.K != q.K || p.Delta != q.Delta || p.PortZ != q.PortZ {
+				t.Errorf("%s at %g Hz: bare %+v, full %+v", f, p.Frequency, p, q)
+			}
+			if p.ReturnLossDB != 0 || p.GainDB != nil || p.VoltageGainDB != nil {
+				t.Errorf("%s at %g Hz: a bare point with gains %+v", f, p.Frequency, p)
+			}
+		}
+	}
+}
