@@ -43,10 +43,11 @@ const escapes = 1
 
 // maxPairs bounds the parameters escape pairs: the live parameters whose
 // single flip moved the figure most at the case escaped from, at most this
-// many (6 pairs of flips from a vertex). Four is the fewest that finds
-// every worst vertex of the generated circuits (with three, three items
-// of 5,016 missed theirs).
-const maxPairs = 4
+// many (10 pairs of flips from a vertex). With four, every worst vertex of
+// the 500 generated circuits was still found, but one more item of the 500
+// further ones (-generated 1000, a return loss) missed its; with three,
+// three items of the first 500 did.
+const maxPairs = 5
 
 // maxProbes bounds escape's probes of the parameters that did not move the
 // item at nominal: they are probed only when there are at most this many
@@ -83,8 +84,8 @@ const probeTol = 1e-4
 // item whose case changed is then judged once more at exactly its case
 // (items at one case share it). At most maxRounds rounds. Per round a walk
 // of k live parameters asks for at most 2·k·beam flips, or, once and only
-// when its worst case reached NearLimit, for escape's 4·C(maxPairs, 2) = 24
-// pairs (6 from a vertex) and, when probing, 2 probes and the walk's worst
+// when its worst case reached NearLimit, for escape's 4·C(maxPairs, 2) = 40
+// pairs (10 from a vertex) and, when probing, 2 probes and the walk's worst
 // case judged exactly (3 analyses shared with no other); the walk from the
 // opposite case asks for its start and 2·k flips.
 func refine(c *circuit.Circuit, topo *topology.Topology, nominal *analysis.Case, cfg *engine.Config,
