@@ -47,10 +47,11 @@ func (r *Result) at(f float64) (*freq, error) {
 		return fr, nil
 	}
 	nw := r.net
-	fr := &freq{w: 2 * math.Pi * f, sol: map[branch][]complex128{}, fresh: map[string]*lu{}}
+	fr := &freq{w: 2 * math.Pi * f, sol: map[branch][]complex128{}} // fresh is made by the first removal that needs it
 	n := nw.n
 	fr.d = nw.admBlock()
-	lo, hi := make([]int, n), make([]int, n)
+	spans := make([]int, 2*n) // lo and hi in one block
+	lo, hi := spans[:n:n], spans[n:]
 	for i := range n {
 		lo[i], hi[i] = i, i
 	}
@@ -295,6 +296,9 @@ func (r *Result) impedance(fr *freq, u branch, mods []mod, key string) (complex1
 func (r *Result) freshImpedance(fr *freq, u branch, mods []mod, key string) (complex128, error) {
 	f, ok := fr.fresh[key]
 	if !ok {
+		if fr.fresh == nil {
+			fr.fresh = map[string]*lu{}
+		}
 		clear(fr.fresh) // its memory is about to be reused
 		y := r.base(fr).cloneInto(fr.scratch)
 		fr.scratch = y

@@ -61,7 +61,8 @@ type sparse struct {
 
 // newSparse allocates rows spanning lo[i] … hi[i] (every entry +0).
 func newSparse(n int, lo, hi []int) *sparse {
-	m := &sparse{n: n, rows: make([]row, n), colLast: make([]int, n), room: make([]int, n)}
+	ints := make([]int, 2*n) // colLast and room in one block
+	m := &sparse{n: n, rows: make([]row, n), colLast: ints[:n:n], room: ints[n:]}
 	for i := range m.colLast {
 		m.colLast[i] = -1
 	}
