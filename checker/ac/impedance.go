@@ -5,7 +5,6 @@ import (
 	"math"
 	"math/cmplx"
 	"strconv"
-	"strings"
 )
 
 // maxAmplification is the largest error growth the low-rank update in
@@ -389,16 +388,12 @@ func (r *Result) Impedance(f float64, a, b string, removed ...string) (complex12
 	if !ok {
 		return 0, fmt.Errorf("no net %q in the circuit", b)
 	}
-	idx, err := r.net.refs(removed)
+	var idxBuf [4]int
+	idx, err := r.net.refs(idxBuf[:0], removed)
 	if err != nil {
 		return 0, err
 	}
-	var sb strings.Builder
-	for _, i := range idx {
-		sb.WriteString(strconv.Itoa(i))
-		sb.WriteByte(',')
-	}
-	key := cacheKey{f: f, u: branch{ia, ib}, removed: sb.String()}
+	key := cacheKey{f: f, u: branch{ia, ib}, removed: removedKey(idx)}
 
 	r.mu.Lock()
 	defer r.mu.Unlock()
@@ -409,7 +404,8 @@ func (r *Result) Impedance(f float64, a, b string, removed ...string) (complex12
 	if err != nil {
 		return 0, err
 	}
-	var mods []mod
+	var modBuf [4]mod
+	mods := modBuf[:0]
 	if r.net.source >= 0 {
 		mods = append(mods, mod{r.net.source, 1})
 	}
@@ -422,4 +418,25 @@ func (r *Result) Impedance(f float64, a, b string, removed ...string) (complex12
 	}
 	r.cache[key] = z
 	return z, nil
+}
+
+// removedKey names a sorted removed set: the indices joined by commas. One
+// index below 100 is a constant string (strconv.Itoa's), so the usual
+// query, one part removed, builds no string.
+func removedKey(idx []int) string {
+	switch len(idx) {
+	case 0:
+		return ""
+	case 1:
+		return strconv.Itoa(idx[0])
+	}
+	var buf [32]byte
+	b := buf[:0]
+	for k, i := range idx {
+		if k > 0 {
+			b = append(b, ',')
+		}
+		b = strconv.AppendInt(b, int64(i), 10)
+	}
+	return string(b)
 }
