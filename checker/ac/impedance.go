@@ -110,8 +110,13 @@ func (fr *freq) solveBranch(b branch) []complex128 {
 		return x
 	}
 	n := fr.f0.n
+	var x []complex128
 	if len(fr.rhs) != n {
-		fr.rhs = make([]complex128, n)
+		// The first solution shares the right-hand side's block.
+		block := make([]complex128, 2*n)
+		fr.rhs, x = block[:n:n], block[n:]
+	} else {
+		x = make([]complex128, n)
 	}
 	rhs := fr.rhs
 	clear(rhs)
@@ -121,7 +126,7 @@ func (fr *freq) solveBranch(b branch) []complex128 {
 	if b.to != ground {
 		rhs[b.to]-- // a branch from a net to itself is the zero vector
 	}
-	x := fr.f0.solve(rhs)
+	x = fr.f0.solveInto(x, rhs)
 	fr.sol[b] = x
 	return x
 }

@@ -160,7 +160,8 @@ func (m *sparse) factor() (*lu, error) {
 	n := m.n
 	rows := m.rows
 	if len(m.piv) != n {
-		m.piv, m.nz, m.diag = make([]int, n), make([]int, 0, n), make([]divisor, n)
+		ints := make([]int, 2*n) // piv and nz in one block
+		m.piv, m.nz, m.diag = ints[:n:n], ints[n:n], make([]divisor, n)
 	}
 	piv, nz, diag := m.piv, m.nz, m.diag
 	for i := range piv {
