@@ -119,12 +119,15 @@ func analyze(c *circuit.Circuit, op *dc.Result, like *network) (*Result, error) 
 		return nil, err
 	}
 	var reactive, windings, bjts, fets int // the maps' sizes, so that they do not grow entry by entry
+	queries := 0                           // partFigures' Impedance queries, each one cache entry
 	for _, p := range c.Parts {
 		switch p.Kind {
 		case circuit.Capacitor, circuit.Inductor:
 			reactive++
+			queries++
 		case circuit.Transformer:
 			windings++
+			queries += len(p.Windings)
 		case circuit.NPN, circuit.PNP:
 			bjts++
 		case circuit.NJFET, circuit.PJFET, circuit.DualGateMOSFET:
@@ -140,7 +143,7 @@ func analyze(c *circuit.Circuit, op *dc.Result, like *network) (*Result, error) 
 		FETs:     make(map[string]*FET, fets),
 		net:      nw,
 		freqs:    map[float64]*freq{},
-		cache:    map[cacheKey]complex128{},
+		cache:    make(map[cacheKey]complex128, queries),
 	}
 	for i, f := range [3]float64{lo, math.Sqrt(lo * hi), hi} {
 		if r.Band[i], err = r.bandPoint(f); err != nil {
@@ -241,14 +244,16 @@ func (r *Result) partFigures(c *circuit.Circuit, op *dc.Result, lo, hi float64) 
 			}
 			r.Parts[p.Ref] = x
 		case circuit.Transformer:
-			ws := map[string]*Winding{}
-			for _, wd := range p.Windings {
+			ws := make(map[string]*Winding, len(p.Windings))
+			wds := make([]Winding, len(p.Windings)) // one block for the transformer's windings
+			for k, wd := range p.Windings {
 				z, err := r.Impedance(lo, wd.Nets[0], wd.Nets[1], p.Ref)
 				if err != nil {
 					return fmt.Errorf("part %s winding %s: %w", p.Ref, wd.Name, err)
 				}
 				l := p.AL * wd.Turns * wd.Turns
-				ws[wd.Name] = &Winding{Inductance: l, Reactance: w * l, Termination: cmplx.Abs(z)}
+				wds[k] = Winding{Inductance: l, Reactance: w * l, Termination: cmplx.Abs(z)}
+				ws[wd.Name] = &wds[k]
 			}
 			r.Windings[p.Ref] = ws
 		case circuit.NPN, circuit.PNP:

@@ -5,7 +5,6 @@ import (
 	"math"
 	"math/cmplx"
 	"strconv"
-	"strings"
 )
 
 // maxAmplification is the largest error growth the low-rank update in
@@ -47,10 +46,11 @@ func (r *Result) at(f float64) (*freq, error) {
 		return fr, nil
 	}
 	nw := r.net
-	fr := &freq{w: 2 * math.Pi * f, sol: map[branch][]complex128{}, fresh: map[string]*lu{}}
+	fr := &freq{w: 2 * math.Pi * f, sol: map[branch][]complex128{}} // fresh is made by the first removal that needs it
 	n := nw.n
 	fr.d = nw.admBlock()
-	lo, hi := make([]int, n), make([]int, n)
+	spans := make([]int, 2*n) // lo and hi in one block
+	lo, hi := spans[:n:n], spans[n:]
 	for i := range n {
 		lo[i], hi[i] = i, i
 	}
@@ -110,8 +110,13 @@ func (fr *freq) solveBranch(b branch) []complex128 {
 		return x
 	}
 	n := fr.f0.n
+	var x []complex128
 	if len(fr.rhs) != n {
-		fr.rhs = make([]complex128, n)
+		// The first solution shares the right-hand side's block.
+		block := make([]complex128, 2*n)
+		fr.rhs, x = block[:n:n], block[n:]
+	} else {
+		x = make([]complex128, n)
 	}
 	rhs := fr.rhs
 	clear(rhs)
@@ -121,7 +126,7 @@ func (fr *freq) solveBranch(b branch) []complex128 {
 	if b.to != ground {
 		rhs[b.to]-- // a branch from a net to itself is the zero vector
 	}
-	x := fr.f0.solve(rhs)
+	x = fr.f0.solveInto(x, rhs)
 	fr.sol[b] = x
 	return x
 }
@@ -295,6 +300,9 @@ func (r *Result) impedance(fr *freq, u branch, mods []mod, key string) (complex1
 func (r *Result) freshImpedance(fr *freq, u branch, mods []mod, key string) (complex128, error) {
 	f, ok := fr.fresh[key]
 	if !ok {
+		if fr.fresh == nil {
+			fr.fresh = map[string]*lu{}
+		}
 		clear(fr.fresh) // its memory is about to be reused
 		y := r.base(fr).cloneInto(fr.scratch)
 		fr.scratch = y
@@ -385,16 +393,12 @@ func (r *Result) Impedance(f float64, a, b string, removed ...string) (complex12
 	if !ok {
 		return 0, fmt.Errorf("no net %q in the circuit", b)
 	}
-	idx, err := r.net.refs(removed)
+	var idxBuf [4]int
+	idx, err := r.net.refs(idxBuf[:0], removed)
 	if err != nil {
 		return 0, err
 	}
-	var sb strings.Builder
-	for _, i := range idx {
-		sb.WriteString(strconv.Itoa(i))
-		sb.WriteByte(',')
-	}
-	key := cacheKey{f: f, u: branch{ia, ib}, removed: sb.String()}
+	key := cacheKey{f: f, u: branch{ia, ib}, removed: removedKey(idx)}
 
 	r.mu.Lock()
 	defer r.mu.Unlock()
@@ -405,7 +409,8 @@ func (r *Result) Impedance(f float64, a, b string, removed ...string) (complex12
 	if err != nil {
 		return 0, err
 	}
-	var mods []mod
+	var modBuf [4]mod
+	mods := modBuf[:0]
 	if r.net.source >= 0 {
 		mods = append(mods, mod{r.net.source, 1})
 	}
@@ -418,4 +423,25 @@ func (r *Result) Impedance(f float64, a, b string, removed ...string) (complex12
 	}
 	r.cache[key] = z
 	return z, nil
+}
+
+// removedKey names a sorted removed set: the indices joined by commas. One
+// index below 100 is a constant string (strconv.Itoa's), so the usual
+// query, one part removed, builds no string.
+func removedKey(idx []int) string {
+	switch len(idx) {
+	case 0:
+		return ""
+	case 1:
+		return strconv.Itoa(idx[0])
+	}
+	var buf [32]byte
+	b := buf[:0]
+	for k, i := range idx {
+		if k > 0 {
+			b = append(b, ',')
+		}
+		b = strconv.AppendInt(b, int64(i), 10)
+	}
+	return string(b)
 }

@@ -61,7 +61,8 @@ type sparse struct {
 
 // newSparse allocates rows spanning lo[i] … hi[i] (every entry +0).
 func newSparse(n int, lo, hi []int) *sparse {
-	m := &sparse{n: n, rows: make([]row, n), colLast: make([]int, n), room: make([]int, n)}
+	ints := make([]int, 2*n) // colLast and room in one block
+	m := &sparse{n: n, rows: make([]row, n), colLast: ints[:n:n], room: ints[n:]}
 	for i := range m.colLast {
 		m.colLast[i] = -1
 	}
@@ -159,7 +160,8 @@ func (m *sparse) factor() (*lu, error) {
 	n := m.n
 	rows := m.rows
 	if len(m.piv) != n {
-		m.piv, m.nz, m.diag = make([]int, n), make([]int, 0, n), make([]divisor, n)
+		ints := make([]int, 2*n) // piv and nz in one block
+		m.piv, m.nz, m.diag = ints[:n:n], ints[n:n], make([]divisor, n)
 	}
 	piv, nz, diag := m.piv, m.nz, m.diag
 	for i := range piv {

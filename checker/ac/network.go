@@ -536,9 +536,10 @@ func span(lo, hi []int, br []branch, d []complex128) {
 	}
 }
 
-// refs returns the sorted, de-duplicated element indices of the named parts.
-func (nw *network) refs(removed []string) ([]int, error) {
-	idx := make([]int, 0, len(removed)) // a query removes a part or two: a linear search beats a set
+// refs appends to idx (empty, the caller's buffer) the sorted,
+// de-duplicated element indices of the named parts.
+func (nw *network) refs(idx []int, removed []string) ([]int, error) {
+	// a query removes a part or two: a linear search beats a set
 	for _, ref := range removed {
 		i, ok := nw.parts[ref]
 		if !ok {
