@@ -443,28 +443,6 @@ func (f *FET) String() string {
 	return fmt.Sprintf("ID %.6g A, VGS %.6g V, VDS %.6g V, %s", f.ID, f.VGS, f.VDS, f.Region)
 }
 
-// addFET compiles one FET part.
-func (nl *netlist) addFET(p *circuit.Part, node func(string) int) *Failure {
-	want := 3
-	if p.Kind == circuit.DualGateMOSFET {
-		want = 4
-	}
-	if len(p.Nets) != want {
-		return invalid(p.Ref, "needs %d nets, has %d", want, len(p.Nets))
-	}
-	q, f := newFET(p, nl.vt)
-	if f != nil {
-		return f
-	}
-	q.d, q.g, q.s = node(p.Nets[0]), node(p.Nets[1]), node(p.Nets[2])
-	if q.dual {
-		q.g2 = node(p.Nets[3])
-	}
-	q.terminals = [4]int{q.d, q.g, q.g2, q.s}
-	nl.fets = append(nl.fets, q)
-	return nil
-}
-
 // fetResult stores the operating point of the FET ref.
 func (nl *netlist) fetResult(r *Result, ref string, x []float64) {
 	for k := range nl.fets {

@@ -146,154 +146,15 @@ func compile(c *circuit.Circuit) (*netlist, *Failure) {
 			nl.nodes++
 		}
 	}
-	inner := nl.nets // the next internal base
-	node := func(net string) int {
-		if net == circuit.Gnd {
-			return gnd
-		}
-		return nl.index[net]
-	}
-	shorts := newShortFinder(nl.nodes)
-	addBranch := func(p, m int, e, r float64, owner string) {
-		row := nl.nodes + len(nl.sources)
-		nl.sources = append(nl.sources, source{p: p, m: m, e: e, r: r, row: row, seq: nl.adds})
-		nl.adds++
-		nl.branchOwner = append(nl.branchOwner, owner)
-		nl.branchOf[owner] = row
-	}
-	// resistive adds r between a and b, as a conductance or, when small, a branch.
-	resistive := func(a, b int, r float64, owner string) {
-		if r < branchBelow {
-			addBranch(a, b, 0, r, owner)
-			return
-		}
-		nl.addCond(a, b, 1/r)
-	}
-
-	for _, s := range c.Supplies {
-		if s == nil {
-			continue
-		}
-		owner := "supply " + s.Net
-		if !finite(s.Volts) || !(s.Impedance >= 0) || math.IsInf(s.Impedance, 0) {
-			return nil, &Failure{Reason: fmt.Sprintf("supply %s: volts %g behind %g Ω is not a source", s.Net, s.Volts, s.Impedance), Net: s.Net, Cause: Invalid}
-		}
-		n := node(s.Net)
-		if s.Impedance == 0 {
-			if f := shorts.add(n, gnd, s.Volts, owner, true); f != nil {
-				return nil, f.failure(nl.names)
-			}
-			addBranch(n, gnd, s.Volts, 0, owner)
-			continue
-		}
-		if s.Impedance < branchBelow {
-			addBranch(n, gnd, s.Volts, s.Impedance, owner)
-			continue
-		}
-		nl.addCond(n, gnd, 1/s.Impedance)
-		if n != gnd {
-			nl.nortons = append(nl.nortons, norton{n, s.Volts / s.Impedance})
-		}
-	}
-	for _, p := range c.Ports {
-		if p == nil {
-			continue
-		}
-		if !positive(p.Impedance) {
-			return nil, &Failure{Reason: fmt.Sprintf("port %s: impedance %g Ω", p.Name, p.Impedance), Net: p.Net, Cause: Invalid}
-		}
-		nl.addCond(node(p.Net), gnd, 1/p.Impedance)
-	}
-	for _, p := range c.Parts {
-		if p == nil {
-			continue
-		}
-		switch p.Kind {
-		case circuit.Resistor, circuit.Capacitor, circuit.Inductor:
-			if len(p.Nets) != 2 {
-				return nil, invalid(p.Ref, "needs two nets, has %d", len(p.Nets))
-			}
-		case circuit.Potentiometer, circuit.NPN, circuit.PNP, circuit.NJFET, circuit.PJFET:
-			if len(p.Nets) != 3 {
-				return nil, invalid(p.Ref, "needs three nets, has %d", len(p.Nets))
-			}
-		}
-		switch p.Kind {
-		case circuit.Resistor:
-			if !positive(p.Value) {
-				return nil, invalid(p.Ref, "resistance %g Ω", p.Value)
-			}
-			resistive(node(p.Nets[0]), node(p.Nets[1]), p.Value, p.Ref)
-		case circuit.Capacitor:
-			// open at DC
-		case circuit.Inductor:
-			if err := addDCR(shorts, nl.names, p.Ref, node(p.Nets[0]), node(p.Nets[1]), p.Resistance, resistive, addBranch); err != nil {
-				return nil, err
-			}
-		case circuit.Transformer:
-			for _, w := range p.Windings {
-				if w == nil {
-					continue
-				}
-				if err := addDCR(shorts, nl.names, p.Ref+"."+w.Name, node(w.Nets[0]), node(w.Nets[1]), w.Resistance, resistive, addBranch); err != nil {
-					return nil, err
-				}
-			}
-		case circuit.Potentiometer:
-			ra, rb, ok := potSections(p)
-			if !ok {
-				return nil, invalid(p.Ref, "value %g Ω at setting %g", p.Value, p.Setting)
-			}
-			w := node(p.Nets[1])
-			resistive(node(p.Nets[0]), w, ra, p.Ref+":a")
-			resistive(w, node(p.Nets[2]), rb, p.Ref+":b")
-		case circuit.NPN, circuit.PNP:
-			q, f := newBJT(p, nl.tempC, nl.vt)
-			if f != nil {
-				return nil, f
-			}
-			q.c, q.b, q.e = node(p.Nets[0]), node(p.Nets[1]), node(p.Nets[2])
-			q.bp = q.b
-			if rb := p.BJT.RB; rb != 0 {
-				if !(rb > 0) || math.IsInf(rb, 0) {
-					return nil, invalid(p.Ref, "base resistance rb %g Ω", rb)
-				}
-				resistive(q.bp, inner, rb, p.Ref+":rb")
-				q.b = inner
-				inner++
-			}
-			nl.bjts = append(nl.bjts, q)
-		case circuit.NJFET, circuit.PJFET, circuit.DualGateMOSFET:
-			if f := nl.addFET(p, node); f != nil {
-				return nil, f
-			}
-		default:
-			return nil, invalid(p.Ref, "kind %q has no DC model", p.Kind)
-		}
+	w := &walker{nl: nl, shorts: newShortFinder(nl.nodes), inner: nl.nets}
+	if f := w.walk(c); f != nil {
+		return nil, f
 	}
 	nl.size = nl.nodes + len(nl.sources)
-	if f := shorts.forcedJunction(nl); f != nil {
+	if f := w.shorts.forcedJunction(nl); f != nil {
 		return nil, f
 	}
 	return nl, nil
-}
-
-// addDCR adds an inductor or winding: its resistance, or a 0 V branch when it
-// has none (so that its current is an unknown of its own).
-func addDCR(sf *shortFinder, names []string, owner string, a, b int, r float64,
-	resistive func(a, b int, r float64, owner string), addBranch func(p, m int, e, r float64, owner string)) *Failure {
-	if !(r >= 0) || math.IsInf(r, 0) {
-		return invalid(owner, "DC resistance %g Ω", r)
-	}
-	if r > 0 {
-		resistive(a, b, r, owner)
-		return nil
-	}
-	if f := sf.add(a, b, 0, owner, false); f != nil {
-		return f.failure(names)
-	}
-	addBranch(a, b, 0, 0, owner)
-	return nil
 }
 
 // potSections splits a potentiometer's track at its wiper (FORMAT.md §6).

@@ -1,7 +1,6 @@
 package dc
 
 import (
-	"math"
 	"slices"
 	"sync"
 
@@ -127,7 +126,7 @@ func (p *Plan) Solve(c *circuit.Circuit) (*Result, error) {
 	return s.finish(c, o, method)
 }
 
-// refill writes c's values into the netlist, walking c as compile does. It
+// refill writes c's values into the netlist by compile's own walk. It
 // reports false when c is not wired as the netlist's circuit, when a value
 // would change how a part is modelled (a resistance crossing branchBelow, a
 // winding resistance becoming zero), or when a value is one compile refuses.
@@ -137,166 +136,7 @@ func (nl *netlist) refill(c *circuit.Circuit) bool {
 		return false
 	}
 	nl.tempC, nl.vt = t, ThermalVoltage(t)
-	var ci, si, ni, bi, fi, seq int
-	node := func(net string) int {
-		if net == circuit.Gnd {
-			return gnd
-		}
-		i, ok := nl.index[net]
-		if !ok {
-			return -2 // matches nothing
-		}
-		return i
-	}
-	cond := func(a, b int, g float64) bool {
-		if ci == len(nl.conds) {
-			return false
-		}
-		k := &nl.conds[ci]
-		if k.a != a || k.b != b || k.seq != seq {
-			return false
-		}
-		k.g = g
-		ci++
-		seq++
-		return true
-	}
-	branch := func(pn, m int, e, r float64) bool {
-		if si == len(nl.sources) {
-			return false
-		}
-		v := &nl.sources[si]
-		if v.p != pn || v.m != m || v.seq != seq || (v.r == 0) != (r == 0) {
-			return false
-		}
-		v.e, v.r = e, r
-		si++
-		seq++
-		return true
-	}
-	resistive := func(a, b int, r float64) bool {
-		if r < branchBelow {
-			return branch(a, b, 0, r)
-		}
-		return cond(a, b, 1/r)
-	}
-	dcr := func(a, b int, r float64) bool {
-		if !(r >= 0) || math.IsInf(r, 0) {
-			return false
-		}
-		if r > 0 {
-			return resistive(a, b, r)
-		}
-		return branch(a, b, 0, 0)
-	}
-	for _, s := range c.Supplies {
-		if s == nil {
-			continue
-		}
-		if !finite(s.Volts) || !(s.Impedance >= 0) || math.IsInf(s.Impedance, 0) {
-			return false
-		}
-		n := node(s.Net)
-		switch {
-		case s.Impedance == 0:
-			if !branch(n, gnd, s.Volts, 0) {
-				return false
-			}
-		case s.Impedance < branchBelow:
-			if !branch(n, gnd, s.Volts, s.Impedance) {
-				return false
-			}
-		default:
-			if !cond(n, gnd, 1/s.Impedance) {
-				return false
-			}
-			if n != gnd {
-				if ni == len(nl.nortons) || nl.nortons[ni].n != n {
-					return false
-				}
-				nl.nortons[ni].i = s.Volts / s.Impedance
-				ni++
-			}
-		}
-	}
-	for _, p := range c.Ports {
-		if p == nil {
-			continue
-		}
-		if !positive(p.Impedance) || !cond(node(p.Net), gnd, 1/p.Impedance) {
-			return false
-		}
-	}
-	for _, p := range c.Parts {
-		if p == nil {
-			continue
-		}
-		ok := true
-		switch p.Kind {
-		case circuit.Resistor:
-			ok = len(p.Nets) == 2 && positive(p.Value) && resistive(node(p.Nets[0]), node(p.Nets[1]), p.Value)
-		case circuit.Capacitor:
-			ok = len(p.Nets) == 2
-		case circuit.Inductor:
-			ok = len(p.Nets) == 2 && dcr(node(p.Nets[0]), node(p.Nets[1]), p.Resistance)
-		case circuit.Transformer:
-			for _, w := range p.Windings {
-				if w != nil && ok {
-					ok = dcr(node(w.Nets[0]), node(w.Nets[1]), w.Resistance)
-				}
-			}
-		case circuit.Potentiometer:
-			ra, rb, good := potSections(p)
-			ok = good && len(p.Nets) == 3
-			if ok {
-				w := node(p.Nets[1])
-				ok = resistive(node(p.Nets[0]), w, ra) && resistive(w, node(p.Nets[2]), rb)
-			}
-		case circuit.NPN, circuit.PNP:
-			if len(p.Nets) != 3 || bi == len(nl.bjts) {
-				return false
-			}
-			q, f := newBJT(p, nl.tempC, nl.vt)
-			old := &nl.bjts[bi]
-			bi++
-			if f != nil || q.ref != old.ref || q.pol != old.pol ||
-				old.c != node(p.Nets[0]) || old.bp != node(p.Nets[1]) || old.e != node(p.Nets[2]) {
-				return false
-			}
-			old.is, old.betaF, old.vcrit = q.is, q.betaF, q.vcrit
-			rb := p.BJT.RB
-			if (rb != 0) != (old.b != old.bp) {
-				return false
-			}
-			if rb != 0 {
-				ok = rb > 0 && !math.IsInf(rb, 0) && resistive(old.bp, old.b, rb)
-			}
-		case circuit.NJFET, circuit.PJFET, circuit.DualGateMOSFET:
-			if fi == len(nl.fets) {
-				return false
-			}
-			q, f := newFET(p, nl.vt)
-			old := &nl.fets[fi]
-			fi++
-			if f != nil || q.ref != old.ref || q.pol != old.pol || q.dual != old.dual ||
-				len(p.Nets) != 3+btoi(q.dual) || old.d != node(p.Nets[0]) || old.g != node(p.Nets[1]) || old.s != node(p.Nets[2]) {
-				return false
-			}
-			old.idss, old.vp, old.vcrit = q.idss, q.vp, q.vcrit
-		default:
-			return false
-		}
-		if !ok {
-			return false
-		}
-	}
-	return ci == len(nl.conds) && si == len(nl.sources) && ni == len(nl.nortons) &&
-		bi == len(nl.bjts) && fi == len(nl.fets)
-}
-
-func btoi(b bool) int {
-	if b {
-		return 1
-	}
-	return 0
+	w := &walker{nl: nl, refill: true, inner: nl.nets}
+	return w.walk(c) == nil && !w.mismatch && w.ci == len(nl.conds) && w.si == len(nl.sources) &&
+		w.ni == len(nl.nortons) && w.bi == len(nl.bjts) && w.fi == len(nl.fets)
 }
