@@ -39,7 +39,8 @@
 //     the device, so the unknowns stay the nets and branch currents.
 //   - The linear solves use gonum's LAPACK LU with partial pivoting.
 //   - Plan (plan.go) solves the worst-case search's cases of one circuit on
-//     the netlist and matrix pattern compiled once, with Solve's arithmetic
+//     the netlist and matrix pattern compiled once (a case's values are
+//     written by compile's own walk, walk.go), with Solve's arithmetic
 //     and therefore its answers to the bit; optionally (warm) from the
 //     nominal operating point, which saves about 60 % of the iterations but
 //     moves the answers in their last bits.
